@@ -1,0 +1,27 @@
+// Public API of the analysis folder: rates, fits with confidence intervals, floors, verdicts, Richardson
+// extrapolation and the GCI.
+export type { OrderFit, SeriesAnalysis, SeriesInput, Verdict } from './types.ts';
+export { rateInH, rateInDofs, pairwiseRates } from './rates.ts';
+export { tQuantileTwoSided, studentTTwoSidedTail, studentTDensity } from './tquantile.ts';
+export { normalUpperQuantile, normalUpperTail } from './normal-quantile.ts';
+export { fitLine, fitOrderInH, fitOrderInDofs, type LineFit } from './fit.ts';
+export { detectFloor, roundOffThreshold, type FloorDetection, type FloorKind, type FloorOptions } from './floors.ts';
+export { asymptoticRange, type AsymptoticRange } from './asymptotic-range.ts';
+export { analyseSeries, DEFAULT_TOLERANCE, DEFAULT_FIT_WINDOW, CI_WIDTH_FACTOR } from './verdict.ts';
+export {
+  richardsonExtrapolate,
+  observedOrderThreeLevels,
+  richardsonSequence,
+  type ThreeLevelOrder,
+  type RichardsonSequence,
+} from './richardson.ts';
+export {
+  gridConvergenceIndex,
+  gciTwoGrids,
+  representativeSize,
+  MIN_REFINEMENT_RATIO,
+  SAFETY_FACTOR_THREE_GRIDS,
+  SAFETY_FACTOR_TWO_GRIDS,
+  type GciResult,
+  type ConvergenceKind,
+} from './gci.ts';

@@ -1,0 +1,35 @@
+import { findStudyFiles, loadStudy } from '../study/load.ts';
+import { expectedOrders } from '../study/expected.ts';
+import { DEFAULT_NORMS } from '../study/runner.ts';
+import { RungsInputError } from '../errors.ts';
+import { problemLine } from './output.ts';
+
+/** `rungs list`: one block per study with its domain, discretization, ladder and expected orders. */
+export async function listCommand(paths: string[]): Promise<number> {
+  let status = 0;
+  let files: string[];
+  try { files = findStudyFiles(paths); } catch (err) {
+    if (err instanceof RungsInputError) { process.stderr.write(problemLine('', err.message) + '\n'); return 2; }
+    throw err;
+  }
+  for (const file of files) {
+    try {
+      const { declaration: d, file: shown } = await loadStudy(file);
+      const norms = d.norms ?? DEFAULT_NORMS;
+      const exp = expectedOrders(d, norms);
+      const disc = d.discretization.kind === 'lagrange' ? `Lagrange degree ${d.discretization.degree}` : d.discretization.label;
+      const orders = norms.map((nm) => `${nm} ${exp[nm] ?? '?'}`).join(', ');
+      process.stdout.write(
+        `${d.name}  (${shown})\n` +
+        `  ${d.domain.label}; ${disc}\n` +
+        `  ladder n = ${d.ladder.n.join(', ')}${d.ladder.perturb ? ` perturbed by ${d.ladder.perturb.fraction}·h` : ''}\n` +
+        `  expected orders: ${orders}${d.expect ? `; demonstrates: ${d.expect.flaw} (expects ${d.expect.verdict})` : ''}\n`,
+      );
+    } catch (err) {
+      if (!(err instanceof RungsInputError)) throw err;
+      process.stderr.write(problemLine('', err.message) + '\n');
+      status = 2;
+    }
+  }
+  return status;
+}

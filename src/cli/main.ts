@@ -1,0 +1,36 @@
+#!/usr/bin/env node
+import { Command, InvalidArgumentError, Option } from 'commander';
+import { runCommand } from './run-command.ts';
+import { listCommand } from './list-command.ts';
+
+function positiveInt(v: string): number {
+  const n = Number(v);
+  if (!Number.isInteger(n) || n < 2) throw new InvalidArgumentError('give a whole number of levels, at least 2');
+  return n;
+}
+
+const program = new Command();
+program
+  .name('rungs')
+  .description('Convergence studies for finite element discretizations: run a ladder of refined meshes, measure the errors, fit the observed orders and give a verdict with reasons.')
+  .showHelpAfterError()
+  .exitOverride((err) => { process.exit(err.exitCode === 0 ? 0 : 2); });
+
+program
+  .command('run')
+  .description('run studies (files or folders of *.study.ts) and write their reports')
+  .argument('[paths...]', 'study files or folders', ['studies'])
+  .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
+  .option('--out <dir>', 'folder for the reports', 'reports')
+  .option('--json', 'print the whole result as JSON on standard output instead of tables')
+  .option('--quiet', 'print only the verdict lines')
+  .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
+  .action(async (paths: string[], o) => { process.exitCode = await runCommand(paths, o); });
+
+program
+  .command('list')
+  .description('list the studies found, with their ladders and expected orders')
+  .argument('[paths...]', 'study files or folders', ['studies'])
+  .action(async (paths: string[]) => { process.exitCode = await listCommand(paths); });
+
+await program.parseAsync(process.argv);

@@ -1,0 +1,25 @@
+import { parse, derivative, simplify, OperatorNode } from 'mathjs';
+const u = parse('exp(-x) * sin(3*y) + x*y'), k = parse('1 + 0.25*x*y');
+let t0 = performance.now();
+const gx = derivative(u, 'x', {simplify:false}), gy = derivative(u, 'y', {simplify:false});
+const fx = derivative(new OperatorNode('*','multiply',[k,gx]), 'x', {simplify:false});
+const fy = derivative(new OperatorNode('*','multiply',[k,gy]), 'y', {simplify:false});
+const f = new OperatorNode('-','unaryMinus',[new OperatorNode('+','add',[fx,fy])]);
+let t1 = performance.now();
+const count = n => { let c=0; n.traverse(()=>c++); return c; };
+console.log('raw', count(f), f.toString(), t1-t0);
+t0=performance.now(); const s = simplify(f); t1=performance.now();
+console.log('simp', count(s), s.toString(), t1-t0);
+t0=performance.now(); const s2 = simplify(f); t1=performance.now(); console.log('again', t1-t0);
+const u3 = parse('sin(pi*x)*sin(pi*y)*sin(pi*z)*exp(x*y*z)'), k3 = parse('1+x^2+y*z');
+const vars=['x','y','z']; let terms=[];
+t0=performance.now();
+for (const v of vars) { const g = simplify(derivative(u3, v, {simplify:false})); terms.push(derivative(new OperatorNode('*','multiply',[k3,g]), v, {simplify:false})); }
+const f3 = new OperatorNode('-','unaryMinus',[new OperatorNode('+','add',[new OperatorNode('+','add',[terms[0],terms[1]]),terms[2]])]);
+t1=performance.now(); console.log('raw3', count(f3), t1-t0);
+t0=performance.now(); const s3 = simplify(f3); t1=performance.now(); console.log('simp3', count(s3), t1-t0, s3.toString().slice(0,300));
+import { simplifyCore, simplifyConstant } from 'mathjs';
+t0=performance.now(); let c1 = simplifyCore(f); t1=performance.now(); console.log('core2', count(c1), t1-t0, c1.toString());
+t0=performance.now(); c1 = simplifyCore(f3); t1=performance.now(); console.log('core3', count(c1), t1-t0, c1.toString());
+t0=performance.now(); let c2 = simplifyConstant(c1); t1=performance.now(); console.log('const3', count(c2), t1-t0, c2.toString());
+t0=performance.now(); c2 = simplify(c1); t1=performance.now(); console.log('full after core3', count(c2), t1-t0);

@@ -1,0 +1,179 @@
+import type { MathNode } from 'mathjs';
+import type { FluxFn, ScalarFn, VectorFn } from './types.ts';
+
+/** JavaScript for each function name that can occur in a formula or in a mathjs derivative of one. Reciprocal
+ *  functions follow mathjs's own number implementations (e.g. sec = 1/cos, acot = atan(1/x)) so both agree. */
+const FUNCTION_JS: Readonly<Record<string, (args: string[]) => string>> = {
+  sin: (a) => `Math.sin(${a[0]})`,
+  cos: (a) => `Math.cos(${a[0]})`,
+  tan: (a) => `Math.tan(${a[0]})`,
+  sec: (a) => `(1 / Math.cos(${a[0]}))`,
+  csc: (a) => `(1 / Math.sin(${a[0]}))`,
+  cot: (a) => `(1 / Math.tan(${a[0]}))`,
+  asin: (a) => `Math.asin(${a[0]})`,
+  acos: (a) => `Math.acos(${a[0]})`,
+  atan: (a) => `Math.atan(${a[0]})`,
+  acot: (a) => `Math.atan(1 / ${a[0]})`,
+  asec: (a) => `Math.acos(1 / ${a[0]})`,
+  acsc: (a) => `Math.asin(1 / ${a[0]})`,
+  sinh: (a) => `Math.sinh(${a[0]})`,
+  cosh: (a) => `Math.cosh(${a[0]})`,
+  tanh: (a) => `Math.tanh(${a[0]})`,
+  sech: (a) => `(1 / Math.cosh(${a[0]}))`,
+  csch: (a) => `(1 / Math.sinh(${a[0]}))`,
+  coth: (a) => `(1 / Math.tanh(${a[0]}))`,
+  asinh: (a) => `Math.asinh(${a[0]})`,
+  acosh: (a) => `Math.acosh(${a[0]})`,
+  atanh: (a) => `Math.atanh(${a[0]})`,
+  acoth: (a) => `Math.atanh(1 / ${a[0]})`,
+  asech: (a) => `Math.acosh(1 / ${a[0]})`,
+  acsch: (a) => `Math.asinh(1 / ${a[0]})`,
+  exp: (a) => `Math.exp(${a[0]})`,
+  log: (a) => (a.length === 1 ? `Math.log(${a[0]})` : `(Math.log(${a[0]}) / Math.log(${a[1]}))`),
+  log10: (a) => `Math.log10(${a[0]})`,
+  sqrt: (a) => `Math.sqrt(${a[0]})`,
+  cbrt: (a) => `Math.cbrt(${a[0]})`,
+  abs: (a) => `Math.abs(${a[0]})`,
+  sign: (a) => `Math.sign(${a[0]})`,
+  pow: (a) => `Math.pow(${a[0]}, ${a[1]})`,
+};
+
+const SYMBOL_JS: Readonly<Record<string, string>> = { x: 'x', y: 'y', z: 'z', pi: 'Math.PI', e: 'Math.E' };
+const COORDINATES: ReadonlySet<string> = new Set(['x', 'y', 'z']);
+
+const BINARY_JS: Readonly<Record<string, string>> = { add: '+', subtract: '-', multiply: '*', divide: '/' };
+
+/** State of one generated function: temporaries (to square a sub-expression without evaluating it twice) and
+ *  whether coordinate-free sub-trees are folded to numbers. */
+interface CodeContext {
+  temps: number;
+  fold: boolean;
+}
+
+const coordinateFreeCache = new WeakMap<MathNode, boolean>();
+
+/** True when the tree does not depend on x, y or z (memoised: trees are immutable once built). */
+export function isCoordinateFree(node: MathNode): boolean {
+  const known = coordinateFreeCache.get(node);
+  if (known !== undefined) return known;
+  let free = true;
+  if (node.type === 'SymbolNode') {
+    free = !COORDINATES.has((node as unknown as { name: string }).name);
+  } else {
+    const children: MathNode[] =
+      node.type === 'FunctionNode' ? (node as unknown as { args: MathNode[] }).args : childrenOf(node);
+    for (const child of children) if (!isCoordinateFree(child)) free = false;
+  }
+  coordinateFreeCache.set(node, free);
+  return free;
+}
+
+function childrenOf(node: MathNode): MathNode[] {
+  const children: MathNode[] = [];
+  node.forEach((child) => children.push(child));
+  return children;
+}
+
+function literal(value: number): string {
+  if (Object.is(value, -0)) return '(-0)';
+  return value < 0 ? `(${String(value)})` : String(value);
+}
+
+/** The value of a coordinate-free tree, computed with the same floating-point operations as the generated code. */
+function constantValue(node: MathNode): number {
+  const ctx: CodeContext = { temps: 0, fold: false };
+  const code = expressionOf(node, ctx);
+  return (new Function(`"use strict";\n${declareTemps(ctx)}return ${code};`) as () => number)();
+}
+
+/** A JavaScript expression for `node`, in the variables x, y, z. Coordinate-free sub-trees are folded to a number
+ *  once, at compile time. */
+function expressionOf(node: MathNode, ctx: CodeContext): string {
+  if (ctx.fold && node.type !== 'ConstantNode' && node.type !== 'SymbolNode' && isCoordinateFree(node)) {
+    return literal(constantValue(node));
+  }
+  switch (node.type) {
+    case 'ConstantNode': {
+      const value = (node as unknown as { value: unknown }).value;
+      if (typeof value !== 'number') throw new Error(`compile: constant ${String(value)} is not a number`);
+      return literal(value);
+    }
+    case 'SymbolNode': {
+      const name = (node as unknown as { name: string }).name;
+      const js = Object.hasOwn(SYMBOL_JS, name) ? SYMBOL_JS[name] : undefined;
+      if (js === undefined) throw new Error(`compile: unknown symbol ${name}`);
+      return js;
+    }
+    case 'ParenthesisNode':
+      return expressionOf((node as unknown as { content: MathNode }).content, ctx);
+    case 'OperatorNode':
+      return operatorOf(node as unknown as { fn: string; args: MathNode[] }, ctx);
+    case 'FunctionNode': {
+      const fn = node as unknown as { fn: { name?: string }; args: MathNode[] };
+      const name = fn.fn.name ?? '';
+      const emit = Object.hasOwn(FUNCTION_JS, name) ? FUNCTION_JS[name] : undefined;
+      if (emit === undefined) throw new Error(`compile: unknown function ${name}`);
+      if (name === 'pow') return powerOf(fn.args[0], fn.args[1], ctx);
+      return emit(fn.args.map((arg) => expressionOf(arg, ctx)));
+    }
+    default:
+      throw new Error(`compile: unsupported node ${node.type}`);
+  }
+}
+
+function operatorOf(op: { fn: string; args: MathNode[] }, ctx: CodeContext): string {
+  const args = op.args;
+  if (op.fn === 'unaryMinus') return `(-${expressionOf(args[0], ctx)})`;
+  if (op.fn === 'unaryPlus') return expressionOf(args[0], ctx);
+  if (op.fn === 'pow') return powerOf(args[0], args[1], ctx);
+  const symbol = Object.hasOwn(BINARY_JS, op.fn) ? BINARY_JS[op.fn] : undefined;
+  if (symbol === undefined) throw new Error(`compile: unsupported operator ${op.fn}`);
+  return `(${args.map((arg) => expressionOf(arg, ctx)).join(` ${symbol} `)})`;
+}
+
+/** Powers 1, 2, 3 become products (faster than Math.pow); every other power calls Math.pow. */
+function powerOf(base: MathNode, exponent: MathNode, ctx: CodeContext): string {
+  const b = expressionOf(base, ctx);
+  const n = ctx.fold && isCoordinateFree(exponent) ? constantValue(exponent) : NaN;
+  if (n === 1) return b;
+  if (n === 2 || n === 3) {
+    if (/^[xyz]$/.test(b)) return n === 2 ? `(${b} * ${b})` : `(${b} * ${b} * ${b})`;
+    const t = `t${ctx.temps++}`;
+    return n === 2 ? `((${t} = ${b}) * ${t})` : `((${t} = ${b}) * ${t} * ${t})`;
+  }
+  return `Math.pow(${b}, ${expressionOf(exponent, ctx)})`;
+}
+
+function declareTemps(ctx: CodeContext): string {
+  if (ctx.temps === 0) return '';
+  return `let ${Array.from({ length: ctx.temps }, (_, i) => `t${i}`).join(', ')};\n`;
+}
+
+/** JavaScript source of a function body computing `node` (exposed for tests and reports). */
+export function javaScriptOf(node: MathNode): string {
+  const ctx: CodeContext = { temps: 0, fold: true };
+  const expression = expressionOf(node, ctx);
+  return `${declareTemps(ctx)}return ${expression};`;
+}
+
+/** Compile a validated formula tree into a plain function of (x, y, z). */
+export function compileScalar(node: MathNode): ScalarFn {
+  return new Function('x', 'y', 'z', `"use strict";\n${javaScriptOf(node)}`) as ScalarFn;
+}
+
+/** Compile one tree per component into a function writing out[0 .. n-1]. */
+export function compileVector(nodes: readonly MathNode[]): VectorFn {
+  const ctx: CodeContext = { temps: 0, fold: true };
+  const lines = nodes.map((node, i) => `out[${i}] = ${expressionOf(node, ctx)};`);
+  return new Function('x', 'y', 'z', 'out', `"use strict";\n${declareTemps(ctx)}${lines.join('\n')}`) as VectorFn;
+}
+
+/** Compile k ∇u·n from the trees of k and of the gradient components. */
+export function compileFlux(k: MathNode, grad: readonly MathNode[]): FluxFn {
+  const ctx: CodeContext = { temps: 0, fold: true };
+  const normals = ['nx', 'ny', 'nz'];
+  const kCode = expressionOf(k, ctx);
+  const dot = grad.map((g, i) => `${expressionOf(g, ctx)} * ${normals[i]}`).join(' + ');
+  const body = `"use strict";\n${declareTemps(ctx)}return ${kCode} * (${dot});`;
+  return new Function('x', 'y', 'z', 'nx', 'ny', 'nz', body) as FluxFn;
+}

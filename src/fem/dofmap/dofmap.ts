@@ -1,0 +1,69 @@
+import type { Mesh } from '../../mesh/types.ts';
+import type { LagrangeElement } from '../element/types.ts';
+import { lagrangeElement } from '../element/lagrange.ts';
+import { RungsInputError } from '../../errors.ts';
+import type { FunctionSpace } from './types.ts';
+import { numberEdges } from './edges.ts';
+import { mapReferencePoint } from '../geometry/map.ts';
+
+/** Builds the continuous Lagrange space of the given degree on a mesh.
+ *  Global numbering: vertex dofs first (dof = vertex index), then edge dofs (k-1 per edge, ordered from the
+ *  edge's lower-numbered vertex to the higher, so neighbouring cells agree on orientation), then cell interiors. */
+export function lagrangeSpace(mesh: Mesh, degree: number): FunctionSpace {
+  const el = lagrangeElement(mesh.cellKind, degree);
+  return buildSpace(mesh, el);
+}
+
+export function buildSpace(mesh: Mesh, el: LagrangeElement): FunctionSpace {
+  if (el.cell !== mesh.cellKind) {
+    throw new RungsInputError(`element on ${el.cell}s cannot be used on a mesh of ${mesh.cellKind}s`);
+  }
+  const { nCells, nVertices, cells, verticesPerCell: vpc } = mesh;
+  const nLoc = el.nDofs;
+  const ne = el.edges.length;
+  const pe = el.perEdge;
+  const pi = el.perInterior;
+  const { nEdges, cellEdges } = numberEdges(mesh, el.edges);
+  const edgeBase = nVertices;
+  const interiorBase = nVertices + nEdges * pe;
+  const nDofs = interiorBase + nCells * pi;
+  const cellDofs = new Int32Array(nCells * nLoc);
+  for (let c = 0; c < nCells; c++) {
+    const o = c * nLoc;
+    for (let v = 0; v < vpc; v++) cellDofs[o + v] = cells[c * vpc + v];
+    for (let e = 0; e < ne; e++) {
+      const a = cells[c * vpc + el.edges[e][0]];
+      const b = cells[c * vpc + el.edges[e][1]];
+      const g = edgeBase + cellEdges[c * ne + e] * pe;
+      for (let j = 0; j < pe; j++) cellDofs[o + vpc + e * pe + j] = a < b ? g + j : g + pe - 1 - j;
+    }
+    for (let j = 0; j < pi; j++) cellDofs[o + vpc + ne * pe + j] = interiorBase + c * pi + j;
+  }
+  const dim = mesh.dim;
+  const dofCoords = new Float64Array(nDofs * dim);
+  const x = new Float64Array(3);
+  for (let c = 0; c < nCells; c++) {
+    for (let i = 0; i < nLoc; i++) {
+      mapReferencePoint(mesh, c, el.nodes, i * dim, x);
+      const g = cellDofs[c * nLoc + i];
+      for (let d = 0; d < dim; d++) dofCoords[g * dim + d] = x[d];
+    }
+  }
+  return { mesh, element: el, nDofs, cellDofs, dofCoords, nEdges };
+}
+
+/** Global dofs on the given boundary facets (vertex and edge dofs of each facet's closure), sorted, unique. */
+export function facetClosureDofs(space: FunctionSpace, facetCell: Int32Array, facetLocal: Int32Array, facets: Int32Array): Int32Array {
+  const mark = new Uint8Array(space.nDofs);
+  const nLoc = space.element.nDofs;
+  for (let i = 0; i < facets.length; i++) {
+    const f = facets[i];
+    const c = facetCell[f];
+    for (const l of space.element.facetDofs[facetLocal[f]]) mark[space.cellDofs[c * nLoc + l]] = 1;
+  }
+  let n = 0;
+  for (let i = 0; i < mark.length; i++) n += mark[i];
+  const out = new Int32Array(n);
+  for (let i = 0, k = 0; i < mark.length; i++) if (mark[i]) out[k++] = i;
+  return out;
+}

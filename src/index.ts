@@ -1,0 +1,19 @@
+// The public API that study files import (`import { defineStudy, rectangle, lagrange } from 'rungs'`).
+export { defineStudy, lagrange, custom, NORM_NAMES } from './study/declaration.ts';
+export type {
+  StudyDeclaration, DomainSpec, Discretization, LagrangeDiscretization, CustomDiscretization, LevelSolution, NormName,
+} from './study/declaration.ts';
+export type { LevelContext } from './study/context.ts';
+export { interval, rectangle, lShape, customDomain } from './study/domain.ts';
+export type { StudyResult, LevelResult } from './study/result.ts';
+export type { DiscreteField, ExactSolution } from './norms/types.ts';
+
+// Building blocks for a user's own discretization.
+export { lagrangeSpace } from './fem/dofmap/dofmap.ts';
+export { assembleSystem, expandSolution } from './fem/assemble/system.ts';
+export { solveLagrange } from './fem/discretizations/lagrange.ts';
+export { lagrangeField, interpolate } from './norms/lagrange-field.ts';
+export { errorNorms } from './norms/errors.ts';
+export { solveSystem } from './linalg/index.ts';
+export { ruleFor } from './fem/quadrature/index.ts';
+export { lagrangeElement } from './fem/element/index.ts';

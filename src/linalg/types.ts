@@ -1,0 +1,45 @@
+/** Compressed sparse row matrix; column indices sorted within each row. */
+export interface Csr {
+  nRows: number;
+  nCols: number;
+  rowPtr: Int32Array;
+  colIdx: Int32Array;
+  values: Float64Array;
+}
+
+/** z = M^{-1} r for a preconditioner M. Must not allocate per call. */
+export interface Preconditioner {
+  name: string;
+  apply(r: Float64Array, z: Float64Array): void;
+}
+
+export interface SolveOptions {
+  /** Stop when ||b - A x|| / ||b|| <= relTol (default 1e-12). */
+  relTol?: number;
+  maxIter?: number;
+  preconditioner?: Preconditioner;
+  /** Optional extra stopping test called after each iteration with the current iterate;
+   *  return true to stop (used to tie the algebraic error to the discretization error). */
+  stopWhen?: (info: { iteration: number; relativeResidual: number; x: Float64Array }) => boolean;
+  /** CG only: skip the O(nnz) symmetry check when the caller has already checked A (default false). */
+  skipSymmetryCheck?: boolean;
+  /** GMRES only: Krylov dimension before a restart (default 30). */
+  restart?: number;
+}
+
+export interface SolveStats {
+  method: string;
+  preconditioner: string;
+  iterations: number;
+  relativeResidual: number;
+  converged: boolean;
+  /** 'residual' when relTol was reached, 'stopWhen' when the extra test stopped it, 'maxIter', 'breakdown' or
+   *  'stagnation' (the residual stopped decreasing) otherwise; 'direct' for the exact solver. */
+  stoppedBy: 'residual' | 'stopWhen' | 'maxIter' | 'breakdown' | 'stagnation' | 'direct';
+  /** Seconds spent building the preconditioner, when known. */
+  setupSeconds?: number;
+  /** Seconds spent iterating (or factorising and solving, for the direct solver), when known. */
+  solveSeconds?: number;
+  /** Why the solve stopped short, in words the caller can print (e.g. a possibly singular system). */
+  message?: string;
+}

@@ -1,0 +1,13 @@
+export type { CellKind, Mesh } from './types.ts';
+export { CELL_DIM, VERTICES_PER_CELL } from './types.ts';
+export { intervalMesh } from './interval.ts';
+export { rectangleMesh, RECTANGLE_TAGS, type RectangleOptions } from './rectangle.ts';
+export { lShapeMesh, type LShapeTagging } from './lshape.ts';
+export { DIAGONALS, type Diagonal } from './grid.ts';
+export { perturbMesh, shortestIncidentEdge, type PerturbOptions } from './perturb.ts';
+export { mulberry32, type UniformSource } from './random.ts';
+export { cellDiameter, checkMesh, computeH, meshSummary, type MeshSummary } from './quality.ts';
+export { signedCellMeasure, minJacobian } from './measure.ts';
+export { facetsWithTags, tagIndex } from './tags.ts';
+export { meshFromArrays, type MeshArrays } from './from-arrays.ts';
+export { boundingBox } from './bounding-box.ts';

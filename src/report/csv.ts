@@ -1,0 +1,128 @@
+import { stringify } from 'csv-stringify/sync';
+import type { StudyResult } from '../study/result.ts';
+import { levelNumber } from './numbers.ts';
+import { analysisOf, interpolatedNorms, normNames, rateAt } from './series.ts';
+import { normOutcomes } from './verdict.ts';
+
+type Cell = string | number | boolean | null | undefined;
+
+/** Numbers as JavaScript prints them (shortest round-trip form); NaN and absent values become empty cells. */
+function cell(value: Cell): string {
+  if (value === null || value === undefined) return '';
+  if (typeof value === 'number') return Number.isNaN(value) ? '' : String(value);
+  return String(value);
+}
+
+function toCsv(header: string[], rows: Cell[][]): string {
+  return stringify([header, ...rows.map((r) => r.map(cell))], { record_delimiter: 'unix' });
+}
+
+const BYTES_PER_MIB = 1024 * 1024;
+
+/**
+ * One row per level of one study. Columns, in order:
+ * - `level` 1-based level number; `n` ladder parameter (cells per unit side, empty when the ladder is given by h);
+ *   `h` mesh size; `dofs` degrees of freedom; `cells` mesh cells
+ * - per norm, in the study's order: `<norm>_error` error in that norm, `<norm>_rate` observed order between the
+ *   previous level and this one (empty on the first level)
+ * - per norm that has interpolation errors on some level: `<norm>_interp_error` error of the nodal interpolant
+ * - `quasi_optimality` ||u-u_h||_E / ||u-I_h u||_E (empty when not computed)
+ * - `solver_method`, `solver_preconditioner`, `solver_iterations`, `solver_residual` (final relative residual),
+ *   `solver_stopped_by` (residual, stopWhen, maxIter, breakdown or direct)
+ * - `t_mesh`, `t_assemble`, `t_solve`, `t_errors`, `t_total` wall seconds per phase
+ * - `peak_rss_mb` peak resident set size in mebibytes (2^20 bytes), empty when not measured
+ * Numbers are written as JavaScript prints them (full precision); NaN and missing values are empty cells;
+ * infinities are written `Infinity` / `-Infinity`.
+ */
+export function levelsCsv(result: StudyResult): string {
+  const norms = normNames(result);
+  const interpolated = interpolatedNorms(result);
+  const phases = ['mesh', 'assemble', 'solve', 'errors', 'total'];
+  const header = [
+    'level',
+    'n',
+    'h',
+    'dofs',
+    'cells',
+    ...norms.flatMap((n) => [`${n}_error`, `${n}_rate`]),
+    ...interpolated.map((n) => `${n}_interp_error`),
+    'quasi_optimality',
+    'solver_method',
+    'solver_preconditioner',
+    'solver_iterations',
+    'solver_residual',
+    'solver_stopped_by',
+    ...phases.map((p) => `t_${p}`),
+    'peak_rss_mb',
+  ];
+  const rows = result.levels.map((level, i): Cell[] => [
+    levelNumber(level.index),
+    level.n,
+    level.h,
+    level.dofs,
+    level.cells,
+    ...norms.flatMap((n) => [level.errors[n], rateAt(result, n, i)]),
+    ...interpolated.map((n) => level.interpolationErrors?.[n]),
+    level.quasiOptimality,
+    level.solver?.method,
+    level.solver?.preconditioner,
+    level.solver?.iterations,
+    level.solver?.relativeResidual,
+    level.solver?.stoppedBy,
+    ...phases.map((p) => level.seconds[p]),
+    level.peakRssBytes === undefined ? undefined : level.peakRssBytes / BYTES_PER_MIB,
+  ]);
+  return toCsv(header, rows);
+}
+
+/** Columns of summaryCsv, in order. */
+export const SUMMARY_COLUMNS = [
+  'study',
+  'norm',
+  'expected',
+  'fitted',
+  'ci_low',
+  'ci_high',
+  'stderr',
+  'fit_levels',
+  'tolerance',
+  'floor_from',
+  'verdict',
+  'expected_verdict',
+  'as_expected',
+  'reasons',
+] as const;
+
+/**
+ * One row per study and analysed norm. Columns: `study`; `norm`; `expected` expected order (empty when none);
+ * `fitted` fitted order; `ci_low`, `ci_high` its 95% confidence interval; `stderr` its standard error (empty with two
+ * points); `fit_levels` 1-based levels used in the fit, space-separated; `tolerance` allowed |fitted - expected|;
+ * `floor_from` first 1-based level on an error floor (empty when none); `verdict`; `expected_verdict` what the study
+ * declared for this norm; `as_expected` true/false; `reasons` the analysis' reasons joined with '; '.
+ */
+export function summaryCsv(results: readonly StudyResult[]): string {
+  const rows: Cell[][] = [];
+  for (const result of results) {
+    for (const o of normOutcomes(result)) {
+      const a = analysisOf(result, o.norm)!;
+      const fit = a.fit;
+      rows.push([
+        result.study,
+        o.norm,
+        a.expected,
+        fit?.order,
+        fit?.ciLow,
+        fit?.ciHigh,
+        fit?.stderr,
+        fit?.levels.map(levelNumber).join(' '),
+        a.tolerance,
+        a.floorFrom === null ? null : levelNumber(a.floorFrom),
+        a.verdict,
+        o.expectedVerdict,
+        o.asExpected,
+        a.reasons.join('; '),
+      ]);
+    }
+  }
+  return toCsv([...SUMMARY_COLUMNS], rows);
+}

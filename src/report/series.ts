@@ -1,0 +1,37 @@
+import type { SeriesAnalysis } from '../analysis/types.ts';
+import type { StudyResult } from '../study/result.ts';
+
+/**
+ * Norm names of a study in report order: the analysed series first (in the order the study listed them),
+ * then any error recorded per level that has no analysis.
+ */
+export function normNames(result: StudyResult): string[] {
+  const names = result.analyses.map((a) => a.name);
+  for (const level of result.levels) {
+    for (const key of Object.keys(level.errors)) if (!names.includes(key)) names.push(key);
+  }
+  return names;
+}
+
+export function analysisOf(result: StudyResult, norm: string): SeriesAnalysis | undefined {
+  return result.analyses.find((a) => a.name === norm);
+}
+
+/** Pairwise rate into level `position` (0-based position in result.levels), or null for the first level / no analysis. */
+export function rateAt(result: StudyResult, norm: string, position: number): number | null {
+  const rate = analysisOf(result, norm)?.rates[position];
+  return rate === undefined ? null : rate;
+}
+
+/** Norms for which at least one level recorded an interpolation error. */
+export function interpolatedNorms(result: StudyResult): string[] {
+  return normNames(result).filter((norm) =>
+    result.levels.some((l) => l.interpolationErrors !== undefined && norm in l.interpolationErrors),
+  );
+}
+
+/** A file-name-safe form of a study name: letters, digits, '.', '_' and '-' kept, anything else '-'. */
+export function fileStem(study: string): string {
+  const stem = study.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^[.-]+/, '');
+  return stem === '' ? 'study' : stem;
+}

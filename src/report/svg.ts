@@ -1,0 +1,255 @@
+import { scaleLog, type ScaleLogarithmic } from 'd3-scale';
+import type { SeriesAnalysis } from '../analysis/types.ts';
+import type { LevelResult, StudyResult } from '../study/result.ts';
+import { marker } from './markers.ts';
+import { fixed, intervalText, levelNumber, orderText, sci } from './numbers.ts';
+import { seriesStyle } from './palette.ts';
+import { analysisOf, fileStem, normNames } from './series.ts';
+import { verdictLabel } from './verdict.ts';
+import { el, escapeXml } from './xml.ts';
+
+export interface PlotOptions {
+  /** Abscissa: mesh size h (default) or degrees of freedom, for ladders whose h means little. */
+  x?: 'h' | 'dofs';
+  /** Outer width in px (default 640). */
+  width?: number;
+  /** Height of the plotting area in px (default 340); the legend adds a row per norm below it. */
+  plotHeight?: number;
+}
+
+const FONT = "system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif";
+const INK = '#1f2328';
+const MUTED = '#57606a';
+const GRID = '#d8dee4';
+const MARGIN = { left: 74, right: 22, top: 38, bottom: 52 };
+const LEGEND_ROW = 20;
+const r2 = (v: number) => Math.round(v * 100) / 100;
+
+interface Point {
+  x: number;
+  y: number;
+  level: number;
+  onFloor: boolean;
+}
+
+interface Series {
+  norm: string;
+  analysis: SeriesAnalysis | undefined;
+  points: Point[];
+  triangle: { corners: [number, number][]; rise: [number, number]; run: [number, number]; label: string } | null;
+}
+
+/** Corners of a slope triangle under the finest data, one level-spacing wide; hypotenuse at the expected slope. */
+function slopeTriangle(points: Point[], expected: number, axis: 'h' | 'dofs', dim: number): Series['triangle'] {
+  if (points.length < 1) return null;
+  const byX = [...points].sort((a, b) => a.x - b.x);
+  // Finest level: smallest h, or largest dofs.
+  const finest = axis === 'h' ? byX[0] : byX[byX.length - 1];
+  const neighbour = axis === 'h' ? byX[1] : byX[byX.length - 2];
+  const spacing = neighbour ? Math.max(neighbour.x / finest.x, finest.x / neighbour.x) : 2;
+  const run = Math.min(Math.max(spacing, 1.5), 4);
+  // A third of a decade below the data keeps the triangle clear of the markers.
+  const base = finest.y * 0.45;
+  if (axis === 'h') {
+    const x0 = finest.x;
+    const x1 = x0 * run;
+    const top = base * run ** expected;
+    return {
+      corners: [[x0, base], [x1, base], [x1, top]],
+      run: [Math.sqrt(x0 * x1), base],
+      rise: [x1, Math.sqrt(base * top)],
+      label: orderText(expected),
+    };
+  }
+  // In dofs the error falls like N^(-p/d): the rise over one unit of log N is p/d.
+  const x1 = finest.x;
+  const x0 = x1 / run;
+  const top = base * run ** (expected / dim);
+  return {
+    corners: [[x0, top], [x0, base], [x1, base]],
+    run: [Math.sqrt(x0 * x1), base],
+    rise: [x0, Math.sqrt(base * top)],
+    label: orderText(expected / dim),
+  };
+}
+
+function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
+  const xOf = (l: LevelResult) => (axis === 'h' ? l.h : l.dofs);
+  return normNames(result).map((norm) => {
+    const analysis = analysisOf(result, norm);
+    const points = result.levels
+      .map((l, i): Point => ({
+        x: xOf(l),
+        y: l.errors[norm],
+        level: l.index,
+        onFloor: analysis?.floorFrom !== null && analysis?.floorFrom !== undefined && i >= analysis.floorFrom,
+      }))
+      // A log axis cannot show zero, negative or missing values.
+      .filter((p) => Number.isFinite(p.x) && p.x > 0 && Number.isFinite(p.y) && p.y > 0);
+    const expected = analysis?.expected;
+    const triangle = expected !== null && expected !== undefined && expected > 0 ? slopeTriangle(points, expected, axis, result.dim) : null;
+    return { norm, analysis, points, triangle };
+  });
+}
+
+function logScale(values: number[], range: [number, number]): ScaleLogarithmic<number, number> {
+  let lo = Math.min(...values);
+  let hi = Math.max(...values);
+  if (!(lo > 0) || !Number.isFinite(hi)) [lo, hi] = [0.1, 1];
+  if (lo === hi) [lo, hi] = [lo / 10, hi * 10];
+  // nice() widens the domain to whole decades, so every axis has at least two labelled powers of ten.
+  return scaleLog().domain([lo, hi]).range(range).nice();
+}
+
+function isDecade(v: number): boolean {
+  const k = Math.log10(v);
+  return Math.abs(k - Math.round(k)) < 1e-9;
+}
+
+/** "10" with a raised exponent; a real minus sign for negative exponents. */
+function powerLabel(v: number): string {
+  const k = Math.round(Math.log10(v));
+  const exponent = k < 0 ? `\u2212${-k}` : String(k);
+  return `10<tspan dy="-0.55em" font-size="0.72em">${exponent}</tspan>`;
+}
+
+function xAxis(scale: ScaleLogarithmic<number, number>, y0: number, yTop: number, label: string): string {
+  const ticks = scale.ticks().map((v) => {
+    const x = r2(scale(v));
+    const major = isDecade(v);
+    return el('g', { class: major ? 'tick tick-major' : 'tick tick-minor', 'data-value': v }, [
+      major ? el('line', { x1: x, x2: x, y1: yTop, y2: y0, stroke: GRID, 'stroke-width': 1 }) : '',
+      el('line', { x1: x, x2: x, y1: y0, y2: y0 + (major ? 6 : 3), stroke: INK, 'stroke-width': 1 }),
+      major ? `<text class="tick-label" x="${x}" y="${y0 + 21}" text-anchor="middle">${powerLabel(v)}</text>` : '',
+    ]);
+  });
+  const [a, b] = scale.range();
+  return el('g', { class: 'axis axis-x', 'font-size': 12, fill: INK }, [
+    ...ticks,
+    el('line', { class: 'domain', x1: a, x2: b, y1: y0, y2: y0, stroke: INK, 'stroke-width': 1 }),
+    el('text', { class: 'axis-label', x: r2((a + b) / 2), y: y0 + 42, 'text-anchor': 'middle', 'font-size': 13 }, escapeXml(label)),
+  ]);
+}
+
+function yAxis(scale: ScaleLogarithmic<number, number>, x0: number, xRight: number, label: string): string {
+  const ticks = scale.ticks().map((v) => {
+    const y = r2(scale(v));
+    const major = isDecade(v);
+    return el('g', { class: major ? 'tick tick-major' : 'tick tick-minor', 'data-value': v }, [
+      major ? el('line', { x1: x0, x2: xRight, y1: y, y2: y, stroke: GRID, 'stroke-width': 1 }) : '',
+      el('line', { x1: x0 - (major ? 6 : 3), x2: x0, y1: y, y2: y, stroke: INK, 'stroke-width': 1 }),
+      major ? `<text class="tick-label" x="${x0 - 9}" y="${y + 4}" text-anchor="end">${powerLabel(v)}</text>` : '',
+    ]);
+  });
+  const [b, a] = scale.range();
+  const mid = r2((a + b) / 2);
+  return el('g', { class: 'axis axis-y', 'font-size': 12, fill: INK }, [
+    ...ticks,
+    el('line', { class: 'domain', x1: x0, x2: x0, y1: a, y2: b, stroke: INK, 'stroke-width': 1 }),
+    el('text', { class: 'axis-label', x: 18, y: mid, 'text-anchor': 'middle', 'font-size': 13, transform: `rotate(-90 18 ${mid})` }, escapeXml(label)),
+  ]);
+}
+
+/** "L2: fitted 2.98 [2.95, 3.01], expected 3; verdict ✓ on-order" */
+export function legendText(series: { norm: string; analysis: SeriesAnalysis | undefined }): string {
+  const a = series.analysis;
+  if (!a) return `${series.norm}: not analysed`;
+  const fitted = a.fit ? `fitted ${fixed(a.fit.order)} ${intervalText(a.fit.ciLow, a.fit.ciHigh)}` : 'no fit';
+  return `${series.norm}: ${fitted}, expected ${orderText(a.expected)}; verdict ${verdictLabel(a.verdict)}`;
+}
+
+function describe(result: StudyResult, series: Series[], axisWord: string): string {
+  const parts = series.map((s) => {
+    const errs = s.points.map((p) => sci(p.y)).join(', ');
+    return `${legendText(s)}; errors ${errs || 'none plottable'}.`;
+  });
+  return (
+    `Log-log plot of the error against ${axisWord} over ${result.levels.length} levels of study ${result.study}. ` +
+    parts.join(' ') +
+    ' Each triangle below the finest data has the expected slope; hollow markers sit on an error floor.'
+  );
+}
+
+/** An SVG log-log plot of error against h (or dofs) for each norm of one study, with expected-slope triangles. */
+export function svgPlot(result: StudyResult, options: PlotOptions = {}): string {
+  const axis = options.x ?? 'h';
+  const width = options.width ?? 640;
+  const plotHeight = options.plotHeight ?? 340;
+  const series = collectSeries(result, axis);
+  const hasFloor = series.some((s) => s.points.some((p) => p.onFloor));
+  const legendHeight = (series.length + (hasFloor ? 1 : 0)) * LEGEND_ROW + 12;
+  const height = MARGIN.top + plotHeight + MARGIN.bottom + legendHeight;
+  const left = MARGIN.left;
+  const right = width - MARGIN.right;
+  const top = MARGIN.top;
+  const bottom = top + plotHeight;
+
+  const xs = series.flatMap((s) => [...s.points.map((p) => p.x), ...(s.triangle?.corners.map((c) => c[0]) ?? [])]);
+  const ys = series.flatMap((s) => [...s.points.map((p) => p.y), ...(s.triangle?.corners.map((c) => c[1]) ?? [])]);
+  const x = logScale(xs, [left, right]);
+  const y = logScale(ys, [bottom, top]);
+  const axisWord = axis === 'h' ? 'mesh size h' : 'degrees of freedom';
+  const id = `rungs-plot-${fileStem(result.study)}`;
+
+  const lines = series.map((s, k) => {
+    const { color, shape } = seriesStyle(k);
+    const d = s.points.map((p, i) => `${i === 0 ? 'M' : 'L'}${r2(x(p.x))},${r2(y(p.y))}`).join(' ');
+    const marks = s.points.map((p) =>
+      marker(shape, x(p.x), y(p.y), 4.5, color, p.onFloor, 'marker', `${s.norm}, level ${levelNumber(p.level)}: error ${sci(p.y)}`),
+    );
+    return el('g', { class: 'series', 'data-norm': s.norm }, [
+      d === '' ? '' : el('path', { class: 'series-line', 'data-norm': s.norm, d, fill: 'none', stroke: color, 'stroke-width': 1.75, 'stroke-linejoin': 'round' }),
+      ...marks,
+    ]);
+  });
+
+  const triangles = series.map((s, k) => {
+    if (!s.triangle) return '';
+    const { color } = seriesStyle(k);
+    const t = s.triangle;
+    const pts = t.corners.map(([cx, cy]) => `${r2(x(cx))},${r2(y(cy))}`).join(' ');
+    const riseX = x(t.rise[0]) + (axis === 'h' ? 6 : -6);
+    return el('g', { class: 'slope-triangle', 'data-norm': s.norm, 'data-order': s.analysis?.expected ?? '' }, [
+      el('title', {}, escapeXml(`${s.norm}: expected order ${t.label}`)),
+      el('polygon', { points: pts, fill: color, 'fill-opacity': 0.08, stroke: color, 'stroke-width': 1, 'stroke-dasharray': '4 2' }),
+      el('text', { class: 'slope-label', x: r2(riseX), y: r2(y(t.rise[1]) + 4), 'text-anchor': axis === 'h' ? 'start' : 'end', 'font-size': 12, fill: color, 'font-weight': 600 }, escapeXml(t.label)),
+      el('text', { class: 'slope-run', x: r2(x(t.run[0])), y: r2(y(t.run[1]) + 14), 'text-anchor': 'middle', 'font-size': 11, fill: MUTED }, '1'),
+    ]);
+  });
+
+  const legend = series.map((s, k) => {
+    const { color, shape } = seriesStyle(k);
+    const ly = bottom + MARGIN.bottom + 8 + k * LEGEND_ROW;
+    return el('g', { class: 'legend-entry', 'data-norm': s.norm }, [
+      el('line', { x1: left, x2: left + 28, y1: ly, y2: ly, stroke: color, 'stroke-width': 1.75 }),
+      marker(shape, left + 14, ly, 4.5, color, false, 'legend-marker'),
+      el('text', { x: left + 38, y: ly + 4, 'font-size': 12.5, fill: INK }, escapeXml(legendText(s))),
+    ]);
+  });
+
+  if (hasFloor) {
+    const ly = bottom + MARGIN.bottom + 8 + series.length * LEGEND_ROW;
+    legend.push(
+      el('g', { class: 'legend-entry legend-floor' }, [
+        marker('circle', left + 14, ly, 4.5, MUTED, true, 'legend-marker'),
+        el('text', { x: left + 38, y: ly + 4, 'font-size': 12.5, fill: MUTED }, 'hollow marker: error on a floor (round-off or solver tolerance)'),
+      ]),
+    );
+  }
+
+  const title = `${result.study}: error against ${axisWord}`;
+  return [
+    `<svg xmlns="http://www.w3.org/2000/svg" class="rungs-plot" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" role="img" aria-labelledby="${id}-title ${id}-desc" font-family="${escapeXml(FONT)}">`,
+    el('title', { id: `${id}-title` }, escapeXml(title)),
+    el('desc', { id: `${id}-desc` }, escapeXml(describe(result, series, axisWord))),
+    el('rect', { x: 0, y: 0, width, height, fill: '#ffffff' }),
+    el('text', { class: 'plot-title', x: left, y: 22, 'font-size': 14, 'font-weight': 600, fill: INK }, escapeXml(title)),
+    el('rect', { class: 'plot-area', x: left, y: top, width: right - left, height: plotHeight, fill: 'none', stroke: GRID }),
+    xAxis(x, bottom, top, axisWord),
+    yAxis(y, left, right, 'error'),
+    el('g', { class: 'slope-triangles' }, triangles),
+    el('g', { class: 'data' }, lines),
+    el('g', { class: 'legend' }, legend),
+    '</svg>',
+  ].join('\n');
+}

@@ -1,0 +1,120 @@
+import type { Mesh } from '../mesh/types.ts';
+import type { ScalarFn, VectorFn } from '../exact/types.ts';
+import type { QuadratureDegrees } from '../fem/assemble/types.ts';
+import type { DiscreteField } from '../norms/types.ts';
+import type { SolveStats } from '../linalg/types.ts';
+import type { Verdict } from '../analysis/types.ts';
+import type { LevelContext } from './context.ts';
+
+export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
+export const NORM_NAMES: NormName[] = ['L2', 'H1semi', 'H1', 'energy', 'maxNodal'];
+
+/** A domain: how to mesh it for a ladder parameter n (cells per unit length) and its boundary tags. */
+export interface DomainSpec {
+  kind: 'interval' | 'rectangle' | 'lshape' | 'custom';
+  dim: 1 | 2 | 3;
+  /** Boundary tags the generated meshes carry. */
+  tags: string[];
+  /** Bounding box, for consistency checks of user functions. */
+  bbox: [number, number][];
+  /** Description for reports. */
+  label: string;
+  mesh(n: number): Mesh;
+}
+
+/** Exact solution given as functions (the escape hatch); rungs checks grad and f against finite differences of u. */
+export interface ExactFunctions {
+  u: ScalarFn;
+  grad: VectorFn;
+  /** Source term −∇·(k∇u) + b·∇u + c·u, checked against finite differences of u. */
+  f: ScalarFn;
+}
+
+export type Coefficient = string | number;
+
+export interface BoundaryDeclaration {
+  dirichlet?: string[];
+  neumann?: string[];
+  robin?: { tags: string[]; alpha: Coefficient };
+}
+
+export interface SolverDeclaration {
+  method?: 'auto' | 'cg' | 'gmres' | 'bicgstab' | 'direct';
+  preconditioner?: 'auto' | 'none' | 'jacobi' | 'ssor' | 'ic0' | 'ilu0' | 'amg';
+  relTol?: number;
+  maxIter?: number;
+  /** Stop when the algebraic error estimate is this fraction of the previous level's discretization error
+   *  (default 1e-3); 0 switches the test off. */
+  errorFraction?: number;
+}
+
+/** What a user's own discretization returns for one level. */
+export interface LevelSolution {
+  field: DiscreteField;
+  solver?: SolveStats;
+}
+
+export interface LagrangeDiscretization {
+  kind: 'lagrange';
+  degree: number;
+  /** Quadrature degree per term, to study under-integration on purpose. */
+  quadrature?: QuadratureDegrees;
+  label?: string;
+}
+
+export interface CustomDiscretization {
+  kind: 'custom';
+  label: string;
+  /** Element degree, when the discretization has one (sets the error quadrature and derived orders). */
+  degree?: number;
+  solve(level: LevelContext): LevelSolution | Promise<LevelSolution>;
+}
+
+export type Discretization = LagrangeDiscretization | CustomDiscretization;
+
+export interface LadderDeclaration {
+  /** Cells per unit length on each level, increasing. */
+  n: number[];
+  /** Seeded random displacement of interior nodes by up to fraction × local h. */
+  perturb?: { fraction: number; seed?: number };
+  /** Levels used by `rungs check --quick` (the coarsest that still give a fit); default the first 3. */
+  quick?: number;
+}
+
+export interface StudyDeclaration {
+  name: string;
+  description?: string;
+  domain: DomainSpec;
+  exact: string | ExactFunctions;
+  coefficients?: { k?: Coefficient; b?: Coefficient[]; c?: Coefficient };
+  boundary?: BoundaryDeclaration;
+  discretization: Discretization;
+  ladder: LadderDeclaration;
+  norms?: NormName[];
+  /** Expected order per norm; derived for Lagrange elements (L2: k+1, H1semi/H1/energy: k, maxNodal: k+1). */
+  expected?: Partial<Record<NormName, number>>;
+  /** Allowed |fitted − expected| (default 0.1). */
+  tolerance?: number;
+  /** Number of finest levels in the fit (default 3). */
+  fitWindow?: number;
+  /** A demonstration of a flaw declares the verdict it must produce, like an expected failure in a test suite. */
+  expect?: { verdict: Verdict; flaw?: string };
+  solver?: SolverDeclaration;
+  /** Relative tolerance of the baseline comparison of `rungs check` (default 0.05). */
+  baselineTolerance?: number;
+}
+
+/** Declares a study; the default export of a *.study.ts file. Validation happens when rungs loads it. */
+export function defineStudy(declaration: StudyDeclaration): StudyDeclaration {
+  return declaration;
+}
+
+/** The built-in Lagrange discretization. */
+export function lagrange(opts: { degree: number; quadrature?: QuadratureDegrees; label?: string }): LagrangeDiscretization {
+  return { kind: 'lagrange', ...opts };
+}
+
+/** A user's own discretization: solve(level) returns a discrete field. */
+export function custom(opts: Omit<CustomDiscretization, 'kind'>): CustomDiscretization {
+  return { kind: 'custom', ...opts };
+}

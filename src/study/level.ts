@@ -1,0 +1,81 @@
+import { perturbMesh } from '../mesh/perturb.ts';
+import { checkMesh } from '../mesh/quality.ts';
+import { solveLagrange } from '../fem/discretizations/lagrange.ts';
+import { lagrangeSpace } from '../fem/dofmap/dofmap.ts';
+import { errorNorms } from '../norms/errors.ts';
+import { interpolate, lagrangeField } from '../norms/lagrange-field.ts';
+import type { DiscreteField, NormValues } from '../norms/types.ts';
+import type { SolveStats } from '../linalg/types.ts';
+import type { LevelResult } from './result.ts';
+import type { NormName, StudyDeclaration } from './declaration.ts';
+import type { StudyProblem } from './problem.ts';
+import type { LevelContext } from './context.ts';
+import { RungsInputError } from '../errors.ts';
+
+const seconds = (t0: number) => (performance.now() - t0) / 1e3;
+
+/** Runs one level: mesh, solve, errors; returns its row. */
+export async function runLevel(
+  decl: StudyDeclaration, file: string, problem: StudyProblem, index: number, norms: NormName[],
+  solver: LevelContext['solver'],
+): Promise<LevelResult> {
+  const tStart = performance.now();
+  const n = decl.ladder.n[index];
+  let t = performance.now();
+  let mesh = decl.domain.mesh(n);
+  if (decl.domain.kind === 'custom') checkMesh(mesh, `${file}: domain mesh of level ${index + 1}`);
+  if (decl.ladder.perturb && decl.ladder.perturb.fraction > 0) {
+    mesh = perturbMesh(mesh, { fraction: decl.ladder.perturb.fraction, seed: (decl.ladder.perturb.seed ?? 1) + index });
+  }
+  const tMesh = seconds(t);
+
+  const { exact, coefficients, boundary } = problem;
+  const disc = decl.discretization;
+  let field: DiscreteField;
+  let stats: SolveStats | null = null;
+  let tAssemble = 0, tSolve = 0;
+  let interp: NormValues | null = null;
+  const errOpts = { k: coefficients.k, c: coefficients.c };
+  t = performance.now();
+  if (disc.kind === 'lagrange') {
+    const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, solver });
+    field = sol.field;
+    stats = sol.solver;
+    tAssemble = sol.seconds.space + sol.seconds.assemble;
+    tSolve = sol.seconds.solve;
+  } else {
+    const ctx: LevelContext = { study: decl.name, index, n, mesh, exact, coefficients, boundary, solver };
+    const out = await disc.solve(ctx);
+    if (!out || typeof out !== 'object' || !out.field || typeof out.field.evaluate !== 'function') {
+      throw new RungsInputError(`${file} (study '${decl.name}'): discretization.solve returned no field at level ${index + 1}; return { field } with field.evaluate(cell, points, n, values, grads)`, file);
+    }
+    field = out.field;
+    stats = out.solver ?? null;
+    tSolve = seconds(t);
+  }
+  if (stats && !stats.converged) {
+    process.emitWarning?.(`${decl.name} level ${index + 1}: solver stopped by ${stats.stoppedBy} after ${stats.iterations} iterations at relative residual ${stats.relativeResidual.toExponential(2)}`);
+  }
+
+  t = performance.now();
+  const errs = errorNorms(field, exact, errOpts);
+  const degree = disc.degree;
+  if (degree !== undefined && degree > 0 && mesh.cellKind !== 'tetrahedron') {
+    const space = lagrangeSpace(mesh, degree);
+    interp = errorNorms(lagrangeField(space, interpolate(space, exact.u)), exact, errOpts);
+  }
+  const tErrors = seconds(t);
+
+  const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, v[nm]]));
+  const quasi = problem.symmetric && interp && interp.energy > 0 ? errs.energy / interp.energy : null;
+  const rss = process.resourceUsage().maxRSS * 1024;
+  return {
+    index, n, h: mesh.h, dofs: field.nDofs, cells: mesh.nCells,
+    errors: pick(errs),
+    interpolationErrors: interp ? pick(interp) : undefined,
+    quasiOptimality: quasi,
+    solver: stats,
+    seconds: { mesh: tMesh, assemble: tAssemble, solve: tSolve, errors: tErrors, total: seconds(tStart) },
+    peakRssBytes: rss,
+  };
+}

@@ -1,0 +1,43 @@
+import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
+import type { SolveStats } from '../linalg/types.ts';
+
+export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
+
+export interface LevelResult {
+  /** 0-based level index. */
+  index: number;
+  /** Ladder parameter (cells per unit side), or null when given by h. */
+  n: number | null;
+  h: number;
+  dofs: number;
+  cells: number;
+  /** Error per norm name (or quantity name). */
+  errors: Record<string, number>;
+  /** Same norms for u - I_h u (nodal interpolant), when computed. */
+  interpolationErrors?: Record<string, number>;
+  /** ||u-u_h||_E / ||u-I_h u||_E, symmetric problems only. */
+  quasiOptimality?: number | null;
+  solver?: SolveStats | null;
+  /** Wall seconds per phase: mesh, assemble, solve, errors, total. */
+  seconds: Record<string, number>;
+  /** Peak resident set size in bytes while this level ran, when measured. */
+  peakRssBytes?: number;
+}
+
+export interface StudyResult {
+  study: string;
+  file: string;
+  description?: string;
+  dim: number;
+  /** What the study expects of its verdicts: 'pass' or a declared expected flaw. */
+  expectation: { verdict: Verdict | 'pass'; flaw?: string };
+  levels: LevelResult[];
+  analyses: SeriesAnalysis[];
+  /** The verdicts match the expectation. */
+  asExpected: boolean;
+  warnings: string[];
+  inputs: Record<string, unknown>;
+  versions: Record<string, string>;
+  startedAt: string;
+  seconds: number;
+}

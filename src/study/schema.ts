@@ -1,0 +1,116 @@
+import { z } from 'zod';
+import { RungsInputError } from '../errors.ts';
+import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
+
+const fn = (what: string) => z.custom<(...a: never[]) => unknown>((v) => typeof v === 'function', { message: `expected ${what} (a function)` });
+const coefficient = z.union([z.string().min(1), z.number().finite()], { message: 'expected a formula string such as "1 + x*y" or a finite number' });
+const positiveInt = z.number().int().positive();
+const verdicts = ['on-order', 'below-order', 'above-order', 'exact', 'inconclusive'] as const;
+
+const domain = z.object({
+  kind: z.enum(['interval', 'rectangle', 'lshape', 'custom']),
+  dim: z.union([z.literal(1), z.literal(2), z.literal(3)]),
+  tags: z.array(z.string()),
+  bbox: z.array(z.tuple([z.number(), z.number()])),
+  label: z.string(),
+  mesh: fn('mesh(n)'),
+}, { message: 'expected a domain such as interval(0, 1), rectangle([0, 2], [0, 1]) or lShape()' });
+
+const quadrature = z.object({
+  stiffness: z.number().int().min(0).optional(),
+  convection: z.number().int().min(0).optional(),
+  reaction: z.number().int().min(0).optional(),
+  load: z.number().int().min(0).optional(),
+  boundary: z.number().int().min(0).optional(),
+}).strict();
+
+const discretization = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('lagrange'), degree: z.number().int().min(1).max(3), quadrature: quadrature.optional(), label: z.string().optional() }).strict(),
+  z.object({ kind: z.literal('custom'), label: z.string().min(1), degree: z.number().int().min(0).optional(), solve: fn('solve(level)') }).strict(),
+], { message: 'expected lagrange({ degree }) or custom({ label, solve })' });
+
+const exactFunctions = z.object({ u: fn('u(x, y, z)'), grad: fn('grad(x, y, z, out)'), f: fn('f(x, y, z)') }).strict();
+
+const ladder = z.object({
+  n: z.array(positiveInt).min(2, 'a ladder needs at least 2 levels'),
+  perturb: z.object({ fraction: z.number().min(0).max(0.35), seed: z.number().int().optional() }).strict().optional(),
+  quick: z.number().int().min(2).optional(),
+}).strict().superRefine((l, ctx) => {
+  for (let i = 1; i < l.n.length; i++) {
+    if (!(l.n[i] > l.n[i - 1])) {
+      ctx.addIssue({ code: 'custom', path: ['n', i], message: `n must increase level by level (h decreasing): ${l.n[i - 1]} then ${l.n[i]}` });
+    }
+  }
+});
+
+export const studySchema = z.object({
+  name: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected a name of letters, digits, ".", "_" or "-" (it names the report files)'),
+  description: z.string().optional(),
+  domain,
+  exact: z.union([z.string().min(1), exactFunctions], { message: 'expected a formula string in x, y, z or { u, grad, f } functions' }),
+  coefficients: z.object({ k: coefficient.optional(), b: z.array(coefficient).optional(), c: coefficient.optional() }).strict().optional(),
+  boundary: z.object({
+    dirichlet: z.array(z.string()).optional(),
+    neumann: z.array(z.string()).optional(),
+    robin: z.object({ tags: z.array(z.string()), alpha: coefficient }).strict().optional(),
+  }).strict().optional(),
+  discretization,
+  ladder,
+  norms: z.array(z.enum(NORM_NAMES as [string, ...string[]])).min(1).optional(),
+  expected: z.record(z.enum(NORM_NAMES as [string, ...string[]]), z.number().finite()).optional(),
+  tolerance: z.number().positive().optional(),
+  fitWindow: z.number().int().min(2).optional(),
+  expect: z.object({ verdict: z.enum(verdicts), flaw: z.string().min(1).optional() }).strict().optional(),
+  solver: z.object({
+    method: z.enum(['auto', 'cg', 'gmres', 'bicgstab', 'direct']).optional(),
+    preconditioner: z.enum(['auto', 'none', 'jacobi', 'ssor', 'ic0', 'ilu0', 'amg']).optional(),
+    relTol: z.number().positive().max(0.1).optional(),
+    maxIter: positiveInt.optional(),
+    errorFraction: z.number().min(0).max(1).optional(),
+  }).strict().optional(),
+  baselineTolerance: z.number().positive().optional(),
+}).strict();
+
+/** Validates a study's default export; every problem names the file, the field path and what would be valid. */
+export function validateStudy(raw: unknown, file: string): StudyDeclaration {
+  const res = studySchema.safeParse(raw);
+  if (res.success) return raw as StudyDeclaration;
+  const issue = res.error.issues[0];
+  const path = issue.path.length ? issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('').replace(/^\./, '') : '(study)';
+  const name = typeof (raw as { name?: unknown })?.name === 'string' ? ` (study '${(raw as { name: string }).name}')` : '';
+  let message = issue.message;
+  if (issue.code === 'unrecognized_keys') {
+    const allowed = allowedKeys(issue.path);
+    message = `unknown field${issue.keys.length > 1 ? 's' : ''} ${issue.keys.map((k) => `'${k}'`).join(', ')}${allowed ? `; valid fields here: ${allowed}` : ''}`;
+  } else if (issue.code === 'invalid_value' && 'values' in issue) {
+    message = `expected one of ${(issue.values as unknown[]).map((v) => JSON.stringify(v)).join(', ')}`;
+  }
+  const more = res.error.issues.length > 1 ? ` (and ${res.error.issues.length - 1} more problem${res.error.issues.length > 2 ? 's' : ''})` : '';
+  return fail(`${file}${name}: ${path}: ${message}${more}`, file);
+}
+
+function fail(message: string, file: string): never {
+  throw new RungsInputError(message, file);
+}
+
+function allowedKeys(path: PropertyKey[]): string | null {
+  let s: z.ZodType = studySchema;
+  for (const p of path) {
+    const shape = (s as unknown as { shape?: Record<string, z.ZodType> }).shape;
+    if (!shape || typeof p !== 'string' || !shape[p]) return null;
+    s = unwrap(shape[p]);
+  }
+  const shape = (unwrap(s) as unknown as { shape?: Record<string, unknown> }).shape;
+  return shape ? Object.keys(shape).join(', ') : null;
+}
+
+function unwrap(s: z.ZodType): z.ZodType {
+  let cur = s as unknown as { unwrap?: () => z.ZodType; def?: { innerType?: z.ZodType; in?: z.ZodType } };
+  for (let i = 0; i < 5; i++) {
+    if (typeof cur.unwrap === 'function') cur = cur.unwrap() as never;
+    else if (cur.def?.innerType) cur = cur.def.innerType as never;
+    else if (cur.def?.in) cur = cur.def.in as never;
+    else break;
+  }
+  return cur as unknown as z.ZodType;
+}
