@@ -25,8 +25,10 @@ export interface GciResult {
   h: [number, number, number];
   r21: number;
   r32: number;
+  /** Observed order (Celik et al. 2008, eq. 3); NaN when it cannot be formed. */
   order: number;
   iterations: number;
+  orderMethod: 'fixed-point' | 'bisection' | 'none';
   /** Celik's R = ε21/ε32: 0 < R < 1 monotone convergence, R < 0 oscillatory, R > 1 divergence. */
   convergence: ConvergenceKind;
   /** φ_ext21 = (r21^p φ1 - φ2)/(r21^p - 1) and the same for grids 2–3. */
@@ -86,7 +88,10 @@ export function gridConvergenceIndex(
   if (convergence === 'undetermined') warnings.push('two grids give the same value: the observed order cannot be formed');
 
   const o = observedOrderThreeLevels(f1, f2, f3, r21, r32);
-  if (!o.converged && Number.isFinite(o.order)) warnings.push(`observed-order iteration did not converge after ${o.iterations} steps`);
+  if (o.method === 'bisection') {
+    warnings.push('observed order found by bisection: the fixed-point iteration does not converge for these refinement ratios');
+  }
+  if (!o.converged && convergence !== 'undetermined') warnings.push('no observed order solves the three-grid equation for these values');
   const p = o.converged ? o.order : Number.NaN;
   const r21p = Math.pow(r21, p);
   const r32p = Math.pow(r32, p);
@@ -102,6 +107,7 @@ export function gridConvergenceIndex(
     r32,
     order: p,
     iterations: o.iterations,
+    orderMethod: o.method,
     convergence,
     extrapolated21,
     extrapolated32,

@@ -51,7 +51,12 @@ function validate(input: SeriesInput): void {
   if (input.expected !== null && !Number.isFinite(input.expected)) fail(input, 'expected', `= ${input.expected}; give a number or null`);
   if (!(input.tolerance > 0) || !Number.isFinite(input.tolerance)) fail(input, 'tolerance', `= ${input.tolerance}; give a positive number (default ${DEFAULT_TOLERANCE})`);
   if (!(Number.isInteger(input.fitWindow) && input.fitWindow >= 2)) fail(input, 'fitWindow', `= ${input.fitWindow}; give an integer ≥ 2 (default ${DEFAULT_FIT_WINDOW})`);
-  if (input.floorHint && input.floorHint.length !== n) fail(input, 'floorHint', `has ${input.floorHint.length} entries for ${n} errors`);
+  if (input.floorHint) {
+    if (input.floorHint.length !== n) fail(input, 'floorHint', `has ${input.floorHint.length} entries for ${n} errors`);
+    input.floorHint.forEach((v, i) => {
+      if (v !== null && !(v >= 0 && Number.isFinite(v))) fail(input, 'floorHint', `[${i}] = ${v}; give a finite number ≥ 0 or null`);
+    });
+  }
   if (input.scale) {
     if (input.scale.length !== n) fail(input, 'scale', `has ${input.scale.length} entries for ${n} errors`);
     input.scale.forEach((s, i) => {
@@ -110,14 +115,14 @@ function patternReasons(
 
 /**
  * Analyse one error series. Decisions (documented here because the verdict depends on them):
- * - `exact` when every level is at round-off relative to its scale.
+ * - `exact` when every level is at round-off relative to its scale (scale 1 when none is given).
  * - Floor levels (the trailing run found by detectFloor) and isolated floor-like levels are left out.
  * - Fewer than 2 usable levels, or no expected order: `inconclusive`.
  * - Exactly 2 levels in the fit: the verdict follows the single rate, with a "too few levels" reason; there is
  *   no confidence interval, so the width rule cannot apply.
  * - 3 or more levels: `inconclusive` when the CI half-width exceeds CI_WIDTH_FACTOR × tolerance and the CI
  *   still meets the band expected ± tolerance; otherwise on/below/above-order by |fitted - expected| ≤ tolerance.
- * Levels are named by their 0-based index, as everywhere in rungs.
+ * Levels are named 1-based in messages (people count from 1); indices in data stay 0-based.
  */
 export function analyseSeries(input: SeriesInput): SeriesAnalysis {
   validate(input);
@@ -147,7 +152,7 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
       asymptoticFrom: null,
       verdict: 'exact',
       reasons: [
-        `all errors at round-off: largest error/scale ${sci(worst)} at level ${worstAt} (threshold ` +
+        `all errors at round-off: largest error/scale ${sci(worst)} at level ${worstAt + 1} (threshold ` +
           `${sci(roundOffThreshold(dofs[worstAt]!))}) — the discrete space reproduces the exact solution`,
       ],
       warnings: [],
@@ -158,16 +163,16 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
   const trailing: string[] = [];
   const end = floor.from ?? n;
   if (floor.from !== null) {
-    const note = `floor: ${floorName(floor.kind!)} from level ${floor.from}`;
+    const note = `floor: ${floorName(floor.kind!)} from level ${floor.from + 1}`;
     warnings.push(note);
-    const span = floor.from === n - 1 ? `level ${n - 1}` : `levels ${floor.from}–${n - 1}`;
+    const span = floor.from === n - 1 ? `level ${n}` : `levels ${floor.from + 1}–${n}`;
     trailing.push(`${note} (${span} left out of the fit)`);
   }
   const usable: number[] = [];
   for (let i = 0; i < end; i++) {
     const kind = floor.levels[i];
     if (kind === null) usable.push(i);
-    else warnings.push(`level ${i} looks like a ${floorName(kind!)} floor but finer levels do not; left out of the fit`);
+    else warnings.push(`level ${i + 1} looks like a ${floorName(kind!)} floor but finer levels do not; left out of the fit`);
   }
   const usableSet = new Set(usable);
   const usableRates: number[] = [];

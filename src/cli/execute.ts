@@ -1,5 +1,5 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
 import { runStudy } from '../study/runner.ts';
@@ -70,10 +70,10 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     } catch (err) {
       progress.clear();
       if (err instanceof RungsInputError || err instanceof RungsNumericalError) {
-        problem({ study: loaded?.declaration.name ?? '', file: loaded?.file ?? file, message: err.message });
+        problem({ study: loaded?.declaration.name ?? '', file: loaded?.file ?? relative(process.cwd(), file), message: err.message });
       } else {
         const e = err as Error;
-        problem({ study: loaded?.declaration.name ?? '', file: loaded?.file ?? file, message: `unexpected failure: ${e.stack ?? e.message}` });
+        problem({ study: loaded?.declaration.name ?? '', file: loaded?.file ?? relative(process.cwd(), file), message: `unexpected failure: ${e.stack ?? e.message}` });
       }
     }
   }

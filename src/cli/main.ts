@@ -2,6 +2,7 @@
 import { Command, InvalidArgumentError, Option } from 'commander';
 import { runCommand } from './run-command.ts';
 import { listCommand } from './list-command.ts';
+import { checkCommand } from './check-command.ts';
 
 function positiveInt(v: string): number {
   const n = Number(v);
@@ -26,6 +27,19 @@ program
   .option('--quiet', 'print only the verdict lines')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
   .action(async (paths: string[], o) => { process.exitCode = await runCommand(paths, o); });
+
+program
+  .command('check')
+  .description('the gate for CI: run studies, compare orders with the expected ones and errors with a baseline')
+  .argument('[paths...]', 'study files or folders', ['studies'])
+  .option('--baseline <file>', 'baseline file (plain JSON) to compare each level\'s errors with')
+  .option('--update-baseline', 'write the baseline file from this run instead of comparing')
+  .option('--junit <file>', 'write JUnit XML: one test case per study and norm')
+  .option('--quick', 'run each study\'s short ladder (ladder.quick, default its 3 coarsest levels)')
+  .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
+  .option('--out <dir>', 'folder for the reports', 'reports')
+  .option('--quiet', 'print only failures')
+  .action(async (paths: string[], o) => { process.exitCode = await checkCommand(paths, o); });
 
 program
   .command('list')

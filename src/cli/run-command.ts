@@ -29,7 +29,12 @@ export async function runCommand(paths: string[], flags: RunFlags): Promise<numb
     },
     onProblem: (p) => process.stderr.write(problemLine(p.file, p.message) + '\n'),
   });
-  const writeProblems = writeReports(flags.out, results, { inputProblems: problems });
+  let writeProblems: string[];
+  try {
+    writeProblems = writeReports(flags.out, results, { inputProblems: problems });
+  } catch (err) {
+    writeProblems = [(err as Error).message];
+  }
   for (const w of writeProblems) process.stderr.write(`error: ${w}\n`);
   if (flags.json) process.stdout.write(resultsJson(results) + '\n');
   else if (results.length) {

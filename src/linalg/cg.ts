@@ -7,11 +7,14 @@ import {
   SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
+import { dot } from './vector.ts';
 
 /** Relative symmetry tolerance of the check CG runs before iterating (see isSymmetric). */
 export const CG_SYMMETRY_TOL = 1e-10;
 /** How often the recursively updated residual may be replaced by the true one when they disagree at the end. */
 const MAX_RESIDUAL_REPLACEMENTS = 3;
+/** With a preconditioner that also returns A z, q = A p is updated by recursion and recomputed every this many steps. */
+const PRODUCT_REFRESH = 50;
 
 /** Solves A x = b; x0InOut is the initial guess and receives the solution. Does not throw on non-convergence:
  *  stats.converged says whether relTol was met (relativeResidual is the true ||b − A x|| / ||b||). */
@@ -30,36 +33,29 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
   if (bNorm === 0) return zeroRhsStats(method, M, x, t0);
 
   const n = A.nRows;
-  const { rowPtr, colIdx, values } = A;
   const r = new Float64Array(n);
   const z = new Float64Array(n);
   const p = new Float64Array(n);
   const q = new Float64Array(n);
+  const t = { t0, method, M: M.name };
 
-  const trueResidual = (): number => {
-    let rr = 0;
-    for (let i = 0; i < n; i++) {
-      let s = b[i];
-      for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s -= values[k] * x[colIdx[k]];
-      r[i] = s;
-      rr += s * s;
-    }
-    return Math.sqrt(rr) / bNorm;
-  };
-
-  let rel: number;
-  if (isAllZero(x)) { r.set(b); rel = 1; } else rel = trueResidual();
+  let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(A, b, x, r) / bNorm;
   if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
-  const stats = (iterations: number, stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string): SolveStats => ({
-    method, preconditioner: M.name, iterations, relativeResidual: rel, converged, stoppedBy,
-    solveSeconds: (performance.now() - t0) / 1000, ...(message ? { message } : {}),
-  });
-  if (rel <= relTol) return stats(0, 'residual', true);
+  if (rel <= relTol) return finish(t, 0, rel, 'residual', true);
 
   const stagnated = stagnationWatch();
+  const fusedM = M.withProduct && M.withProduct.matrix === A ? M.withProduct : null;
+  const w = fusedM ? new Float64Array(n) : q;
   let replacements = 0;
-  let rz = restartDirection(M, r, z, p);
-  let normA = -1; // ||A||_inf, computed only if a curvature test needs a scale
+  let sinceProduct = 0;
+  let rz = 0, pq = 0;
+  /** Search direction from the current residual: z = M⁻¹r, p = z, q = A p, and r·z, p·q. */
+  const restart = (): void => {
+    if (fusedM) { rz = fusedM.apply(r, z, w); p.set(z); q.set(w); pq = dot(p, q); }
+    else { M.apply(r, z); p.set(z); rz = dot(r, z); pq = spmvDot(A, p, q); }
+    sinceProduct = 0;
+  };
+  restart();
   let it = 0;
   while (it < maxIter) {
     if (!(rz > 0)) {
@@ -68,72 +64,134 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
         throw new RungsNumericalError(
           `cg: r·M⁻¹r = ${rz} < 0 at iteration ${it}: the preconditioner '${M.name}' is not positive definite`, 'linalg/cg');
       }
-      return stats(it, 'breakdown', false, `cg: the preconditioned residual vanished while ||r||/||b|| = ${rel}; ${SINGULAR_HINT}`);
-    }
-    // q = A p and p·q in one sweep.
-    let pq = 0;
-    for (let i = 0; i < n; i++) {
-      let s = 0;
-      for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s += values[k] * p[colIdx[k]];
-      q[i] = s;
-      pq += p[i] * s;
+      return finish(t, it, rel, 'breakdown', false,
+        `cg: the preconditioned residual vanished while ||r||/||b|| = ${rel}; ${SINGULAR_HINT}`);
     }
     if (!(pq > 0)) {
       if (!Number.isFinite(pq)) throw nonFiniteError(method, it, 'p·Ap');
-      if (normA < 0) normA = infinityNorm(A);
-      let pp = 0;
-      for (let i = 0; i < n; i++) pp += p[i] * p[i];
-      if (pq < -1e-8 * normA * pp) {
+      if (pq < -1e-8 * infinityNorm(A) * dot(p, p)) {
         throw new RungsInputError(
           `cg: p·Ap = ${pq.toExponential(3)} < 0 at iteration ${it}: the matrix is not positive definite, which CG needs; ` +
             "check the sign of the operator, or use method 'gmres'",
           'linalg/cg',
         );
       }
-      return stats(it, 'breakdown', false, `cg: p·Ap vanished at iteration ${it} (a direction in the null space); ${SINGULAR_HINT}`);
+      return finish(t, it, rel, 'breakdown', false,
+        `cg: p·Ap vanished at iteration ${it} (a direction in the null space); ${SINGULAR_HINT}`);
     }
-    const alpha = rz / pq;
-    let rr = 0;
-    for (let i = 0; i < n; i++) {
-      x[i] += alpha * p[i];
-      const ri = r[i] - alpha * q[i];
-      r[i] = ri;
-      rr += ri * ri;
-    }
+    const rr = updateIterate(rz / pq, p, q, x, r);
     it++;
     rel = Math.sqrt(rr) / bNorm;
     if (!Number.isFinite(rel)) throw nonFiniteError(method, it, 'the residual');
     if (rel <= relTol) {
       // The recursion drifts from b − A x; accept only when the true residual agrees.
-      rel = trueResidual();
-      if (rel <= relTol) return stats(it, 'residual', true);
+      rel = trueResidual(A, b, x, r) / bNorm;
+      if (rel <= relTol) return finish(t, it, rel, 'residual', true);
       if (++replacements > MAX_RESIDUAL_REPLACEMENTS) {
-        return stats(it, 'stagnation', false,
+        return finish(t, it, rel, 'stagnation', false,
           `cg: the true residual stays at ${rel.toExponential(2)} above relTol ${relTol}; ${SINGULAR_HINT}`);
       }
-      rz = restartDirection(M, r, z, p);
+      restart();
       continue;
     }
     if (opts.stopWhen && opts.stopWhen({ iteration: it, relativeResidual: rel, x })) {
-      rel = trueResidual();
-      return stats(it, 'stopWhen', true);
+      return finish(t, it, trueResidual(A, b, x, r) / bNorm, 'stopWhen', true);
     }
     if (stagnated(it, rel)) {
-      rel = trueResidual();
-      return stats(it, 'stagnation', false,
+      rel = trueResidual(A, b, x, r) / bNorm;
+      return finish(t, it, rel, 'stagnation', false,
         `cg: the residual stopped decreasing at ${rel.toExponential(2)} (relTol ${relTol}); ${SINGULAR_HINT}`);
     }
     if (it >= maxIter) break;
-    M.apply(r, z);
-    let rzNew = 0;
-    for (let i = 0; i < n; i++) rzNew += r[i] * z[i];
-    const beta = rzNew / rz;
+    let rzNew: number;
+    if (fusedM) {
+      rzNew = fusedM.apply(r, z, w);
+      const beta = rzNew / rz;
+      // q = A p by the recursion A(z + βp) = Az + βAp, refreshed by a true product now and then against drift.
+      if (++sinceProduct < PRODUCT_REFRESH) pq = nextDirectionWithProduct(beta, z, w, p, q);
+      else { nextDirection(beta, z, p); pq = spmvDot(A, p, q); sinceProduct = 0; }
+    } else {
+      M.apply(r, z);
+      rzNew = dot(r, z);
+      nextDirection(rzNew / rz, z, p);
+      pq = spmvDot(A, p, q);
+    }
     rz = rzNew;
-    for (let i = 0; i < n; i++) p[i] = z[i] + beta * p[i];
   }
-  rel = trueResidual();
-  return stats(it, 'maxIter', rel <= relTol,
+  rel = trueResidual(A, b, x, r) / bNorm;
+  return finish(t, it, rel, 'maxIter', rel <= relTol,
     rel <= relTol ? undefined : `cg: not converged after ${it} iterations (||r||/||b|| = ${rel.toExponential(2)})`);
+}
+
+/** p = z + β p. */
+function nextDirection(beta: number, z: Float64Array, p: Float64Array): void {
+  const n = p.length;
+  for (let i = 0; i < n; i++) p[i] = z[i] + beta * p[i];
+}
+
+/** p = z + β p, q = w + β q with w = A z; returns p·q. */
+function nextDirectionWithProduct(beta: number, z: Float64Array, w: Float64Array, p: Float64Array, q: Float64Array): number {
+  const n = p.length;
+  let pq = 0;
+  for (let i = 0; i < n; i++) {
+    const pi = z[i] + beta * p[i];
+    const qi = w[i] + beta * q[i];
+    p[i] = pi;
+    q[i] = qi;
+    pq += pi * qi;
+  }
+  return pq;
+}
+
+function finish(
+  t: { t0: number; method: string; M: string }, iterations: number, relativeResidual: number,
+  stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string,
+): SolveStats {
+  return {
+    method: t.method, preconditioner: t.M, iterations, relativeResidual, converged, stoppedBy,
+    solveSeconds: (performance.now() - t.t0) / 1000, ...(message ? { message } : {}),
+  };
+}
+
+/** r = b − A x; returns ||r||. */
+function trueResidual(A: Csr, b: Float64Array, x: Float64Array, r: Float64Array): number {
+  const { nRows: n, rowPtr, colIdx, values } = A;
+  let rr = 0;
+  for (let i = 0; i < n; i++) {
+    let s = b[i];
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s -= values[k] * x[colIdx[k]];
+    r[i] = s;
+    rr += s * s;
+  }
+  return Math.sqrt(rr);
+}
+
+/** q = A p; returns p·q (one sweep). */
+function spmvDot(A: Csr, p: Float64Array, q: Float64Array): number {
+  const { nRows: n, rowPtr, colIdx, values } = A;
+  let pq = 0;
+  let k = rowPtr[0];
+  for (let i = 0; i < n; i++) {
+    const end = rowPtr[i + 1];
+    let s = 0;
+    for (; k < end; k++) s += values[k] * p[colIdx[k]];
+    q[i] = s;
+    pq += p[i] * s;
+  }
+  return pq;
+}
+
+/** x += α p, r −= α q; returns ||r||². */
+function updateIterate(alpha: number, p: Float64Array, q: Float64Array, x: Float64Array, r: Float64Array): number {
+  const n = x.length;
+  let rr = 0;
+  for (let i = 0; i < n; i++) {
+    x[i] += alpha * p[i];
+    const ri = r[i] - alpha * q[i];
+    r[i] = ri;
+    rr += ri * ri;
+  }
+  return rr;
 }
 
 /** z = M⁻¹ r, p = z; returns r·z. */

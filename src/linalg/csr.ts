@@ -81,34 +81,36 @@ export function csrFromTriplets(
 
 /** Sorts cols[lo..hi) ascending, carrying vals along: insertion sort for the short rows of FE matrices, heap sort past 32. */
 export function sortRowByColumn(cols: Int32Array, vals: Float64Array, lo: number, hi: number): void {
-  if (hi - lo <= 32) {
-    for (let i = lo + 1; i < hi; i++) {
-      const c = cols[i], v = vals[i];
-      let j = i - 1;
-      while (j >= lo && cols[j] > c) { cols[j + 1] = cols[j]; vals[j + 1] = vals[j]; j--; }
-      cols[j + 1] = c; vals[j + 1] = v;
-    }
-    return;
+  if (hi - lo > 32) { heapSortRow(cols, vals, lo, hi); return; }
+  for (let i = lo + 1; i < hi; i++) {
+    const c = cols[i], v = vals[i];
+    let j = i - 1;
+    while (j >= lo && cols[j] > c) { cols[j + 1] = cols[j]; vals[j + 1] = vals[j]; j--; }
+    cols[j + 1] = c; vals[j + 1] = v;
   }
+}
+
+function heapSortRow(cols: Int32Array, vals: Float64Array, lo: number, hi: number): void {
   const n = hi - lo;
-  const sift = (start: number, end: number): void => {
-    let root = start;
-    for (;;) {
-      let child = 2 * root + 1;
-      if (child >= end) return;
-      if (child + 1 < end && cols[lo + child + 1] > cols[lo + child]) child++;
-      if (cols[lo + root] >= cols[lo + child]) return;
-      const a = lo + root, b = lo + child;
-      const tc = cols[a]; cols[a] = cols[b]; cols[b] = tc;
-      const tv = vals[a]; vals[a] = vals[b]; vals[b] = tv;
-      root = child;
-    }
-  };
-  for (let s = (n >> 1) - 1; s >= 0; s--) sift(s, n);
+  for (let s = (n >> 1) - 1; s >= 0; s--) siftDown(cols, vals, lo, s, n);
   for (let end = n - 1; end > 0; end--) {
     const tc = cols[lo]; cols[lo] = cols[lo + end]; cols[lo + end] = tc;
     const tv = vals[lo]; vals[lo] = vals[lo + end]; vals[lo + end] = tv;
-    sift(0, end);
+    siftDown(cols, vals, lo, 0, end);
+  }
+}
+
+function siftDown(cols: Int32Array, vals: Float64Array, lo: number, start: number, end: number): void {
+  let root = start;
+  for (;;) {
+    let child = 2 * root + 1;
+    if (child >= end) return;
+    if (child + 1 < end && cols[lo + child + 1] > cols[lo + child]) child++;
+    if (cols[lo + root] >= cols[lo + child]) return;
+    const a = lo + root, b = lo + child;
+    const tc = cols[a]; cols[a] = cols[b]; cols[b] = tc;
+    const tv = vals[a]; vals[a] = vals[b]; vals[b] = tv;
+    root = child;
   }
 }
 

@@ -11,6 +11,9 @@ export interface Csr {
 export interface Preconditioner {
   name: string;
   apply(r: Float64Array, z: Float64Array): void;
+  /** Optional fused form for CG: z = M^{-1} r and, in the same sweeps, Az = matrix·z; returns r·z.
+   *  CG uses it (saving its own product with A) only when `matrix` is the very matrix it solves with. */
+  withProduct?: { matrix: Csr; apply(r: Float64Array, z: Float64Array, Az: Float64Array): number };
 }
 
 export interface SolveOptions {

@@ -40,7 +40,14 @@ section.study { margin-top: 40px; padding-top: 20px; border-top: 1px solid var(-
 .study-head { display: flex; align-items: baseline; gap: 14px; flex-wrap: wrap; }
 .facts { color: var(--muted); font-size: 13.5px; margin: 4px 0 12px; }
 .facts code, code { font-family: ui-monospace, SFMono-Regular, Menlo, Consolas, 'Liberation Mono', monospace; font-size: 0.92em; }
-figure { margin: 12px 0; }
+figure { margin: 12px 0; min-width: 0; }
+.plot-row { display: grid; grid-template-columns: minmax(0, 640px) minmax(200px, 1fr); gap: 24px; align-items: start; }
+.glance { display: flex; flex-direction: column; gap: 12px; margin-top: 12px; }
+.card { border: 1px solid var(--line); border-left: 5px solid var(--good); border-radius: 6px; padding: 10px 14px; }
+.card.departure { border-left-color: var(--bad); background: var(--bad-bg); }
+.card-norm { font-size: 13px; color: var(--muted); font-weight: 600; }
+.card-verdict { font-size: 20px; margin: 2px 0 4px; }
+.card-line { font-size: 13.5px; font-variant-numeric: tabular-nums; }
 figure svg { max-width: 100%; height: auto; border: 1px solid var(--line); border-radius: 6px; }
 figcaption { color: var(--muted); font-size: 13px; margin-top: 4px; }
 ul.reasons { margin: 2px 0; padding-left: 18px; }
@@ -51,15 +58,16 @@ ul.reasons li.warning { color: var(--warn); }
 pre.inputs { background: var(--soft); border: 1px solid var(--line); border-radius: 6px; padding: 10px 12px; font-size: 12px; overflow-x: auto; margin: 0; white-space: pre-wrap; word-break: break-word; }
 footer { margin-top: 48px; color: var(--muted); font-size: 12.5px; border-top: 1px solid var(--line); padding-top: 10px; }
 a { color: #0550ae; }
-@media (max-width: 760px) { main { padding: 16px; } .columns { grid-template-columns: 1fr; } }
+@media (max-width: 900px) { main { padding: 16px; } .columns, .plot-row { grid-template-columns: 1fr; } }
 @media print {
   @page { margin: 16mm 14mm; }
   body { font-size: 10pt; }
   main { max-width: none; padding: 0; }
   a { color: inherit; text-decoration: none; }
-  .caution, .problems, .warnings, .outcome, tbody tr:nth-child(even) { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
+  .caution, .problems, .warnings, .outcome, .card, tbody tr:nth-child(even) { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
   section.study { break-before: page; border-top: none; margin-top: 0; }
-  figure, table, tr, .warnings { break-inside: avoid; }
+  figure, table, tr, .warnings, .card { break-inside: avoid; }
+  .plot-row { grid-template-columns: minmax(0, 3fr) minmax(0, 1.2fr); gap: 12px; }
   figure svg { border: none; }
   pre.inputs { white-space: pre-wrap; }
 }

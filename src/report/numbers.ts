@@ -66,5 +66,5 @@ function nonFinite(x: number): string {
 export function stderrText(s: number): string {
   if (!Number.isFinite(s)) return nonFinite(s);
   if (s === 0) return '0';
-  return s >= 0.01 ? s.toFixed(2) : String(Number(s.toPrecision(2)));
+  return s >= 0.01 ? s.toFixed(2) : s.toPrecision(2);
 }

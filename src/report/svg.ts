@@ -2,6 +2,7 @@ import { scaleLog, type ScaleLogarithmic } from 'd3-scale';
 import type { SeriesAnalysis } from '../analysis/types.ts';
 import type { LevelResult, StudyResult } from '../study/result.ts';
 import { marker } from './markers.ts';
+import { placeTriangle, type PlacedTriangle } from './slope-triangle.ts';
 import { fixed, intervalText, levelNumber, orderText, sci } from './numbers.ts';
 import { seriesStyle } from './palette.ts';
 import { analysisOf, fileStem, normNames } from './series.ts';
@@ -36,46 +37,12 @@ interface Series {
   norm: string;
   analysis: SeriesAnalysis | undefined;
   points: Point[];
-  triangle: { corners: [number, number][]; rise: [number, number]; run: [number, number]; label: string } | null;
-}
-
-/** Corners of a slope triangle under the finest data, one level-spacing wide; hypotenuse at the expected slope. */
-function slopeTriangle(points: Point[], expected: number, axis: 'h' | 'dofs', dim: number): Series['triangle'] {
-  if (points.length < 1) return null;
-  const byX = [...points].sort((a, b) => a.x - b.x);
-  // Finest level: smallest h, or largest dofs.
-  const finest = axis === 'h' ? byX[0] : byX[byX.length - 1];
-  const neighbour = axis === 'h' ? byX[1] : byX[byX.length - 2];
-  const spacing = neighbour ? Math.max(neighbour.x / finest.x, finest.x / neighbour.x) : 2;
-  const run = Math.min(Math.max(spacing, 1.5), 4);
-  // A third of a decade below the data keeps the triangle clear of the markers.
-  const base = finest.y * 0.45;
-  if (axis === 'h') {
-    const x0 = finest.x;
-    const x1 = x0 * run;
-    const top = base * run ** expected;
-    return {
-      corners: [[x0, base], [x1, base], [x1, top]],
-      run: [Math.sqrt(x0 * x1), base],
-      rise: [x1, Math.sqrt(base * top)],
-      label: orderText(expected),
-    };
-  }
-  // In dofs the error falls like N^(-p/d): the rise over one unit of log N is p/d.
-  const x1 = finest.x;
-  const x0 = x1 / run;
-  const top = base * run ** (expected / dim);
-  return {
-    corners: [[x0, top], [x0, base], [x1, base]],
-    run: [Math.sqrt(x0 * x1), base],
-    rise: [x0, Math.sqrt(base * top)],
-    label: orderText(expected / dim),
-  };
+  triangle: (PlacedTriangle & { label: string }) | null;
 }
 
 function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
   const xOf = (l: LevelResult) => (axis === 'h' ? l.h : l.dofs);
-  return normNames(result).map((norm) => {
+  const series: Series[] = normNames(result).map((norm) => {
     const analysis = analysisOf(result, norm);
     const points = result.levels
       .map((l, i): Point => ({
@@ -86,10 +53,21 @@ function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
       }))
       // A log axis cannot show zero, negative or missing values.
       .filter((p) => Number.isFinite(p.x) && p.x > 0 && Number.isFinite(p.y) && p.y > 0);
-    const expected = analysis?.expected;
-    const triangle = expected !== null && expected !== undefined && expected > 0 ? slopeTriangle(points, expected, axis, result.dim) : null;
-    return { norm, analysis, points, triangle };
+    return { norm, analysis, points, triangle: null };
   });
+  const logPoints = series.map((s) => s.points.map((p) => ({ u: Math.log(p.x), v: Math.log(p.y) })));
+  const placed: PlacedTriangle[] = [];
+  series.forEach((s, k) => {
+    const p = s.analysis?.expected;
+    if (p === null || p === undefined || !(p > 0)) return;
+    // Error ~ h^p, or ~ N^(-p/d) in d dimensions when plotted against dofs.
+    const slope = axis === 'h' ? p : -p / result.dim;
+    const t = placeTriangle(logPoints[k], slope, logPoints.filter((_, j) => j !== k), placed);
+    if (!t) return;
+    placed.push(t);
+    s.triangle = { ...t, label: orderText(Math.abs(slope)) };
+  });
+  return series;
 }
 
 function logScale(values: number[], range: [number, number]): ScaleLogarithmic<number, number> {
@@ -184,8 +162,14 @@ export function svgPlot(result: StudyResult, options: PlotOptions = {}): string 
   const top = MARGIN.top;
   const bottom = top + plotHeight;
 
-  const xs = series.flatMap((s) => [...s.points.map((p) => p.x), ...(s.triangle?.corners.map((c) => c[0]) ?? [])]);
-  const ys = series.flatMap((s) => [...s.points.map((p) => p.y), ...(s.triangle?.corners.map((c) => c[1]) ?? [])]);
+  const xs = series.flatMap((s) => [...s.points.map((p) => p.x), ...(s.triangle?.corners.map((c) => Math.exp(c.u)) ?? [])]);
+  // Room for a triangle's "1" label beyond its horizontal leg: a factor e^0.45 ≈ 1.6 past the corners.
+  const labelRoom = (t: PlacedTriangle) => (t.placement === 'below' ? -0.45 : 0.45);
+  const ys = series.flatMap((s) => [
+    ...s.points.map((p) => p.y),
+    ...(s.triangle ? s.triangle.corners.map((c) => Math.exp(c.v)) : []),
+    ...(s.triangle ? [Math.exp(s.triangle.runLabel.v + labelRoom(s.triangle))] : []),
+  ]);
   const x = logScale(xs, [left, right]);
   const y = logScale(ys, [bottom, top]);
   const axisWord = axis === 'h' ? 'mesh size h' : 'degrees of freedom';
@@ -207,13 +191,16 @@ export function svgPlot(result: StudyResult, options: PlotOptions = {}): string 
     if (!s.triangle) return '';
     const { color } = seriesStyle(k);
     const t = s.triangle;
-    const pts = t.corners.map(([cx, cy]) => `${r2(x(cx))},${r2(y(cy))}`).join(' ');
-    const riseX = x(t.rise[0]) + (axis === 'h' ? 6 : -6);
-    return el('g', { class: 'slope-triangle', 'data-norm': s.norm, 'data-order': s.analysis?.expected ?? '' }, [
-      el('title', {}, escapeXml(`${s.norm}: expected order ${t.label}`)),
+    const px = (u: number) => x(Math.exp(u));
+    const py = (v: number) => y(Math.exp(v));
+    const pts = t.corners.map((c) => `${r2(px(c.u))},${r2(py(c.v))}`).join(' ');
+    const rise = t.riseLabel;
+    const run = t.runLabel;
+    return el('g', { class: 'slope-triangle', 'data-norm': s.norm, 'data-order': s.analysis?.expected ?? '', 'data-placement': t.placement }, [
+      el('title', {}, escapeXml(`${s.norm}: expected order ${orderText(s.analysis?.expected)}${axis === 'dofs' ? ` (slope ${t.label} against dofs in ${result.dim}-D)` : ''}`)),
       el('polygon', { points: pts, fill: color, 'fill-opacity': 0.08, stroke: color, 'stroke-width': 1, 'stroke-dasharray': '4 2' }),
-      el('text', { class: 'slope-label', x: r2(riseX), y: r2(y(t.rise[1]) + 4), 'text-anchor': axis === 'h' ? 'start' : 'end', 'font-size': 12, fill: color, 'font-weight': 600 }, escapeXml(t.label)),
-      el('text', { class: 'slope-run', x: r2(x(t.run[0])), y: r2(y(t.run[1]) + 14), 'text-anchor': 'middle', 'font-size': 11, fill: MUTED }, '1'),
+      el('text', { class: 'slope-label', x: r2(px(rise.u) + (rise.side === 'right' ? 6 : -6)), y: r2(py(rise.v) + 4), 'text-anchor': rise.side === 'right' ? 'start' : 'end', 'font-size': 12, fill: color, 'font-weight': 600 }, escapeXml(t.label)),
+      el('text', { class: 'slope-run', x: r2(px(run.u)), y: r2(py(run.v) + (run.side === 'below' ? 14 : -5)), 'text-anchor': 'middle', 'font-size': 11, fill: MUTED }, '1'),
     ]);
   });
 

@@ -12,11 +12,16 @@ export function escapeXml(text: string): string {
   );
 }
 
+/** Attribute values also keep their line breaks and tabs, which attribute normalisation would turn into spaces (XML 1.0 §3.3.3). */
+export function escapeAttribute(text: string): string {
+  return escapeXml(text).replace(/\n/g, '&#10;').replace(/\r/g, '&#13;').replace(/\t/g, '&#9;');
+}
+
 /** `<tag a="1" b="x">children</tag>`, or self-closed when there are no children; attribute values escaped. */
 export function el(tag: string, attrs: Record<string, string | number | undefined>, children: string | string[] = ''): string {
   const attrText = Object.entries(attrs)
     .filter(([, v]) => v !== undefined)
-    .map(([k, v]) => ` ${k}="${escapeXml(String(v))}"`)
+    .map(([k, v]) => ` ${k}="${escapeAttribute(String(v))}"`)
     .join('');
   const body = Array.isArray(children) ? children.join('') : children;
   return body === '' ? `<${tag}${attrText}/>` : `<${tag}${attrText}>${body}</${tag}>`;

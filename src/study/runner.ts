@@ -90,7 +90,8 @@ function finishAnalysis(
     const scale = scaleAll[nm as keyof typeof scaleAll];
     const a = analyseSeries({
       name: nm,
-      h: levels.map((l) => l.h),
+      // On perturbed ladders the largest cell diameter jitters from level to level; the dof count does not.
+      h: decl.ladder.perturb ? null : levels.map((l) => l.h),
       dofs: levels.map((l) => l.dofs),
       dim: result.dim,
       errors: levels.map((l) => l.errors[nm]),

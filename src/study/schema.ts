@@ -57,7 +57,7 @@ export const studySchema = z.object({
   discretization,
   ladder,
   norms: z.array(z.enum(NORM_NAMES as [string, ...string[]])).min(1).optional(),
-  expected: z.record(z.enum(NORM_NAMES as [string, ...string[]]), z.number().finite()).optional(),
+  expected: z.partialRecord(z.enum(NORM_NAMES as [string, ...string[]]), z.number().finite()).optional(),
   tolerance: z.number().positive().optional(),
   fitWindow: z.number().int().min(2).optional(),
   expect: z.object({ verdict: z.enum(verdicts), flaw: z.string().min(1).optional() }).strict().optional(),

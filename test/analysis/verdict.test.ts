@@ -118,10 +118,10 @@ describe('analyseSeries verdicts', () => {
     const a = analyseSeries(series(errors, h, { floorHint: errors.map(() => 5e-6) }));
     expect(a.floorFrom).toBe(6);
     expect(a.floorKind).toBe('solver');
-    expect(a.warnings).toEqual(['floor: solver tolerance from level 6']);
+    expect(a.warnings).toEqual(['floor: solver tolerance from level 7']);
     expect(a.fit!.levels).toEqual([3, 4, 5]);
     expect(a.verdict).toBe('on-order');
-    expect(a.reasons[a.reasons.length - 1]).toBe('floor: solver tolerance from level 6 (levels 6–7 left out of the fit)');
+    expect(a.reasons[a.reasons.length - 1]).toBe('floor: solver tolerance from level 7 (levels 7–8 left out of the fit)');
     // The same errors without the hint stall on the finest levels and the fit cannot decide.
     const blind = analyseSeries(series(errors, h));
     expect(blind.verdict).not.toBe('on-order');
@@ -132,7 +132,7 @@ describe('analyseSeries verdicts', () => {
     const h = ladder(7);
     const errors = [1e-4, 6.25e-6, 3.9e-7, 2.44e-8, 1.53e-9, 3e-11, 4e-11];
     const a = analyseSeries(series(errors, h, { expected: 4, scale: errors.map(() => 1), dofs: [1e2, 1e3, 3e3, 1e4, 3e4, 1e5, 4e5] }));
-    expect(a.warnings).toEqual(['floor: round-off from level 5']);
+    expect(a.warnings).toEqual(['floor: round-off from level 6']);
     expect(a.floorKind).toBe('round-off');
     expect(a.fit!.levels).toEqual([2, 3, 4]);
     expect(a.verdict).toBe('on-order');
@@ -145,7 +145,7 @@ describe('analyseSeries verdicts', () => {
     expect(a.fit).toBeNull();
     expect(a.floorFrom).toBe(0);
     expect(a.floorKind).toBe('round-off');
-    expect(a.reasons[0]).toMatch(/^all errors at round-off: largest error\/scale 1\.3e-14 at level 3/);
+    expect(a.reasons[0]).toMatch(/^all errors at round-off: largest error\/scale 1\.3e-14 at level 4/);
   });
 
   it('exactly zero errors (the space contains u) are exact', () => {
@@ -162,6 +162,23 @@ describe('analyseSeries verdicts', () => {
       'fitted order 2.00 (two levels, no confidence interval) vs expected 2 ± 0.1',
       'too few levels: 2 usable, need 3 for a confidence interval',
     ]);
+  });
+
+  it('a fit window of 2 inside a longer ladder says the window is too small for an interval', () => {
+    const h = ladder(4);
+    const a = analyseSeries(series(h.map((x) => x * x), h, { fitWindow: 2 }));
+    expect(a.fit!.levels).toEqual([2, 3]);
+    expect(a.reasons[1]).toBe('too few levels in the fit window: 2, need 3 for a confidence interval (raise fitWindow)');
+  });
+
+  it('an isolated zero error on a coarse level is left out with a warning, not taken as a floor', () => {
+    const h = ladder(5);
+    const errors = h.map((x, i) => (i === 0 ? 0 : 0.5 * x * x));
+    const a = analyseSeries(series(errors, h, { fitWindow: 5 }));
+    expect(a.floorFrom).toBeNull();
+    expect(a.fit!.levels).toEqual([1, 2, 3, 4]);
+    expect(a.warnings).toEqual(['level 1 looks like a round-off floor but finer levels do not; left out of the fit']);
+    expect(a.verdict).toBe('on-order');
   });
 
   it('one usable level is inconclusive', () => {

@@ -1,0 +1,20 @@
+// Codes not written in TypeScript: run an external solver per level and read back its errors or its solution.
+export { external, type ExternalDiscretization, type ExternalOutput, type ExternalLevelOutput, type ExternalLevelRun } from './types.ts';
+export {
+  runLevelCommand, levelArgv, showArgv, runLevelsInParallel, DEFAULT_TIMEOUT_SECONDS, KILL_GRACE_SECONDS,
+  type CommandSpec, type CommandRun, type CommandOptions,
+} from './command.ts';
+export { splitCommandWords } from './words.ts';
+export { substituteWord, substituteWords, levelEnvironment, PLACEHOLDERS, type LevelValues } from './placeholders.ts';
+export { runExternalLevel, externalLevelResult, type ExternalLevelInput, type ExternalResultOptions } from './level.ts';
+export { levelFolder, prepareLevelFolder, readLevelOutput, ERRORS_FILES, SOLUTION_FILES, type ReadOutputOptions } from './output.ts';
+export { parseErrorsJson, parseErrorsCsv, errorsFileSchema, type ReportedErrors, type ErrorsFileOptions } from './errors-file.ts';
+export { externalDiscretizationSchema, quantityNamesSchema } from './schema.ts';
+export { parseLegacyVtk } from './vtk/legacy.ts';
+export { parseVtu } from './vtk/vtu.ts';
+export { parseVtkText, readVtkFile } from './vtk/read.ts';
+export { gridToField, MID_NODE_TOLERANCE, type VtkField, type VtkFieldOptions } from './vtk/to-field.ts';
+export { VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './vtk/cell-types.ts';
+export type { VtkGrid, VtkPointArray } from './vtk/grid.ts';
+export { tetrahedronBoundaryFacets } from './tetra-facets.ts';
+export { levelLabel, placeOf, type LevelRef } from './where.ts';

@@ -1,0 +1,66 @@
+import type { Mesh } from '../mesh/types.ts';
+import type { DiscreteField } from '../norms/types.ts';
+import type { FunctionSpace } from '../fem/dofmap/types.ts';
+import type { CommandRun } from './command.ts';
+
+/** How the external solver hands its level back: its own measured errors, or its discrete solution as VTK. */
+export type ExternalOutput = 'errors' | 'vtk';
+
+/** A discretization implemented by another program, run once per level. */
+export interface ExternalDiscretization {
+  kind: 'external';
+  /** Command template, e.g. "python3 solver.py --n {n} --out {out}"; placeholders {n} {h} {level} {degree} {out}
+   *  {study}, substituted inside each word after splitting (no shell). Or the argv words themselves. */
+  command: string | string[];
+  output: ExternalOutput;
+  /** Element degree (sets derived expected orders and the error quadrature; checked against VTK cell types). */
+  degree?: number;
+  /** Seconds a level may take before the solver's process group is stopped (default 600). */
+  timeoutSeconds?: number;
+  label?: string;
+  /** VTK point-data array holding the solution (default: the only scalar array). */
+  field?: string;
+  /** Working folder of the solver (default: the folder rungs runs in). */
+  cwd?: string;
+  /** Extra environment variables for the solver. */
+  env?: Record<string, string>;
+}
+
+/** Declares an external solver, for a study's `discretization` field. */
+export function external(opts: Omit<ExternalDiscretization, 'kind'>): ExternalDiscretization {
+  return { kind: 'external', ...opts };
+}
+
+/** What one level's solver produced, read back from its level folder. */
+export type ExternalLevelOutput =
+  | {
+      kind: 'errors';
+      file: string;
+      dofs: number;
+      /** The solver's h, or the level's own when the file gives none. */
+      h: number;
+      cells: number | null;
+      errors: Record<string, number>;
+      quantities: Record<string, number>;
+    }
+  | {
+      kind: 'field';
+      file: string;
+      mesh: Mesh;
+      field: DiscreteField;
+      degree: 1 | 2;
+      /** Distinct nodes of the VTK cells, or the solver's own count from an errors.json next to the VTK file. */
+      dofs: number;
+      h: number;
+      fieldName: string;
+      /** The Lagrange space of the field, for the nodal interpolant of the exact solution. */
+      space: FunctionSpace;
+      quantities: Record<string, number>;
+    };
+
+export interface ExternalLevelRun {
+  output: ExternalLevelOutput;
+  run: CommandRun;
+  /** Wall seconds: solver, reading its output. */
+  seconds: { solve: number; read: number };
+}

@@ -1,0 +1,98 @@
+// A small CSV reader after RFC 4180 (Shafranovich 2005): comma-separated fields, records ended by CRLF or LF,
+// fields in double quotes may hold commas, line breaks and doubled quotes (""). A leading byte-order mark is
+// dropped, blank lines are skipped, and every record keeps the line it starts on for messages.
+import { RungsInputError } from '../errors.ts';
+
+export interface CsvRecord {
+  fields: string[];
+  /** 1-based line on which the record starts. */
+  line: number;
+}
+
+export interface CsvTable {
+  header: string[];
+  headerLine: number;
+  rows: CsvRecord[];
+}
+
+/** Parses CSV text into records; an unclosed quote or text after a closing quote throws naming file and line. */
+export function parseCsvRecords(text: string, file: string): CsvRecord[] {
+  const records: CsvRecord[] = [];
+  let fields: string[] = [];
+  let field = '';
+  let quoted = false;
+  let line = 1;
+  let recordLine = 1;
+  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  const n = text.length;
+  const endRecord = (): void => {
+    const blank = fields.length === 0 && field.trim() === '' && !quoted;
+    fields.push(field);
+    if (!blank) records.push({ fields, line: recordLine });
+    fields = [];
+    field = '';
+    quoted = false;
+  };
+  while (i < n) {
+    const ch = text[i]!;
+    if (ch === '"' && !quoted && field.trim() === '') {
+      const openLine = line;
+      field = '';
+      quoted = true;
+      i++;
+      for (;;) {
+        if (i >= n) throw new RungsInputError(`${file} line ${openLine}: a quoted field is never closed (missing ")`, file);
+        const c = text[i]!;
+        if (c === '"') {
+          if (text[i + 1] === '"') { field += '"'; i += 2; continue; }
+          i++;
+          break;
+        }
+        if (c === '\n') line++;
+        field += c;
+        i++;
+      }
+      // Only blanks may follow the closing quote before the separator.
+      while (i < n && (text[i] === ' ' || text[i] === '\t')) i++;
+      if (i < n && text[i] !== ',' && text[i] !== '\n' && text[i] !== '\r') {
+        throw new RungsInputError(`${file} line ${line}: unexpected '${text[i]}' after a closing quote; quote the whole field`, file);
+      }
+      continue;
+    }
+    if (ch === ',') { fields.push(field); field = ''; quoted = false; i++; continue; }
+    if (ch === '\r' || ch === '\n') {
+      endRecord();
+      if (ch === '\r' && text[i + 1] === '\n') i++;
+      i++;
+      line++;
+      recordLine = line;
+      continue;
+    }
+    if (quoted) throw new RungsInputError(`${file} line ${line}: unexpected '${ch}' after a closing quote; quote the whole field`, file);
+    field += ch;
+    i++;
+  }
+  if (field !== '' || fields.length > 0 || quoted) endRecord();
+  return records;
+}
+
+/** A table: the first record is the header (trimmed names, unique, non-empty); rows must have its width. */
+export function parseCsvTable(text: string, file: string): CsvTable {
+  const records = parseCsvRecords(text, file);
+  if (records.length === 0) throw new RungsInputError(`${file}: the file is empty; expected a header row such as "h,L2,H1semi" and one row per level`, file);
+  const head = records[0]!;
+  const header = head.fields.map((f) => f.trim());
+  const seen = new Map<string, number>();
+  header.forEach((name, k) => {
+    if (name === '') throw new RungsInputError(`${file} line ${head.line}: column ${k + 1} of the header has no name`, file);
+    if (seen.has(name)) throw new RungsInputError(`${file} line ${head.line}: column name '${name}' appears twice (columns ${seen.get(name)! + 1} and ${k + 1})`, file);
+    seen.set(name, k);
+  });
+  const rows = records.slice(1);
+  for (const r of rows) {
+    if (r.fields.length !== header.length) {
+      throw new RungsInputError(`${file} line ${r.line}: the row has ${r.fields.length} fields, the header has ${header.length} (${header.join(', ')})`, file);
+    }
+  }
+  return { header, headerLine: head.line, rows };
+}

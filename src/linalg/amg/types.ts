@@ -1,0 +1,73 @@
+import type { DenseCholesky } from '../dense/cholesky.ts';
+import type { DenseLu } from '../dense/lu.ts';
+import type { Csr, Preconditioner } from '../types.ts';
+
+export interface AmgOptions {
+  /** Strength threshold θ on the finest level, halved on each coarser one (Vaněk, Mandel & Brezina 1996 use
+   *  θ = 0.08·0.5^level). Default 0.08. */
+  strengthThreshold?: number;
+  /** Stop coarsening at or below this many unknowns and solve there directly. Default 400. */
+  maxCoarseSize?: number;
+  /** At most this many levels, finest included. Default 25. */
+  maxLevels?: number;
+  /** Gauss–Seidel sweeps before (forward) and after (backward) each coarse correction. Default 1. */
+  sweeps?: number;
+  /** Whether A is symmetric; decides the coarsest solver (Cholesky or LU). Checked from A when absent. */
+  symmetric?: boolean;
+}
+
+/** One level of the hierarchy: its operator, the data of its smoother, the prolongator that carries its unknowns to
+ *  the next finer level, and its work vectors. */
+export interface AmgLevel {
+  A: Csr;
+  diagPos: Int32Array;
+  invDiag: Float64Array;
+  /** Prolongator from this level to the next finer one (nCols = this level's size, nRows = the finer size);
+   *  null on the finest level. */
+  P: Csr | null;
+  /** R = Pᵀ (restriction to this level), null on the finest level. */
+  R: Csr | null;
+  /** Right-hand side and iterate of this level inside a cycle (empty on the finest, which works on the caller's
+   *  arrays), and the residual this level hands to the next coarser one. */
+  b: Float64Array;
+  x: Float64Array;
+  r: Float64Array;
+}
+
+export type CoarseSolver =
+  | { kind: 'cholesky'; factor: DenseCholesky }
+  | { kind: 'lu'; factor: DenseLu }
+  | { kind: 'gauss-seidel'; sweeps: number };
+
+export interface AmgHierarchy {
+  levels: AmgLevel[];
+  coarse: CoarseSolver;
+  sweeps: number;
+  /** Symmetric A allows the fused pre-smoothing + residual sweep that reads only the lower triangle. */
+  symmetric: boolean;
+}
+
+export interface AmgLevelInfo {
+  rows: number;
+  nnz: number;
+}
+
+export interface AmgStats {
+  levels: number;
+  /** Σ nnz(A_l) / nnz(A_0). */
+  operatorComplexity: number;
+  /** Σ n_l / n_0. */
+  gridComplexity: number;
+  setupSeconds: number;
+  perLevel: AmgLevelInfo[];
+  /** How the coarsest level is solved, e.g. 'cholesky (n = 143)'. */
+  coarseSolver: string;
+  /** Set when coarsening stalled or the coarsest operator was singular (and a pseudo-inverse was used). */
+  notes: string[];
+}
+
+export interface AmgSetupResult {
+  hierarchy: AmgHierarchy;
+  preconditioner: Preconditioner;
+  stats: AmgStats;
+}

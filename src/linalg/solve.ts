@@ -1,0 +1,123 @@
+/** One entry point for A x = b: picks the method and preconditioner, builds the preconditioner, solves.
+ *  Non-convergence is reported in stats (converged = false, message), never thrown; bad input and singular matrices
+ *  met by the direct solver throw RungsInputError. */
+import { RungsInputError } from '../errors.ts';
+import { amgSetup } from './amg/setup.ts';
+import type { AmgOptions, AmgStats } from './amg/types.ts';
+import { bicgstab } from './bicgstab.ts';
+import { CG_SYMMETRY_TOL, cg } from './cg.ts';
+import { isSymmetric } from './csr.ts';
+import { directSolve } from './direct/direct-solve.ts';
+import { gmres } from './gmres.ts';
+import { identityPreconditioner } from './iteration-control.ts';
+import { ic0Preconditioner } from './precond/ic0.ts';
+import { ilu0Preconditioner } from './precond/ilu0.ts';
+import { jacobiPreconditioner } from './precond/jacobi.ts';
+import { ssorPreconditioner } from './precond/ssor.ts';
+import type { Csr, Preconditioner, SolveOptions, SolveStats } from './types.ts';
+
+export const METHODS = ['auto', 'cg', 'gmres', 'bicgstab', 'direct'] as const;
+export const PRECONDITIONERS = ['auto', 'none', 'jacobi', 'ssor', 'ic0', 'ilu0', 'amg'] as const;
+export type MethodName = (typeof METHODS)[number];
+export type PreconditionerName = (typeof PRECONDITIONERS)[number];
+
+/** 'auto' solves systems up to this size with the exact direct solver. */
+export const AUTO_DIRECT_MAX_N = 200;
+/** 'auto' uses algebraic multigrid above this size, an incomplete factorisation below (where its setup is cheaper
+ *  and its iteration growth still harmless). */
+export const AUTO_AMG_MIN_N = 5000;
+
+export interface SolveSystemOptions {
+  /** Whether A is symmetric (from the bilinear form); CG checks it again unless told otherwise. */
+  symmetric: boolean;
+  method?: MethodName;
+  preconditioner?: PreconditionerName;
+  relTol?: number;
+  maxIter?: number;
+  stopWhen?: SolveOptions['stopWhen'];
+  /** Initial guess (not modified); zero when absent. */
+  x0?: Float64Array;
+  /** GMRES restart length (default 30). */
+  restart?: number;
+  /** Settings of the multigrid preconditioner. */
+  amg?: AmgOptions;
+}
+
+export interface SolveSystemResult {
+  x: Float64Array;
+  stats: SolveStats;
+  /** Hierarchy figures when the multigrid preconditioner was used. */
+  amg?: AmgStats;
+}
+
+const WHERE = 'linalg/solveSystem';
+
+/** The method and preconditioner 'auto' resolves to for a system of size n. */
+export function autoChoice(n: number, symmetric: boolean): { method: Exclude<MethodName, 'auto'>; preconditioner: Exclude<PreconditionerName, 'auto'> } {
+  if (n <= AUTO_DIRECT_MAX_N) return { method: 'direct', preconditioner: 'none' };
+  if (symmetric) return { method: 'cg', preconditioner: n > AUTO_AMG_MIN_N ? 'amg' : 'ic0' };
+  return { method: 'gmres', preconditioner: n > AUTO_AMG_MIN_N ? 'amg' : 'ilu0' };
+}
+
+export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions): SolveSystemResult {
+  const { symmetric } = options;
+  if (typeof symmetric !== 'boolean') throw new RungsInputError('solveSystem: option symmetric (true/false) is required', WHERE);
+  const methodOpt = options.method ?? 'auto';
+  const precOpt = options.preconditioner ?? 'auto';
+  if (!METHODS.includes(methodOpt)) {
+    throw new RungsInputError(`solveSystem: unknown method '${methodOpt}'; valid: ${METHODS.join(', ')}`, WHERE);
+  }
+  if (!PRECONDITIONERS.includes(precOpt)) {
+    throw new RungsInputError(`solveSystem: unknown preconditioner '${precOpt}'; valid: ${PRECONDITIONERS.join(', ')}`, WHERE);
+  }
+  const n = A.nRows;
+  const auto = autoChoice(n, symmetric);
+  const method = methodOpt === 'auto' ? auto.method : methodOpt;
+  if (method === 'cg' && !symmetric) {
+    throw new RungsInputError("solveSystem: method 'cg' needs a symmetric matrix; use 'gmres' or 'bicgstab' for symmetric: false", WHERE);
+  }
+  const x = new Float64Array(n);
+  if (options.x0) {
+    if (options.x0.length !== n) throw new RungsInputError(`solveSystem: x0 has length ${options.x0.length}, expected ${n}`, WHERE);
+    x.set(options.x0);
+  }
+  if (method === 'direct') return { x, stats: directSolve(A, b, x) };
+
+  let precName = precOpt;
+  if (precName === 'auto') precName = n > AUTO_AMG_MIN_N ? 'amg' : symmetric ? 'ic0' : 'ilu0';
+  if (precName === 'ic0' && !symmetric) {
+    throw new RungsInputError("solveSystem: preconditioner 'ic0' needs a symmetric matrix; use 'ilu0' for symmetric: false", WHERE);
+  }
+  // CG's own check, done before an incomplete factorisation could fail on the asymmetric matrix for a less clear reason.
+  if (method === 'cg' && !isSymmetric(A, CG_SYMMETRY_TOL)) {
+    throw new RungsInputError(
+      "solveSystem: symmetric: true, but the matrix is not symmetric, and method 'cg' needs a symmetric positive definite " +
+        "matrix; use 'gmres' or 'bicgstab' (symmetric: false)", WHERE);
+  }
+  const t0 = performance.now();
+  let M: Preconditioner;
+  let amg: AmgStats | undefined;
+  switch (precName) {
+    case 'none': M = identityPreconditioner; break;
+    case 'jacobi': M = jacobiPreconditioner(A); break;
+    case 'ssor': M = ssorPreconditioner(A); break;
+    case 'ic0': M = ic0Preconditioner(A); break;
+    case 'ilu0': M = ilu0Preconditioner(A); break;
+    case 'amg': {
+      const setup = amgSetup(A, { ...options.amg, symmetric });
+      M = setup.preconditioner;
+      amg = setup.stats;
+      break;
+    }
+  }
+  const setupSeconds = (performance.now() - t0) / 1000;
+  const solveOpts: SolveOptions = {
+    relTol: options.relTol, maxIter: options.maxIter, preconditioner: M, stopWhen: options.stopWhen, restart: options.restart,
+    skipSymmetryCheck: method === 'cg',
+  };
+  const run = method === 'cg' ? cg : method === 'gmres' ? gmres : bicgstab;
+  const stats = run(A, b, x, solveOpts);
+  stats.setupSeconds = setupSeconds;
+  if (amg && amg.notes.length > 0) stats.message = [stats.message, ...amg.notes].filter(Boolean).join('; ');
+  return amg ? { x, stats, amg } : { x, stats };
+}

@@ -1,0 +1,37 @@
+// CSV rules of RFC 4180 (Shafranovich 2005, §2): comma separators, CRLF record ends, double-quoted fields holding
+// commas, line breaks and doubled quotes.
+import { describe, expect, it } from 'vitest';
+import { parseCsvRecords, parseCsvTable } from '../../src/fit/csv.ts';
+
+const fields = (text: string) => parseCsvRecords(text, 't.csv').map((r) => r.fields);
+
+describe('parseCsvRecords', () => {
+  it('splits records on CRLF and LF, keeps empty fields', () => {
+    expect(fields('a,b,c\r\n1,,3\n4,5,6')).toEqual([['a', 'b', 'c'], ['1', '', '3'], ['4', '5', '6']]);
+  });
+  it('reads quoted fields with commas, doubled quotes and line breaks (RFC 4180 §2, rules 5–7)', () => {
+    expect(fields('"x, y","say ""hi""","two\r\nlines"\r\nz,"",w\r\n')).toEqual([['x, y', 'say "hi"', 'two\r\nlines'], ['z', '', 'w']]);
+  });
+  it('drops a byte-order mark and blank lines, and keeps each record\'s first line', () => {
+    const recs = parseCsvRecords('\uFEFFh,L2\n\n0.5,"a\nb"\n\n0.25,2\n', 't.csv');
+    expect(recs.map((r) => r.fields)).toEqual([['h', 'L2'], ['0.5', 'a\nb'], ['0.25', '2']]);
+    expect(recs.map((r) => r.line)).toEqual([1, 3, 6]);
+  });
+  it('names the line of an unclosed quote and of text after a closing quote', () => {
+    expect(() => fields('h,L2\n0.5,"oops\n0.25,1\n')).toThrow('t.csv line 2: a quoted field is never closed');
+    expect(() => fields('h,L2\n"0.5"x,1\n')).toThrow("t.csv line 2: unexpected 'x' after a closing quote");
+  });
+});
+
+describe('parseCsvTable', () => {
+  it('trims header names and checks every row has the header\'s width', () => {
+    const t = parseCsvTable(' h , L2 \n0.5,1\n0.25,2\n', 't.csv');
+    expect(t.header).toEqual(['h', 'L2']);
+    expect(() => parseCsvTable('h,L2\n0.5,1\n0.25\n', 't.csv')).toThrow('t.csv line 3: the row has 1 fields, the header has 2 (h, L2)');
+  });
+  it('rejects duplicate and empty column names, and an empty file', () => {
+    expect(() => parseCsvTable('h,L2,L2\n', 't.csv')).toThrow("t.csv line 1: column name 'L2' appears twice (columns 2 and 3)");
+    expect(() => parseCsvTable('h,,L2\n', 't.csv')).toThrow('t.csv line 1: column 2 of the header has no name');
+    expect(() => parseCsvTable('\n\n', 't.csv')).toThrow('t.csv: the file is empty');
+  });
+});

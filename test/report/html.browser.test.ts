@@ -1,0 +1,105 @@
+import { existsSync, mkdirSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { writeReportFiles } from '../../src/report/write.ts';
+import { demoResults } from './fixture.ts';
+
+const CHROMIUM = '/usr/bin/chromium';
+const hasChromium = existsSync(CHROMIUM);
+const REPORTS = resolve('reports');
+const OUT = join(REPORTS, 'demo');
+
+describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' : ` (skipped: ${CHROMIUM} not found; install chromium to run it)`}`, () => {
+  const results = demoResults();
+  let browser: Browser;
+  let page: Page;
+  const consoleErrors: string[] = [];
+  const requests: string[] = [];
+
+  beforeAll(async () => {
+    const outcome = writeReportFiles(OUT, results, {
+      meta: { generatedAt: '2025-03-14T09:30:00Z' },
+      inputProblems: [{ study: 'tile-p3', file: 'studies/tile-p3.study.ts', message: 'ladder.n must be increasing; got [8, 4, 16]' }],
+    });
+    expect(outcome.failed).toEqual([]);
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
+    page.on('console', (m) => {
+      if (m.type() === 'error') consoleErrors.push(m.text());
+    });
+    page.on('pageerror', (e) => consoleErrors.push(e.message));
+    page.on('request', (r) => requests.push(r.url()));
+    await page.goto(pathToFileURL(join(OUT, 'index.html')).href, { waitUntil: 'load' });
+  }, 60_000);
+
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('loads without console errors and without fetching anything but the page itself', () => {
+    expect(consoleErrors).toEqual([]);
+    expect(requests.filter((u) => !u.startsWith('file://'))).toEqual([]);
+  });
+
+  it('shows every study with its verdicts in words', async () => {
+    for (const r of results) {
+      const section = page.locator(`section.study[data-study="${r.study}"]`);
+      await expect(section.locator('h2').isVisible()).resolves.toBe(true);
+      const badge = (await section.locator('.study-head .outcome').innerText()).trim();
+      expect(badge).toBe(r.asExpected ? '✓ as expected' : '✗ not as expected');
+      for (const a of r.analyses) {
+        const card = section.locator(`.card[data-norm="${a.name}"] .card-verdict`);
+        expect(await card.isVisible()).toBe(true);
+        expect((await card.innerText()).trim()).toMatch(new RegExp(`^. ${a.verdict}$`));
+      }
+    }
+    const overview = await page.locator('table.overview').innerText();
+    expect(overview).toContain('✗ below-order');
+    expect(await page.locator('p.caution').isVisible()).toBe(true);
+    expect(await page.locator('.problems').innerText()).toContain('tile-p3');
+  });
+
+  it('draws every plot with both axes, visible power-of-ten tick labels and a slope triangle per norm', async () => {
+    const plots = page.locator('svg.rungs-plot');
+    expect(await plots.count()).toBe(results.length);
+    for (let i = 0; i < results.length; i++) {
+      const plot = plots.nth(i);
+      const box = (await plot.boundingBox())!;
+      for (const axis of ['axis-x', 'axis-y']) {
+        const labels = plot.locator(`.${axis} .tick-label`);
+        expect(await labels.count()).toBeGreaterThanOrEqual(2);
+        for (const text of await labels.allTextContents()) expect(text).toMatch(/^10[−]?\d+$/);
+        const first = (await labels.first().boundingBox())!;
+        expect(first.width).toBeGreaterThan(0);
+        expect(first.x).toBeGreaterThanOrEqual(box.x - 1);
+        expect(first.y + first.height).toBeLessThanOrEqual(box.y + box.height + 1);
+      }
+      expect(await plot.locator('.slope-triangle').count()).toBe(results[i].analyses.length);
+      expect(await plot.locator('.slope-triangle .slope-label').first().isVisible()).toBe(true);
+      // Legend lines fit inside the drawing.
+      for (const entry of await plot.locator('.legend-entry text').all()) {
+        const b = (await entry.boundingBox())!;
+        expect(b.x + b.width).toBeLessThanOrEqual(box.x + box.width + 1);
+      }
+    }
+  });
+
+  it('starts each study on a new page when printed', async () => {
+    await page.emulateMedia({ media: 'print' });
+    const breaks = await page.locator('section.study').evaluateAll((els) => els.map((e) => getComputedStyle(e).breakBefore));
+    expect(breaks.every((b) => b === 'page')).toBe(true);
+    await page.emulateMedia({ media: 'screen' });
+  });
+
+  it('saves a screenshot to reports/index.png', async () => {
+    mkdirSync(REPORTS, { recursive: true });
+    const path = join(REPORTS, 'index.png');
+    await page.screenshot({ path, fullPage: true });
+    expect(existsSync(path)).toBe(true);
+  });
+});
