@@ -5,6 +5,7 @@ export type {
 } from './study/declaration.ts';
 export type { LevelContext } from './study/context.ts';
 export { interval, rectangle, lShape, customDomain } from './study/domain.ts';
+export { external } from './external/types.ts';
 export type { StudyResult, LevelResult } from './study/result.ts';
 export type { DiscreteField, ExactSolution } from './norms/types.ts';
 

@@ -40,7 +40,8 @@ def exact_grad(x, y):
 
 SOURCE = 1.0
 
-# Stroud (1971), T2:5-1 (Radon's 7-point rule, degree 5): barycentric points and weights summing to 1.
+# Stroud (1971), T2:5-1 (Radon's 7-point rule, degree 5; label from memory): barycentric points and weights
+# summing to 1. It integrates every x^a y^b with a + b <= 5 exactly (check_rule, run with --check-rule).
 _S15 = math.sqrt(15.0)
 _A1, _A2 = (6.0 - _S15) / 21.0, (6.0 + _S15) / 21.0
 _W1, _W2 = (155.0 - _S15) / 1200.0, (155.0 + _S15) / 1200.0
@@ -48,6 +49,18 @@ RULE = [((1 / 3, 1 / 3, 1 / 3), 9.0 / 40.0)]
 for a, w in ((_A1, _W1), (_A2, _W2)):
     b = 1.0 - 2.0 * a
     RULE += [((a, a, b), w), ((a, b, a), w), ((b, a, a), w)]
+
+
+def check_rule():
+    """The rule must integrate x^a y^b (a + b <= 5) exactly on the triangle (0,0), (1,0), (0,1): the exact integral is
+    a! b! / (a + b + 2)! (a Dirichlet integral). Returns the largest deviation."""
+    worst = 0.0
+    for a in range(6):
+        for b in range(6 - a):
+            q = sum(w * 0.5 * lam[1] ** a * lam[2] ** b for lam, w in RULE)
+            exact_value = math.factorial(a) * math.factorial(b) / math.factorial(a + b + 2)
+            worst = max(worst, abs(q - exact_value))
+    return worst
 
 
 def grid_mesh(n):
@@ -102,7 +115,7 @@ def solve(n):
                 elif kb <= ka:
                     band[ka][kb - ka + width] += kab
 
-    # Banded Cholesky A = L L^T (Golub & Van Loan 2013, Algorithm 4.3.5), L stored in place of the band.
+    # Banded Cholesky A = L L^T (Golub & Van Loan 2013, §4.3; section from memory), L stored in place of the band.
     for k in range(size):
         lo = max(0, k - width)
         row = band[k]
@@ -192,7 +205,12 @@ def main(argv):
     parser.add_argument("--out", default=os.environ.get("RUNGS_OUT"), help="output folder")
     parser.add_argument("--write", choices=["errors", "vtk", "vtu"], default="errors")
     parser.add_argument("--quantities", action="store_true", help="with vtk/vtu, also write the quantities to errors.json")
+    parser.add_argument("--check-rule", action="store_true", help="only check the quadrature rule's exactness and exit")
     args = parser.parse_args(argv)
+    if args.check_rule:
+        worst = check_rule()
+        print(f"largest deviation of the 7-point rule on monomials of degree <= 5: {worst:.3e}")
+        sys.exit(0 if worst < 1e-15 else 1)
     if args.n < 1:
         parser.error("--n must be a positive number of squares per side (or set RUNGS_N)")
     if args.degree != 1:

@@ -14,6 +14,7 @@ export interface CheckFlags {
   updateBaseline?: boolean;
   junit?: string;
   quick?: boolean;
+  jobs?: number;
   levels?: number;
   quiet?: boolean;
 }
@@ -36,7 +37,7 @@ export async function checkCommand(paths: string[], flags: CheckFlags): Promise<
     return 2;
   }
   const { results, problems } = await executeStudies(paths, {
-    out: flags.out, quick: flags.quick, levels: flags.levels, quiet: true,
+    out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true,
     onProblem: (p) => process.stderr.write(problemLine(p.file, p.message) + '\n'),
   });
   let writeProblems: string[];

@@ -3,6 +3,14 @@ import { Command, InvalidArgumentError, Option } from 'commander';
 import { runCommand } from './run-command.ts';
 import { listCommand } from './list-command.ts';
 import { checkCommand } from './check-command.ts';
+import { defaultJobs } from '../parallel/pool.ts';
+import { fitCommand } from './fit-command.ts';
+
+function jobCount(v: string): number {
+  const n = Number(v);
+  if (!Number.isInteger(n) || n < 1) throw new InvalidArgumentError('give a whole number of jobs, at least 1');
+  return n;
+}
 
 function positiveInt(v: string): number {
   const n = Number(v);
@@ -23,6 +31,7 @@ program
   .argument('[paths...]', 'study files or folders', ['studies'])
   .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
+  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())
   .option('--json', 'print the whole result as JSON on standard output instead of tables')
   .option('--quiet', 'print only the verdict lines')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
@@ -38,8 +47,31 @@ program
   .option('--quick', 'run each study\'s short ladder (ladder.quick, default its 3 coarsest levels)')
   .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
+  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())
   .option('--quiet', 'print only failures')
   .action(async (paths: string[], o) => { process.exitCode = await checkCommand(paths, o); });
+
+program
+  .command('fit')
+  .description('analyse a table of errors or quantities from any code: rates, fitted orders, verdicts, GCI')
+  .argument('<table>', 'CSV file with a header row: h or dofs, and error or quantity columns')
+  .option('--errors <names>', 'error columns, comma-separated (default: columns ending in _error, else every numeric column)')
+  .option('--quantity <names...>', 'quantity columns for Richardson extrapolation and the GCI')
+  .option('--expect <orders>', 'expected order for every error column (e.g. 2) or per column (L2=2,H1semi=1)')
+  .addOption(new Option('--by <size>', 'fit against h or dofs').choices(['h', 'dofs']))
+  .option('--h-column <name>', 'column holding h (default h)')
+  .option('--dofs-column <name>', 'column holding the number of unknowns (default dofs)')
+  .option('--dim <d>', 'spatial dimension (needed to fit in dofs)', (v) => {
+    const n = Number(v);
+    if (![1, 2, 3].includes(n)) throw new InvalidArgumentError('give 1, 2 or 3');
+    return n;
+  })
+  .option('--tolerance <t>', 'allowed |fitted − expected| (default 0.1)', Number)
+  .option('--fit-window <k>', 'finest levels in the fit (default 3)', positiveInt)
+  .option('--out <dir>', 'folder for the reports', 'reports')
+  .option('--json', 'print the result as JSON')
+  .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
+  .action(async (table: string, o) => { process.exitCode = await fitCommand(table, o); });
 
 program
   .command('list')

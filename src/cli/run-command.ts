@@ -6,6 +6,7 @@ import { writeReports } from '../report/write.ts';
 import { runStatus } from '../study/runner.ts';
 import { problemLine, useColor } from './output.ts';
 import { flawLines } from './flaws.ts';
+import { formatQuantityReports } from '../fit/quantity-terminal.ts';
 
 export interface RunFlags {
   levels?: number;
@@ -14,16 +15,18 @@ export interface RunFlags {
   quiet?: boolean;
   table?: 'md' | 'latex';
   quick?: boolean;
+  jobs?: number;
 }
 
 /** `rungs run`: exit 0 when every verdict is the one its study expects, 1 otherwise, 2 on bad input. */
 export async function runCommand(paths: string[], flags: RunFlags): Promise<number> {
   const color = useColor(process.stdout);
   const { results, problems } = await executeStudies(paths, {
-    out: flags.out, levels: flags.levels, quick: flags.quick, quiet: flags.quiet || flags.json,
+    out: flags.out, levels: flags.levels, quick: flags.quick, jobs: flags.jobs, quiet: flags.quiet || flags.json,
     onResult: (r) => {
       if (flags.json) return;
       if (!flags.quiet) process.stdout.write(formatStudyTable(r, { color }) + '\n');
+      if (!flags.quiet && r.quantities?.length) process.stdout.write(formatQuantityReports(r.quantities, { color }) + '\n');
       if (flags.table === 'md') process.stdout.write(markdownTable(r) + '\n');
       if (flags.table === 'latex') process.stdout.write(latexTable(r) + '\n');
     },

@@ -62,10 +62,15 @@ export function showArgv(argv: readonly string[]): string {
  */
 export function runLevelCommand(spec: CommandSpec, values: LevelValues, opts: CommandOptions = {}): Promise<CommandRun> {
   const label = levelLabel(opts.level ?? { study: values.study, index: values.level - 1, n: values.n });
-  const argv = levelArgv(spec, values, `${label}: command`);
+  let argv: string[];
+  try {
+    argv = levelArgv(spec, values, `${label}: command`);
+  } catch (err) {
+    return Promise.reject(err);
+  }
   const timeout = spec.timeoutSeconds ?? DEFAULT_TIMEOUT_SECONDS;
   if (!(timeout > 0) || !Number.isFinite(timeout)) {
-    throw new RungsInputError(`${label}: timeoutSeconds must be a positive number of seconds, got ${timeout}`, 'timeoutSeconds');
+    return Promise.reject(new RungsInputError(`${label}: timeoutSeconds must be a positive number of seconds, got ${timeout}`, 'timeoutSeconds'));
   }
   const grace = opts.killGraceSeconds ?? KILL_GRACE_SECONDS;
   const shown = showArgv(argv);
@@ -94,9 +99,11 @@ export function runLevelCommand(spec: CommandSpec, values: LevelValues, opts: Co
       if (child.pid === undefined) return;
       try { process.kill(-child.pid, sig); } catch { try { child.kill(sig); } catch { /* already gone */ } }
     };
+    // SIGKILL follows even after the solver itself has exited: members of its group that ignore SIGTERM go too.
+    // The timer is unref'd so that it never keeps rungs alive.
     const stop = (): void => {
       killGroup('SIGTERM');
-      timers.push(setTimeout(() => killGroup('SIGKILL'), grace * 1e3));
+      setTimeout(() => killGroup('SIGKILL'), grace * 1e3).unref();
     };
     const finish = (fn: () => void): void => {
       if (settled) return;

@@ -46,7 +46,8 @@ export interface ExternalResultOptions {
   /** 0-based level index and ladder parameter. */
   index: number;
   n: number | null;
-  exact: ExactSolution;
+  /** The exact solution; absent for a study that reports only quantities of interest. */
+  exact?: ExactSolution;
   norms: readonly string[];
   /** Conductivity / reaction for the energy norm, and an optional quadrature degree. */
   errorOptions?: ErrorOptions;
@@ -65,15 +66,19 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
   let interpolationErrors: Record<string, number> | undefined;
   let quasiOptimality: number | null = null;
   let cells: number;
-  if (out.kind === 'errors') {
+  if (!opts.exact) {
+    errors = {};
+    cells = out.kind === 'errors' ? out.cells ?? Number.NaN : out.mesh.nCells;
+  } else if (out.kind === 'errors') {
     errors = pick(out.errors);
     cells = out.cells ?? Number.NaN;
   } else {
-    const errs: NormValues = errorNorms(out.field, opts.exact, opts.errorOptions);
+    const exact = opts.exact;
+    const errs: NormValues = errorNorms(out.field, exact, opts.errorOptions);
     errors = pick(errs as unknown as Record<string, number>);
     cells = out.mesh.nCells;
     if (opts.interpolation ?? true) {
-      const interp = errorNorms(lagrangeField(out.space, interpolate(out.space, opts.exact.u)), opts.exact, opts.errorOptions);
+      const interp = errorNorms(lagrangeField(out.space, interpolate(out.space, exact.u)), exact, opts.errorOptions);
       interpolationErrors = pick(interp as unknown as Record<string, number>);
       if (opts.symmetric && interp.energy > 0) quasiOptimality = errs.energy / interp.energy;
     }

@@ -9,7 +9,7 @@ export interface ColumnChoice {
   hColumn?: string;
   dofsColumn?: string;
   /** Error columns, by name ("L2" also finds a column "L2_error"). Default: every column ending in _error (rungs's own
-   *  CSV), else every numeric column that is not a size, level, n, cells or quantity column. */
+   *  CSV), else every column holding a number that is not a size, level, n, cells or quantity column. */
   errors?: readonly string[];
   /** Quantity columns for the grid convergence index. */
   quantities?: readonly string[];
@@ -81,7 +81,8 @@ export function readFitData(table: CsvTable, file: string, choice: ColumnChoice 
     });
   } else {
     const suffixed = header.filter((c) => c.endsWith(ERROR_SUFFIX) && !c.endsWith(INTERP_SUFFIX) && !reserved.has(c));
-    const candidates = suffixed.length ? suffixed : header.filter((c) => !reserved.has(c) && tryNumbers(rows, header.indexOf(c)) !== null);
+    // A column with any number in it is taken as an error column, so that one bad cell is reported, not skipped.
+    const candidates = suffixed.length ? suffixed : header.filter((c) => !reserved.has(c) && anyNumber(rows, header.indexOf(c)));
     errorColumns = candidates.map((c) => ({ name: stripSuffix(c), column: c }));
     if (errorColumns.length === 0 && quantityNames.length === 0) {
       fail(`no error columns found among ${header.join(', ')}; name them with --errors (e.g. --errors L2,H1semi)`);
@@ -138,6 +139,10 @@ function numberAt(r: CsvRecord, k: number, column: string, file: string, check: 
   const problem = check(v);
   if (problem) throw new RungsInputError(`${file} line ${r.line}, column '${column}': ${text} ${problem}`, file);
   return v;
+}
+
+function anyNumber(rows: CsvRecord[], k: number): boolean {
+  return rows.some((r) => { const t = r.fields[k]!.trim(); return t !== '' && Number.isFinite(Number(t)); });
 }
 
 /** The column as numbers when every row holds a finite number, else null. */

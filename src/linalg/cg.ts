@@ -1,8 +1,9 @@
 /** Preconditioned conjugate gradients for symmetric positive definite A.
  *  Hestenes & Stiefel (1952); preconditioned form as in Saad (2003), Iterative Methods for Sparse Linear Systems,
- *  2nd ed., Algorithm 9.1 (numbering from memory). */
+ *  2nd ed., Algorithm 9.1 (numbering from memory). When the preconditioner also returns A z (the multigrid V-cycle
+ *  does, from its last sweep), A p = A z + β A p_old is updated without a product with A. */
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
-import { isSymmetric } from './csr.ts';
+import { assertFiniteMatrix, isSymmetric } from './csr.ts';
 import {
   SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
@@ -17,12 +18,15 @@ const MAX_RESIDUAL_REPLACEMENTS = 3;
 const PRODUCT_REFRESH = 50;
 
 /** Solves A x = b; x0InOut is the initial guess and receives the solution. Does not throw on non-convergence:
- *  stats.converged says whether relTol was met (relativeResidual is the true ||b − A x|| / ||b||). */
+ *  stats.converged is true when relTol was met or stopWhen stopped the solve (relativeResidual is then the true
+ *  ||b − A x|| / ||b||). Throws RungsInputError for a non-symmetric or indefinite A, RungsNumericalError for NaN/Inf
+ *  met while iterating. */
 export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOptions = {}): SolveStats {
   const t0 = performance.now();
   const method = 'cg';
   const { relTol, maxIter, M, bNorm } = prepareSolve(method, A, b, x0InOut, opts);
   if (!opts.skipSymmetryCheck && !isSymmetric(A, CG_SYMMETRY_TOL)) {
+    assertFiniteMatrix(A, 'linalg/cg'); // a NaN also fails the symmetry test: name the real problem
     throw new RungsInputError(
       'cg: the matrix is not symmetric, and conjugate gradients needs a symmetric positive definite matrix; ' +
         "use method 'gmres' or 'bicgstab' (or solveSystem with symmetric: false)",

@@ -166,8 +166,11 @@ export function isSymmetric(A: Csr, relTol = 1e-10): boolean {
   const rowMax = new Float64Array(nRows);
   for (let i = 0; i < nRows; i++) {
     let m = 0;
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) { const a = Math.abs(values[k]); if (a > m) m = a; }
-    if (!Number.isFinite(m)) return false;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+      const a = Math.abs(values[k]);
+      if (!(a < Infinity)) return false; // NaN or ±Inf: no meaningful comparison
+      if (a > m) m = a;
+    }
     rowMax[i] = m;
   }
   // cursor[j]: next unmatched strictly-lower entry of row j.

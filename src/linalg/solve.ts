@@ -97,6 +97,7 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
   const t0 = performance.now();
   let M: Preconditioner;
   let amg: AmgStats | undefined;
+  let fallback: string | undefined;
   switch (precName) {
     case 'none': M = identityPreconditioner; break;
     case 'jacobi': M = jacobiPreconditioner(A); break;
@@ -104,9 +105,17 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
     case 'ic0': M = ic0Preconditioner(A); break;
     case 'ilu0': M = ilu0Preconditioner(A); break;
     case 'amg': {
-      const setup = amgSetup(A, { ...options.amg, symmetric });
-      M = setup.preconditioner;
-      amg = setup.stats;
+      try {
+        const setup = amgSetup(A, { ...options.amg, symmetric });
+        M = setup.preconditioner;
+        amg = setup.stats;
+      } catch (e) {
+        // Chosen automatically for a non-symmetric matrix that smoothed aggregation cannot take (a diagonal entry
+        // ≤ 0): fall back to ILU(0) rather than fail. Asked for explicitly, or on bad data, the error stands.
+        if (!(precOpt === 'auto' && !symmetric && e instanceof RungsInputError && /positive diagonal/.test(e.message))) throw e;
+        M = ilu0Preconditioner(A);
+        fallback = `amg could not be built (${e.message}); ilu0 was used instead`;
+      }
       break;
     }
   }
@@ -118,6 +127,7 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
   const run = method === 'cg' ? cg : method === 'gmres' ? gmres : bicgstab;
   const stats = run(A, b, x, solveOpts);
   stats.setupSeconds = setupSeconds;
-  if (amg && amg.notes.length > 0) stats.message = [stats.message, ...amg.notes].filter(Boolean).join('; ');
+  const notes = [stats.message, ...(amg?.notes ?? []), fallback].filter(Boolean);
+  if (notes.length > 0) stats.message = notes.join('; ');
   return amg ? { x, stats, amg } : { x, stats };
 }

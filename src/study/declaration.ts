@@ -5,6 +5,7 @@ import type { DiscreteField } from '../norms/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
 import type { Verdict } from '../analysis/types.ts';
 import type { LevelContext } from './context.ts';
+import type { ExternalDiscretization } from '../external/types.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 export const NORM_NAMES: NormName[] = ['L2', 'H1semi', 'H1', 'energy', 'maxNodal'];
@@ -70,7 +71,8 @@ export interface CustomDiscretization {
   solve(level: LevelContext): LevelSolution | Promise<LevelSolution>;
 }
 
-export type Discretization = LagrangeDiscretization | CustomDiscretization;
+/** Built-in Lagrange, the user's own TypeScript solve(level), or an external solver run per level. */
+export type Discretization = LagrangeDiscretization | CustomDiscretization | ExternalDiscretization;
 
 export interface LadderDeclaration {
   /** Cells per unit length on each level, increasing. */
@@ -85,14 +87,18 @@ export interface StudyDeclaration {
   name: string;
   description?: string;
   domain: DomainSpec;
-  exact: string | ExactFunctions;
+  /** The manufactured solution; may be left out only by an external study that declares quantities instead. */
+  exact?: string | ExactFunctions;
   coefficients?: { k?: Coefficient; b?: Coefficient[]; c?: Coefficient };
   boundary?: BoundaryDeclaration;
   discretization: Discretization;
   ladder: LadderDeclaration;
   norms?: NormName[];
+  /** Quantities of interest reported per level (external solvers); analysed by Richardson extrapolation and the
+   *  grid convergence index from the three finest levels (Celik et al. 2008). */
+  quantities?: string[];
   /** Expected order per norm; derived for Lagrange elements (L2: k+1, H1semi/H1/energy: k, maxNodal: k+1). */
-  expected?: Partial<Record<NormName, number>>;
+  expected?: Partial<Record<NormName, number>> & Record<string, number>;
   /** Allowed |fitted − expected| (default 0.1). */
   tolerance?: number;
   /** Number of finest levels in the fit (default 3). */

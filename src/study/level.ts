@@ -1,3 +1,4 @@
+import { join } from 'node:path';
 import { perturbMesh } from '../mesh/perturb.ts';
 import { checkMesh } from '../mesh/quality.ts';
 import { solveLagrange } from '../fem/discretizations/lagrange.ts';
@@ -6,6 +7,8 @@ import { errorNorms } from '../norms/errors.ts';
 import { interpolate, lagrangeField } from '../norms/lagrange-field.ts';
 import type { DiscreteField, NormValues } from '../norms/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
+import { runExternalLevel, externalLevelResult, levelFolder } from '../external/index.ts';
+import { fileStem } from '../report/series.ts';
 import type { LevelResult } from './result.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import type { StudyProblem } from './problem.ts';
@@ -13,11 +16,17 @@ import type { LevelContext } from './context.ts';
 import { RungsInputError } from '../errors.ts';
 
 const seconds = (t0: number) => (performance.now() - t0) / 1e3;
+const peakRss = () => process.resourceUsage().maxRSS * 1024;
+
+/** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
+export interface LevelEnvironment {
+  out: string;
+}
 
 /** Runs one level: mesh, solve, errors; returns its row. */
 export async function runLevel(
   decl: StudyDeclaration, file: string, problem: StudyProblem, index: number, norms: NormName[],
-  solver: LevelContext['solver'],
+  solver: LevelContext['solver'], env: LevelEnvironment = { out: 'reports' },
 ): Promise<LevelResult> {
   const tStart = performance.now();
   const n = decl.ladder.n[index];
@@ -28,14 +37,33 @@ export async function runLevel(
     mesh = perturbMesh(mesh, { fraction: decl.ladder.perturb.fraction, seed: (decl.ladder.perturb.seed ?? 1) + index });
   }
   const tMesh = seconds(t);
-
   const { exact, coefficients, boundary } = problem;
   const disc = decl.discretization;
+  const errOpts = { k: coefficients.k, c: coefficients.c };
+
+  if (disc.kind === 'external') {
+    t = performance.now();
+    const run = await runExternalLevel(disc, {
+      study: decl.name, index, n, h: mesh.h, outDir: levelFolder(join(env.out, fileStem(decl.name)), index),
+      norms: exact ? norms : [], quantities: decl.quantities,
+    });
+    const tSolve = seconds(t);
+    t = performance.now();
+    const { level, quantities } = externalLevelResult(run, {
+      index, n, exact: exact ?? undefined, norms: exact ? norms : [], errorOptions: errOpts, symmetric: problem.symmetric,
+    });
+    return {
+      ...level,
+      quantities,
+      seconds: { mesh: tMesh, assemble: 0, solve: tSolve, errors: seconds(t), total: seconds(tStart) },
+      peakRssBytes: peakRss(),
+    };
+  }
+  if (!exact) throw new RungsInputError(`${file} (study '${decl.name}'): exact: missing; a built-in or custom discretization needs the exact solution`, file);
+
   let field: DiscreteField;
   let stats: SolveStats | null = null;
   let tAssemble = 0, tSolve = 0;
-  let interp: NormValues | null = null;
-  const errOpts = { k: coefficients.k, c: coefficients.c };
   t = performance.now();
   if (disc.kind === 'lagrange') {
     const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, solver });
@@ -53,12 +81,10 @@ export async function runLevel(
     stats = out.solver ?? null;
     tSolve = seconds(t);
   }
-  if (stats && !stats.converged) {
-    process.emitWarning?.(`${decl.name} level ${index + 1}: solver stopped by ${stats.stoppedBy} after ${stats.iterations} iterations at relative residual ${stats.relativeResidual.toExponential(2)}`);
-  }
 
   t = performance.now();
   const errs = errorNorms(field, exact, errOpts);
+  let interp: NormValues | null = null;
   const degree = disc.degree;
   if (degree !== undefined && degree > 0 && mesh.cellKind !== 'tetrahedron') {
     const space = lagrangeSpace(mesh, degree);
@@ -68,7 +94,6 @@ export async function runLevel(
 
   const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, v[nm]]));
   const quasi = problem.symmetric && interp && interp.energy > 0 ? errs.energy / interp.energy : null;
-  const rss = process.resourceUsage().maxRSS * 1024;
   return {
     index, n, h: mesh.h, dofs: field.nDofs, cells: mesh.nCells,
     errors: pick(errs),
@@ -76,6 +101,6 @@ export async function runLevel(
     quasiOptimality: quasi,
     solver: stats,
     seconds: { mesh: tMesh, assemble: tAssemble, solve: tSolve, errors: tErrors, total: seconds(tStart) },
-    peakRssBytes: rss,
+    peakRssBytes: peakRss(),
   };
 }

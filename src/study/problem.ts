@@ -6,7 +6,8 @@ import type { Coefficient, StudyDeclaration } from './declaration.ts';
 
 /** The PDE data of a study, derived once from its exact solution and coefficients. */
 export interface StudyProblem {
-  exact: ManufacturedSolution;
+  /** Null for an external study that reports quantities of interest and has no exact solution. */
+  exact: ManufacturedSolution | null;
   coefficients: FormCoefficients;
   boundary: BoundarySpec;
   /** Tags of each boundary part, as resolved (Dirichlet defaults to every tag not given another condition). */
@@ -24,11 +25,13 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   if (coef.b && coef.b.length !== dim) {
     throw new RungsInputError(`${where}: coefficients.b has ${coef.b.length} components; the domain is ${dim}-dimensional, give ${dim}`, file);
   }
-  let exact: ManufacturedSolution;
+  let exact: ManufacturedSolution | null = null;
   const fields = { u: 'exact', grad: 'exact.grad', f: 'exact.f', k: 'coefficients.k', b: 'coefficients.b', c: 'coefficients.c' };
   const box = decl.domain.bbox;
   try {
-    if (typeof decl.exact === 'string') {
+    if (decl.exact === undefined) {
+      exact = null;
+    } else if (typeof decl.exact === 'string') {
       exact = manufacture({ dim, u: decl.exact, k: asFormula(coef.k), b: coef.b?.map(String), c: asFormula(coef.c) }, fields, { box });
     } else {
       // Coefficient formulas compiled on their own, then handed to the function-based solution.
@@ -40,7 +43,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
         b: bs ? (x: number, y: number, z: number, out: Float64Array) => { for (let i = 0; i < bs.length; i++) out[i] = bs[i](x, y, z); } : undefined,
       }, fields, { box });
     }
-    assertFinite(exact.f, 'source term f', box, 400);
+    if (exact) assertFinite(exact.f, 'source term f', box, 400);
   } catch (err) {
     if (err instanceof RungsInputError) throw new RungsInputError(`${where}: ${err.message}`, file);
     throw err;
@@ -66,24 +69,26 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
     const a = manufacture({ dim, u: String(bd.robin.alpha) });
     alpha = a.u;
   }
+  if (!exact) return { exact, coefficients: {}, boundary: {}, parts: { dirichlet, neumann, robin }, symmetric: !coef.b };
+  const ex = exact;
   const coefficients: FormCoefficients = {
-    k: coef.k === undefined ? undefined : exact.k,
-    b: coef.b ? exact.b : undefined,
-    c: coef.c === undefined ? undefined : exact.c,
-    f: exact.f,
+    k: coef.k === undefined ? undefined : ex.k,
+    b: coef.b ? ex.b : undefined,
+    c: coef.c === undefined ? undefined : ex.c,
+    f: ex.f,
     hints: {
-      k: exact.kDegreeHint,
+      k: ex.kDegreeHint,
       b: coef.b?.every((v) => typeof v === 'number') ? 0 : null,
       c: typeof coef.c === 'number' ? 0 : null,
-      f: exact.fDegreeHint,
+      f: ex.fDegreeHint,
     },
   };
-  const u = exact.u;
+  const u = ex.u;
   const boundary: BoundarySpec = {
     dirichlet: dirichlet.length ? { tags: dirichlet, value: u } : undefined,
-    neumann: neumann.length ? { tags: neumann, flux: exact.flux } : undefined,
+    neumann: neumann.length ? { tags: neumann, flux: ex.flux } : undefined,
     robin: alpha && robin.length
-      ? { tags: robin, alpha, g: (x, y, z, nx, ny, nz) => exact.flux(x, y, z, nx, ny, nz) + alpha!(x, y, z) * u(x, y, z) }
+      ? { tags: robin, alpha, g: (x, y, z, nx, ny, nz) => ex.flux(x, y, z, nx, ny, nz) + alpha!(x, y, z) * u(x, y, z) }
       : undefined,
   };
   return { exact, coefficients, boundary, parts: { dirichlet, neumann, robin }, symmetric: !coef.b };

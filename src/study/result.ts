@@ -1,5 +1,6 @@
 import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
+import type { QuantityReport } from '../fit/quantities.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 
@@ -20,6 +21,8 @@ export interface LevelResult {
   solver?: SolveStats | null;
   /** Wall seconds per phase: mesh, assemble, solve, errors, total. */
   seconds: Record<string, number>;
+  /** Quantities of interest reported for this level (external solvers). */
+  quantities?: Record<string, number>;
   /** Peak resident set size in bytes while this level ran, when measured. */
   peakRssBytes?: number;
 }
@@ -33,6 +36,8 @@ export interface StudyResult {
   expectation: { verdict: Verdict | 'pass'; flaw?: string };
   levels: LevelResult[];
   analyses: SeriesAnalysis[];
+  /** Solution verification of each declared quantity (Richardson extrapolation, GCI). */
+  quantities?: QuantityReport[];
   /** The verdicts match the expectation. */
   asExpected: boolean;
   warnings: string[];

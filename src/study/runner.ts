@@ -8,6 +8,10 @@ import type { LevelResult, StudyResult } from './result.ts';
 import { runLevel } from './level.ts';
 import { packageVersions } from './versions.ts';
 import type { LoadedStudy } from './load.ts';
+import type { LevelContext } from './context.ts';
+import { analyseQuantity } from '../fit/quantities.ts';
+import type { QuantityReport } from '../fit/quantities.ts';
+import type { LevelEnvironment } from './level.ts';
 
 export const DEFAULT_NORMS: NormName[] = ['L2', 'H1semi'];
 export const DEFAULT_TOLERANCE = 0.1;
@@ -25,19 +29,29 @@ export interface RunOptions {
   onLevelStart?: (study: string, index: number, total: number) => void;
 }
 
-/** Runs a loaded study: every level, then the analysis of every norm, then the expectation check. */
-export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Promise<StudyResult> {
+/** A study ready to run: validated, its PDE data derived, its result skeleton made. */
+export interface PreparedStudy {
+  loaded: LoadedStudy;
+  problem: ReturnType<typeof buildProblem>;
+  norms: NormName[];
+  expected: Record<string, number | null>;
+  /** Levels to run (the whole ladder unless limited). */
+  total: number;
+  env: LevelEnvironment;
+  solver: LevelContext['solver'];
+  result: StudyResult;
+  t0: number;
+}
+
+/** Validates the PDE data and sets up the result; throws RungsInputError for bad input before any level runs. */
+export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?: string } = {}): PreparedStudy {
   const { declaration: decl, file } = loaded;
   const t0 = performance.now();
-  const startedAt = new Date().toISOString();
   const problem = buildProblem(decl, file);
-  const norms = decl.norms ?? DEFAULT_NORMS;
+  const norms = problem.exact ? decl.norms ?? DEFAULT_NORMS : [];
   const expected = expectedOrders(decl, norms);
   const total = Math.min(decl.ladder.n.length, opts.levels ?? Infinity);
-  const solver = {
-    method: decl.solver?.method, preconditioner: decl.solver?.preconditioner,
-    relTol: decl.solver?.relTol, maxIter: decl.solver?.maxIter,
-  };
+  const solver = solverSettings(decl);
   const result: StudyResult = {
     study: decl.name,
     file,
@@ -50,19 +64,47 @@ export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Prom
     warnings: [],
     inputs: describeInputs(decl, problem, norms, expected),
     versions: packageVersions(),
-    startedAt,
+    startedAt: new Date().toISOString(),
     seconds: 0,
   };
-  for (let i = 0; i < total; i++) {
-    opts.onLevelStart?.(decl.name, i, total);
-    const level = await runLevel(decl, file, problem, i, norms, solver);
-    result.levels.push(level);
-    result.seconds = (performance.now() - t0) / 1e3;
-    opts.onLevel?.(result, level);
+  return { loaded, problem, norms, expected, total, solver, result, t0, env: { out: opts.out ?? 'reports' } };
+}
+
+/** The solver settings a level receives (method, preconditioner, tolerances) from the study's declaration. */
+export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
+  return {
+    method: decl.solver?.method, preconditioner: decl.solver?.preconditioner,
+    relTol: decl.solver?.relTol, maxIter: decl.solver?.maxIter,
+  };
+}
+
+/** Records a finished level (levels may arrive in any order; they are kept sorted). */
+export function addLevel(p: PreparedStudy, level: LevelResult): void {
+  p.result.levels.push(level);
+  p.result.levels.sort((a, b) => a.index - b.index);
+  p.result.seconds = (performance.now() - p.t0) / 1e3;
+}
+
+/** Analyses every norm once all levels are in and checks the study's expectation. */
+export function completeStudy(p: PreparedStudy): StudyResult {
+  if (p.problem.exact) finishAnalysis(p.result, p.loaded.declaration, p.problem.exact, p.norms, p.expected);
+  p.result.quantities = quantityReports(p.result, p.loaded.declaration);
+  p.result.asExpected = expectationMet(p.result);
+  p.result.seconds = (performance.now() - p.t0) / 1e3;
+  return p.result;
+}
+
+/** Runs a loaded study in this thread: every level, then the analysis of every norm, then the expectation check. */
+export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Promise<StudyResult> {
+  const p = prepareStudy(loaded, opts);
+  const decl = loaded.declaration;
+  for (let i = 0; i < p.total; i++) {
+    opts.onLevelStart?.(decl.name, i, p.total);
+    const level = await runLevel(decl, loaded.file, p.problem, i, p.norms, p.solver, p.env);
+    addLevel(p, level);
+    opts.onLevel?.(p.result, level);
   }
-  finishAnalysis(result, decl, problem.exact, norms, expected);
-  result.seconds = (performance.now() - t0) / 1e3;
-  return result;
+  return completeStudy(p);
 }
 
 function finishAnalysis(
@@ -105,21 +147,44 @@ function finishAnalysis(
     analyses.push(a);
   }
   result.analyses = analyses;
+}
+
+/** Whether the verdicts are the ones the study declares: acceptable ones by default; every norm exact for an
+ *  'exact' study; at least one norm with the declared verdict for a demonstration of a flaw. */
+export function expectationMet(result: StudyResult): boolean {
   const exp = result.expectation.verdict;
-  result.asExpected = exp === 'pass'
-    ? analyses.every((a) => ACCEPTABLE.includes(a.verdict))
-    : exp === 'exact' ? analyses.every((a) => a.verdict === 'exact') : analyses.some((a) => a.verdict === exp);
+  const analyses = result.analyses;
+  if (exp === 'pass') return analyses.every((a) => ACCEPTABLE.includes(a.verdict));
+  if (exp === 'exact') return analyses.length > 0 && analyses.every((a) => a.verdict === 'exact');
+  return analyses.some((a) => a.verdict === exp);
+}
+
+/** Richardson extrapolation and GCI of each declared quantity over the levels that reported it. */
+function quantityReports(result: StudyResult, decl: StudyDeclaration): QuantityReport[] | undefined {
+  if (!decl.quantities?.length) return undefined;
+  const out: QuantityReport[] = [];
+  for (const q of decl.quantities) {
+    const rows = result.levels.filter((l) => l.quantities && Number.isFinite(l.quantities[q]));
+    if (rows.length < result.levels.length) result.warnings.push(`quantity '${q}': reported by ${rows.length} of ${result.levels.length} levels`);
+    if (rows.length < 2) continue;
+    const rep = analyseQuantity(q, rows.map((l) => l.h), rows.map((l) => l.quantities![q]), { expected: decl.expected?.[q] ?? null });
+    out.push(rep);
+  }
+  return out;
 }
 
 function describeInputs(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>, norms: NormName[], expected: Record<string, number | null>): Record<string, unknown> {
   const d = decl.discretization;
   return {
     domain: decl.domain.label,
-    exact: problem.exact.formulas,
+    exact: problem.exact?.formulas ?? null,
+    quantities: decl.quantities ?? [],
     boundary: problem.parts,
     discretization: d.kind === 'lagrange'
       ? { kind: 'lagrange', degree: d.degree, label: d.label ?? `P${d.degree}/Q${d.degree} Lagrange`, quadrature: d.quadrature ?? 'default' }
-      : { kind: d.kind, label: d.label, degree: d.degree ?? null },
+      : d.kind === 'external'
+        ? { kind: 'external', command: d.command, output: d.output, degree: d.degree ?? null, label: d.label ?? null }
+        : { kind: d.kind, label: d.label, degree: d.degree ?? null },
     ladder: decl.ladder,
     norms,
     expected,

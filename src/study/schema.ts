@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { RungsInputError } from '../errors.ts';
 import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
+import { externalDiscretizationSchema, quantityNamesSchema } from '../external/schema.ts';
 
 const fn = (what: string) => z.custom<(...a: never[]) => unknown>((v) => typeof v === 'function', { message: `expected ${what} (a function)` });
 const coefficient = z.union([z.string().min(1), z.number().finite()], { message: 'expected a formula string such as "1 + x*y" or a finite number' });
@@ -27,7 +28,8 @@ const quadrature = z.object({
 const discretization = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('lagrange'), degree: z.number().int().min(1).max(3), quadrature: quadrature.optional(), label: z.string().optional() }).strict(),
   z.object({ kind: z.literal('custom'), label: z.string().min(1), degree: z.number().int().min(0).optional(), solve: fn('solve(level)') }).strict(),
-], { message: 'expected lagrange({ degree }) or custom({ label, solve })' });
+  externalDiscretizationSchema,
+], { message: 'expected lagrange({ degree }), custom({ label, solve }) or external({ command, output })' });
 
 const exactFunctions = z.object({ u: fn('u(x, y, z)'), grad: fn('grad(x, y, z, out)'), f: fn('f(x, y, z)') }).strict();
 
@@ -47,7 +49,7 @@ export const studySchema = z.object({
   name: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected a name of letters, digits, ".", "_" or "-" (it names the report files)'),
   description: z.string().optional(),
   domain,
-  exact: z.union([z.string().min(1), exactFunctions], { message: 'expected a formula string in x, y, z or { u, grad, f } functions' }),
+  exact: z.union([z.string().min(1), exactFunctions], { message: 'expected a formula string in x, y, z or { u, grad, f } functions' }).optional(),
   coefficients: z.object({ k: coefficient.optional(), b: z.array(coefficient).optional(), c: coefficient.optional() }).strict().optional(),
   boundary: z.object({
     dirichlet: z.array(z.string()).optional(),
@@ -57,7 +59,8 @@ export const studySchema = z.object({
   discretization,
   ladder,
   norms: z.array(z.enum(NORM_NAMES as [string, ...string[]])).min(1).optional(),
-  expected: z.partialRecord(z.enum(NORM_NAMES as [string, ...string[]]), z.number().finite()).optional(),
+  quantities: quantityNamesSchema.optional(),
+  expected: z.record(z.string(), z.number().finite()).optional(),
   tolerance: z.number().positive().optional(),
   fitWindow: z.number().int().min(2).optional(),
   expect: z.object({ verdict: z.enum(verdicts), flaw: z.string().min(1).optional() }).strict().optional(),
@@ -69,7 +72,15 @@ export const studySchema = z.object({
     errorFraction: z.number().min(0).max(1).optional(),
   }).strict().optional(),
   baselineTolerance: z.number().positive().optional(),
-}).strict();
+}).strict().superRefine((s, ctx) => {
+  if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
+    ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });
+  }
+  const names = [...(s.norms ?? []), ...(s.quantities ?? []), ...NORM_NAMES];
+  for (const k of Object.keys(s.expected ?? {})) {
+    if (!names.includes(k)) ctx.addIssue({ code: 'custom', path: ['expected', k], message: `'${k}' is neither a norm (${NORM_NAMES.join(', ')}) nor a declared quantity` });
+  }
+});
 
 /** Validates a study's default export; every problem names the file, the field path and what would be valid. */
 export function validateStudy(raw: unknown, file: string): StudyDeclaration {

@@ -55,8 +55,9 @@ describe('runLevelCommand: argv and environment (placeholders are argv words, no
 
   it('rejects an unknown placeholder and {degree} without a declared degree, naming the level', async () => {
     const out = join(root, 'bad-placeholder');
-    expect(() => runLevelCommand({ command: `${node} x.mjs --m {m}` }, values(out))).toThrow(/level 2 \(n = 8\).*unknown placeholder \{m\}/);
-    expect(() => runLevelCommand({ command: `${node} x.mjs --p {degree}` }, values(out))).toThrow(/\{degree\}.*declares no degree/);
+    await expect(runLevelCommand({ command: `${node} x.mjs --m {m}` }, values(out))).rejects.toThrow(/level 2 \(n = 8\).*unknown placeholder \{m\}/);
+    await expect(runLevelCommand({ command: `${node} x.mjs --p {degree}` }, values(out))).rejects.toThrow(/\{degree\}.*declares no degree/);
+    await expect(runLevelCommand({ command: `${node} x.mjs`, timeoutSeconds: 0 }, values(out))).rejects.toThrow(/timeoutSeconds must be a positive number/);
   });
 });
 
@@ -156,5 +157,16 @@ describe('runLevelsInParallel', () => {
     });
     await expect(runLevelsInParallel(tasks, 2)).rejects.toThrow('task 1 failed');
     expect(started).not.toContain(5);
+  });
+});
+
+describe('runLevelCommand: aborting', () => {
+  it('an aborted level stops its solver and rejects with the abort reason', async () => {
+    const controller = new AbortController();
+    const p = runLevelCommand({ command: `${node} ${join(fixtures, 'hang.mjs')}`, timeoutSeconds: 30 }, values(join(root, 'abort')), { signal: controller.signal, killGraceSeconds: 0.2 });
+    setTimeout(() => controller.abort(new Error('another level failed')), 300);
+    const t0 = performance.now();
+    await expect(p).rejects.toThrow('another level failed');
+    expect(performance.now() - t0).toBeLessThan(5000);
   });
 });

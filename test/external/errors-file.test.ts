@@ -47,3 +47,30 @@ describe('errors.csv (one row: dofs, h and one column per name)', () => {
     expect(() => parseErrorsCsv('dofs,L2\n81,nan\n', csvFile, { level })).toThrow(`${csvFile} line 2: column 'L2' holds 'nan', not a finite number`);
   });
 });
+
+describe('readLevelOutput picks the protocol file in the level folder', () => {
+  it('reads errors.csv when there is no errors.json, and uses the level h when the file gives none', async () => {
+    const { mkdtempSync, writeFileSync, rmSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const { readLevelOutput } = await import('../../src/external/output.ts');
+    const dir = mkdtempSync(join(tmpdir(), 'rungs-out-'));
+    try {
+      writeFileSync(join(dir, 'errors.csv'), 'dofs,L2,flux\n81,0.004,1.5\n');
+      const out = readLevelOutput('errors', dir, { level, h: 0.125, norms: ['L2'], quantities: ['flux'] });
+      expect(out).toMatchObject({ kind: 'errors', dofs: 81, h: 0.125, errors: { L2: 0.004 }, quantities: { flux: 1.5 } });
+      // The VTK protocol needs its quantities in an errors.json next to the solution.
+      writeFileSync(join(dir, 'solution.vtk'), '# vtk DataFile Version 3.0\nt\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 2 double\n0 0 0 1 0 0\n' +
+        'CELLS 1 3\n2 0 1\nCELL_TYPES 1\n3\nPOINT_DATA 2\nSCALARS u double\nLOOKUP_TABLE default\n0 1\n');
+      // The errors file next to the solution supplies the solver's own dof count (81), not the 2 VTK nodes.
+      const field = readLevelOutput('vtk', dir, { level, h: 1 });
+      expect(field).toMatchObject({ kind: 'field', dofs: 81, h: 1, fieldName: 'u' });
+      rmSync(join(dir, 'errors.csv'));
+      expect(readLevelOutput('vtk', dir, { level, h: 1 })).toMatchObject({ dofs: 2 });
+      writeFileSync(join(dir, 'errors.csv'), 'dofs,L2,flux\n81,0.004,1.5\n');
+      expect(() => readLevelOutput('vtk', dir, { level, h: 1, quantities: ['heat'] })).toThrow(/no quantity 'heat'/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});

@@ -48,7 +48,7 @@ describe('tetrahedral meshes of the unit cube (Kuhn subdivision)', () => {
   });
 
   // Interpolation error of degree-k Lagrange elements: ||u − I_h u||_L2 = O(h^(k+1)), |u − I_h u|_H1 = O(h^k)
-  // (Ciarlet 1978, The Finite Element Method for Elliptic Problems, Theorem 3.1.6).
+  // (Ciarlet 1978, The Finite Element Method for Elliptic Problems, Theorem 3.1.6; theorem number from memory).
   it.each([
     { degree: 1, l2: 2, h1: 1 },
     { degree: 2, l2: 3, h1: 2 },

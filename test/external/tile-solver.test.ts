@@ -51,6 +51,11 @@ describe.skipIf(!hasPython)('examples/external/tile_solver.py through both outpu
     [json, vtk] = [await runAll('errors'), await runAll('vtk', ' --quantities')];
   });
 
+  it('the solver\'s quadrature rule integrates monomials of degree ≤ 5 exactly (∫ x^a y^b = a! b! / (a+b+2)!)', () => {
+    const r = spawnSync('python3', [solver, '--check-rule'], { encoding: 'utf8' });
+    expect(r.status, r.stdout + r.stderr).toBe(0);
+  });
+
   it('JSON protocol: the errors rungs reads are the numbers in the file, bit for bit', () => {
     for (const [i, r] of json.entries()) {
       expect(r.output.kind).toBe('errors');
@@ -63,7 +68,7 @@ describe.skipIf(!hasPython)('examples/external/tile_solver.py through both outpu
   });
 
   it('VTK protocol: the L2 and H1 errors rungs integrates converge at rates 2 and 1 (P1 with a smooth solution)', () => {
-    // Expected orders k+1 and k for P1 (Ciarlet 1978, Theorem 3.2.5 with the Aubin–Nitsche argument).
+    // Expected orders k+1 and k for P1 (Ciarlet 1978, §3.2, with the Aubin–Nitsche argument; section from memory).
     const levels = vtk.map((r, i) => externalLevelResult(r, { index: i, n: ladder[i]!, exact: tile, norms: ['L2', 'H1semi'], symmetric: true }).level);
     const l2 = levels.map((l) => l.errors.L2!), h1 = levels.map((l) => l.errors.H1semi!);
     expect(Math.abs(rate(l2[2]!, l2[3]!) - 2)).toBeLessThan(0.05);
@@ -74,7 +79,7 @@ describe.skipIf(!hasPython)('examples/external/tile_solver.py through both outpu
   });
 
   it('both protocols measure the same errors: the solver\'s own quadrature agrees with rungs\'s integration of its VTK field', () => {
-    // Two independent integrations of one field: Python's 7-point degree-5 rule (Stroud 1971, T2:5-1) and rungs's
+    // Two independent integrations of one field: Python's 7-point degree-5 rule (Stroud 1971, T2:5-1, label from memory; its exactness is checked in the solver's rule) and rungs's
     // degree-6 rule. They differ by quadrature error only: for ∫(u − u_h)² a rule of fixed degree errs by O(h^6) per
     // unit area while the integral is O(h^4), so the relative gap shrinks like h² (common practice, no source).
     for (const [i, r] of vtk.entries()) {

@@ -172,3 +172,13 @@ describe('VTU bad input', () => {
     expect(problem(goodVtu.replace('</Points>', '</Point>'), file).message).toMatch(/closing tag <\/Point> does not match <Points> opened at line \d+/);
   });
 });
+
+describe('legacy VTK CELLS block', () => {
+  it('fewer cells than CELLS declares, and a cell list longer than its size', () => {
+    const g = nodalGrid(mesh, 1, u);
+    const text = legacyVtk(g).replace('CELLS 8 32', 'CELLS 9 36');
+    const typesAt = lineOf(text, (l) => l.startsWith('CELL_TYPES'));
+    expect(problem(text).message).toContain(`solution.vtk line ${typesAt}: cell 9 of CELLS (declared at line 15) should start with its node count, found 'CELL_TYPES': the count in the file does not match the declared count`);
+    expect(problem(legacyVtk(g).replace('CELLS 8 32', 'CELLS 8 30')).message).toMatch(/cell 8 lists 3 nodes, more than the size 30 declared by CELLS at line 15 allows/);
+  });
+});

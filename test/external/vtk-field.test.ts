@@ -68,6 +68,7 @@ describe('VTK triangles, quadrilaterals and tetrahedra give the errors of the sa
     { name: 'P2 triangles, legacy 5.1 layout', mesh: () => square(6), degree: 2 as const, exact: tile, write: '5.1' },
     { name: 'P2 triangles, .vtu', mesh: () => square(6), degree: 2 as const, exact: tile, write: 'vtu' },
     { name: 'Q1 quadrilaterals, .vtu', mesh: () => square(5, 'quadrilaterals'), degree: 1 as const, exact: tile, write: 'vtu' },
+    { name: 'Q2 quadrilaterals (VTK_BIQUADRATIC_QUAD), legacy', mesh: () => square(4, 'quadrilaterals'), degree: 2 as const, exact: tile, write: 'classic' },
     { name: 'P1 tetrahedra, legacy', mesh: () => kuhnCubeMesh(2), degree: 1 as const, exact: brick, write: 'classic' },
     { name: 'P2 tetrahedra, legacy 5.1', mesh: () => kuhnCubeMesh(2), degree: 2 as const, exact: brick, write: '5.1' },
   ])('$name', ({ mesh: make, degree, exact, write }) => {
@@ -91,6 +92,10 @@ describe('VTK triangles, quadrilaterals and tetrahedra give the errors of the sa
     const flipped = errorNorms(fieldOf(legacyVtk(nodalGrid(mesh, 2, brick.u, flip))).field, brick);
     expect(Math.abs(flipped.L2 - straight.L2) / straight.L2).toBeLessThan(1e-12);
     expect(Math.abs(flipped.H1semi - straight.H1semi) / straight.H1semi).toBeLessThan(1e-12);
+    const quads = square(3, 'quadrilaterals');
+    const q1 = errorNorms(fieldOf(legacyVtk(nodalGrid(quads, 2, tile.u))).field, tile);
+    const q2 = errorNorms(fieldOf(legacyVtk(nodalGrid(quads, 2, tile.u, new Set([1, 4, 8])))).field, tile);
+    expect(Math.abs(q1.L2 - q2.L2) / q1.L2).toBeLessThan(1e-12);
     const tri = square(4);
     const flipTri = new Set([0, 3, 5, 8, 13]);
     const a = errorNorms(fieldOf(legacyVtk(nodalGrid(tri, 2, tile.u))).field, tile);
@@ -98,7 +103,7 @@ describe('VTK triangles, quadrilaterals and tetrahedra give the errors of the sa
     expect(Math.abs(a.H1semi - b.H1semi) / a.H1semi).toBeLessThan(1e-12);
   });
 
-  // Interpolation errors converge at h^(k+1) in L2 and h^k in H1 (Ciarlet 1978, Theorem 3.1.6): a wrong node map would
+  // Interpolation errors converge at h^(k+1) in L2 and h^k in H1 (Ciarlet 1978, Theorem 3.1.6; number from memory): a wrong node map would
   // break the rate even where the dofs happen to match.
   it('P2 triangle files converge at rates 3 (L2) and 2 (H1 seminorm)', () => {
     const e = [8, 16].map((n) => errorNorms(fieldOf(vtuText(nodalGrid(square(n), 2, tile.u)), 'solution.vtu').field, tile));

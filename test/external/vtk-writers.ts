@@ -2,7 +2,7 @@
  * Writes test VTK files of a nodal field on a rungs mesh, following the VTK node order as documented by Kitware
  * ("VTK File Formats"; vtkQuadraticTriangle / vtkQuadraticTetra class notes): corners, then the mid-edge nodes of
  * triangle edges (0,1), (1,2), (2,0), of tetrahedron edges (0,1), (1,2), (2,0), (0,3), (1,3), (2,3), the quadratic
- * edge's mid node last. Mid-edge points are shared by neighbouring cells (a continuous field). This is written
+ * edge's mid node last, the biquadratic quad's edges (0,1), (1,2), (2,3), (3,0) and then its centre. Mid-edge points are shared by neighbouring cells (a continuous field). This is written
  * from the VTK documentation, not from rungs's element numbering, so that a reader test compares two sources.
  */
 import type { Mesh } from '../../src/mesh/types.ts';
@@ -11,9 +11,10 @@ const VTK_EDGES: Record<string, [number, number][]> = {
   interval: [[0, 1]],
   triangle: [[0, 1], [1, 2], [2, 0]],
   tetrahedron: [[0, 1], [1, 2], [2, 0], [0, 3], [1, 3], [2, 3]],
+  quadrilateral: [[0, 1], [1, 2], [2, 3], [3, 0]],
 };
 const LINEAR_TYPE: Record<string, number> = { interval: 3, triangle: 5, tetrahedron: 10, quadrilateral: 9 };
-const QUADRATIC_TYPE: Record<string, number> = { interval: 21, triangle: 22, tetrahedron: 24 };
+const QUADRATIC_TYPE: Record<string, number> = { interval: 21, triangle: 22, tetrahedron: 24, quadrilateral: 28 };
 
 export interface NodalGrid {
   points: number[][]; // 3 coordinates each
@@ -37,7 +38,11 @@ export function nodalGrid(mesh: Mesh, degree: 1 | 2, u: (x: number, y: number, z
   const vpc = mesh.verticesPerCell;
   for (let c = 0; c < mesh.nCells; c++) {
     let corners = Array.from(mesh.cells.subarray(c * vpc, (c + 1) * vpc));
-    if (flip.has(c)) corners = mesh.cellKind === 'interval' ? [corners[1]!, corners[0]!] : [corners[0]!, corners[2]!, corners[1]!, ...corners.slice(3)];
+    if (flip.has(c)) {
+      corners = mesh.cellKind === 'interval' ? [corners[1]!, corners[0]!]
+        : mesh.cellKind === 'quadrilateral' ? [corners[0]!, corners[3]!, corners[2]!, corners[1]!]
+          : [corners[0]!, corners[2]!, corners[1]!, ...corners.slice(3)];
+    }
     const cell = [...corners];
     if (degree === 2) {
       for (const [a, b] of VTK_EDGES[mesh.cellKind]!) {
@@ -51,6 +56,11 @@ export function nodalGrid(mesh: Mesh, degree: 1 | 2, u: (x: number, y: number, z
         }
         cell.push(id);
       }
+      if (mesh.cellKind === 'quadrilateral') {
+        // VTK_BIQUADRATIC_QUAD: the centre node comes last.
+        cell.push(points.length);
+        points.push([0, 1, 2].map((d) => corners.reduce((sum, v) => sum + points[v]![d]!, 0) / 4));
+      }
     }
     cells.push(cell);
   }
@@ -62,19 +72,19 @@ const num = (x: number) => String(x);
 
 /** Legacy ASCII VTK; layout 'classic' (CELLS n size with counts) or '5.1' (OFFSETS / CONNECTIVITY). */
 export function legacyVtk(g: NodalGrid, layout: 'classic' | '5.1' = 'classic', name = 'temperature'): string {
-  const lines = [`# vtk DataFile Version ${layout === '5.1' ? '5.1' : '3.0'}`, 'test grid', 'ASCII', 'DATASET UNSTRUCTURED_GRID'];
-  lines.push(`POINTS ${g.points.length} double`, ...g.points.map((p) => p.map(num).join(' ')));
+  const parts: string[][] = [[`# vtk DataFile Version ${layout === '5.1' ? '5.1' : '3.0'}`, 'test grid', 'ASCII', 'DATASET UNSTRUCTURED_GRID']];
+  parts.push([`POINTS ${g.points.length} double`], g.points.map((p) => p.map(num).join(' ')));
   if (layout === 'classic') {
     const size = g.cells.reduce((s, c) => s + c.length + 1, 0);
-    lines.push(`CELLS ${g.cells.length} ${size}`, ...g.cells.map((c) => `${c.length} ${c.join(' ')}`));
+    parts.push([`CELLS ${g.cells.length} ${size}`], g.cells.map((c) => `${c.length} ${c.join(' ')}`));
   } else {
     const offsets = [0];
     for (const c of g.cells) offsets.push(offsets[offsets.length - 1]! + c.length);
-    lines.push(`CELLS ${offsets.length} ${offsets[offsets.length - 1]}`, 'OFFSETS vtktypeint64', offsets.join(' '), 'CONNECTIVITY vtktypeint64', ...g.cells.map((c) => c.join(' ')));
+    parts.push([`CELLS ${offsets.length} ${offsets[offsets.length - 1]}`, 'OFFSETS vtktypeint64', offsets.join(' '), 'CONNECTIVITY vtktypeint64'], g.cells.map((c) => c.join(' ')));
   }
-  lines.push(`CELL_TYPES ${g.cells.length}`, ...g.cells.map(() => String(g.type)));
-  lines.push(`POINT_DATA ${g.points.length}`, `SCALARS ${name} double 1`, 'LOOKUP_TABLE default', ...g.values.map(num));
-  return lines.join('\n') + '\n';
+  parts.push([`CELL_TYPES ${g.cells.length}`], g.cells.map(() => String(g.type)));
+  parts.push([`POINT_DATA ${g.points.length}`, `SCALARS ${name} double 1`, 'LOOKUP_TABLE default'], g.values.map(num));
+  return parts.map((p) => p.join('\n')).join('\n') + '\n';
 }
 
 /** VTK XML unstructured grid with ASCII DataArrays (offsets are the END of each cell's connectivity). */
@@ -82,7 +92,7 @@ export function vtuText(g: NodalGrid, name = 'temperature'): string {
   const ends: number[] = [];
   let total = 0;
   for (const c of g.cells) { total += c.length; ends.push(total); }
-  return [
+  return ([] as string[]).concat(
     '<?xml version="1.0"?>',
     '<!-- written for a reader test -->',
     '<VTKFile type="UnstructuredGrid" version="1.0" byte_order="LittleEndian">',
@@ -90,17 +100,17 @@ export function vtuText(g: NodalGrid, name = 'temperature'): string {
     `    <Piece NumberOfPoints="${g.points.length}" NumberOfCells="${g.cells.length}">`,
     `      <PointData Scalars="${name}">`,
     `        <DataArray type="Float64" Name="${name}" format="ascii">`,
-    ...g.values.map(num),
+    g.values.map(num),
     '        </DataArray>',
     '      </PointData>',
     '      <Points>',
     '        <DataArray type="Float64" NumberOfComponents="3" format="ascii">',
-    ...g.points.map((p) => p.map(num).join(' ')),
+    g.points.map((p) => p.map(num).join(' ')),
     '        </DataArray>',
     '      </Points>',
     '      <Cells>',
     '        <DataArray type="Int64" Name="connectivity" format="ascii">',
-    ...g.cells.map((c) => c.join(' ')),
+    g.cells.map((c) => c.join(' ')),
     '        </DataArray>',
     '        <DataArray type="Int64" Name="offsets" format="ascii">',
     ends.join(' '),
@@ -112,5 +122,5 @@ export function vtuText(g: NodalGrid, name = 'temperature'): string {
     '    </Piece>',
     '  </UnstructuredGrid>',
     '</VTKFile>',
-  ].join('\n') + '\n';
+  ).join('\n') + '\n';
 }

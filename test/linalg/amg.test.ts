@@ -112,6 +112,25 @@ describe('multigrid behaviour', () => {
     expect(stats.coarseSolver).toMatch(/^cholesky/);
   });
 
+  it('handles decoupled rows (Dirichlet nodes kept as identity rows) and agrees with the direct solver', () => {
+    const m = 40, M = m + 2;
+    const I: number[] = [], J: number[] = [], V: number[] = [];
+    const onBoundary = (i: number, j: number): boolean => i === 0 || j === 0 || i === M - 1 || j === M - 1;
+    for (let j = 0; j < M; j++) for (let i = 0; i < M; i++) {
+      const r = j * M + i;
+      if (onBoundary(i, j)) { I.push(r); J.push(r); V.push(1); continue; }
+      I.push(r); J.push(r); V.push(4);
+      for (const [di, dj] of [[1, 0], [-1, 0], [0, 1], [0, -1]]) {
+        if (!onBoundary(i + di, j + dj)) { I.push(r); J.push((j + dj) * M + i + di); V.push(-1); }
+      }
+    }
+    const A = csrFromTriplets(M * M, M * M, I, J, V);
+    const b = randomVector(A.nRows, 10);
+    const { x, iterations } = amgPcg(A, b);
+    expect(iterations).toBeLessThan(25);
+    expect(relativeError(x, direct(A, b))).toBeLessThan(1e-10);
+  });
+
   it('preconditions GMRES on a non-symmetric convection–diffusion matrix (coarsest solve by LU)', () => {
     const A = convectionDiffusion(48, 20, -10);
     const b = randomVector(A.nRows, 7);

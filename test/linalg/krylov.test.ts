@@ -147,3 +147,16 @@ describe('stopping rules', () => {
     expect(Array.from(x).every((v) => v === 0)).toBe(true);
   });
 });
+
+describe('non-finite values', () => {
+  it('a NaN entry makes every solver throw a clear error instead of looping', () => {
+    const D = randomSpd(30, 0.1, 41);
+    D[4][4] = NaN;
+    const A = csrFromDense(D);
+    const b = randomVector(30, 42);
+    expect(() => cg(A, b, new Float64Array(30))).toThrow(/entry \(4, 4\) is NaN/);
+    expect(() => cg(A, b, new Float64Array(30), { skipSymmetryCheck: true })).toThrow(/non-finite \(NaN or Inf\) at iteration/);
+    expect(() => gmres(A, b, new Float64Array(30))).toThrow(/non-finite/);
+    expect(() => bicgstab(A, b, new Float64Array(30))).toThrow(/non-finite/);
+  });
+});

@@ -111,6 +111,19 @@ describe('solveSystem: mistakes and hard systems', () => {
     expect(stats.stoppedBy).toBe('maxIter');
   });
 
+  it('auto on a large non-symmetric matrix with a negative diagonal entry falls back from AMG to ILU(0) and says so', () => {
+    const m = 75;
+    const A = fivePointLaplacian(m); // 5625 > AUTO_AMG_MIN_N unknowns
+    const row = 3 * m + 7; // an interior row: two lower neighbours, then the diagonal
+    expect(A.colIdx[A.rowPtr[row] + 2]).toBe(row);
+    A.values[A.rowPtr[row] + 2] = -4;
+    const b = randomVector(A.nRows, 16);
+    const { stats } = solveSystem(A, b, { symmetric: false });
+    expect(stats.preconditioner).toBe('ilu0');
+    expect(stats.message).toMatch(/ilu0 was used instead/);
+    expect(() => solveSystem(A, b, { symmetric: false, preconditioner: 'amg' })).toThrow(/positive diagonal/);
+  });
+
   it('unknown names and NaN loads are input errors', () => {
     const A = fivePointLaplacian(5);
     const b = randomVector(25, 15);
@@ -126,6 +139,7 @@ describe('solveSystem: mistakes and hard systems', () => {
 describe('IC(0) breakdown', () => {
   it('on the Kershaw matrix (SPD, IC(0) meets a negative pivot) a diagonal shift is applied and named', () => {
     // Kershaw (1978), J. Comput. Phys. 26, 43–65: SPD 4×4 matrix for which incomplete Cholesky breaks down (from memory).
+    // IC(0) pivots by hand: d = 3, 5/3, 3/5, then 3 − (2/3)²·3 − (10/3)²·(3/5) = −5 < 0.
     const K = [[3, -2, 0, 2], [-2, 3, -2, 0], [0, -2, 3, -2], [2, 0, -2, 3]];
     for (const lambda of new EigenvalueDecomposition(new Matrix(K)).realEigenvalues) expect(lambda).toBeGreaterThan(0);
     const M = ic0Preconditioner(csrFromDense(K));

@@ -98,11 +98,16 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
           offsets = new Int32Array(nCells + 1);
           connectivity = new Int32Array(Math.max(second - nCells, 0));
           connectivityLines = new Int32Array(connectivity.length);
-          const one = new Int32Array(1);
           let used = 0;
           for (let c = 0; c < nCells; c++) {
-            readNumbers(cur, 1, { what: `cells of CELLS ${nCells} ${second}`, declaredAt: at, item: `node count of cell ${c + 1} of` }, one, true);
-            const k = one[0]!;
+            if (!cur.next()) {
+              cur.fail(`the file ends after ${c} of the ${nCells} cells of CELLS (declared at line ${at}): the file is truncated or the declared count does not match the data`, cur.line);
+            }
+            const k = Number(cur.tok);
+            if (!Number.isInteger(k) || k < 0) {
+              cur.fail(`cell ${c + 1} of CELLS (declared at line ${at}) should start with its node count, found '${cur.tok}'` +
+                (/^[A-Za-z_]/.test(cur.tok) ? ': the count in the file does not match the declared count' : ''));
+            }
             used += 1 + k;
             if (used > second) fail(cur.tokLine, `cell ${c + 1} lists ${k} nodes, more than the size ${second} declared by CELLS at line ${at} allows`);
             readNumbers(cur, k, { what: `node indices of cell ${c + 1}`, declaredAt: cur.tokLine, item: 'index' }, connectivity, true, offsets[c]!, connectivityLines);

@@ -92,7 +92,8 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
     }
   }
 
-  const values = pickArray(grid, opts.field, fail);
+  const solution = pickArray(grid, opts.field, fail);
+  const values = solution.values;
   const dim = CELL_DIM[t.cellKind];
 
   // Corners become mesh vertices (ascending point index), the other nodes follow; -1 marks unused points.
@@ -152,13 +153,13 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   if (t.degree > 1) checkNodePositions(mesh, element.nodes, cellDofs, nLoc, nc, coords, dim, grid, fail);
 
   const space: FunctionSpace = { mesh, element, nDofs: nNodes, cellDofs, dofCoords: coords, nEdges: 0 };
-  return { mesh, field: lagrangeField(space, nodeValues), degree: t.degree, dofs: nNodes, fieldName: values.name, cellType: t, space };
+  return { mesh, field: lagrangeField(space, nodeValues), degree: t.degree, dofs: nNodes, fieldName: solution.name, cellType: t, space };
 }
 
 type Fail = (message: string, line?: number) => never;
 
 /** The point array holding the solution, with its name. */
-function pickArray(grid: VtkGrid, wanted: string | undefined, fail: Fail): Float64Array & { name: string } {
+function pickArray(grid: VtkGrid, wanted: string | undefined, fail: Fail): { name: string; values: Float64Array } {
   const scalars = grid.pointData.filter((a) => a.components === 1);
   const list = grid.pointData.map((a) => `'${a.name}'${a.components > 1 ? ` (${a.components} components)` : ''}`).join(', ') || 'none';
   let chosen;
@@ -171,7 +172,7 @@ function pickArray(grid: VtkGrid, wanted: string | undefined, fail: Fail): Float
     if (scalars.length > 1) fail(`several scalar point arrays (${list}); choose the solution with field: '<name>'`);
     chosen = scalars[0];
   }
-  return Object.assign(chosen!.values, { name: chosen!.name });
+  return { name: chosen!.name, values: chosen!.values };
 }
 
 /** Lower-dimensional meshes must be flat: 2D cells in a plane z = const, 1D cells on a line y = z = const. */

@@ -1,9 +1,75 @@
-/** Galerkin coarse operator A_c = Pᵀ A P (restriction R = Pᵀ), formed as Pᵀ (A P) with two sparse products;
+/** Galerkin coarse operator A_c = Pᵀ A P (restriction R = Pᵀ), formed as R (A P) with sparse products;
  *  Vaněk, Mandel & Brezina (1996), Computing 56, 179–196, §2 (variational coarse spaces). */
+import { sortRowByColumn } from '../csr.ts';
 import { spgemm } from '../spgemm.ts';
 import type { Csr } from '../types.ts';
 
 /** R must be Pᵀ (the caller keeps it as the restriction of the cycle). */
-export function galerkinProduct(A: Csr, P: Csr, R: Csr): Csr {
-  return spgemm(R, spgemm(A, P));
+export function galerkinProduct(A: Csr, P: Csr, R: Csr, symmetric: boolean): Csr {
+  const AP = spgemm(A, P);
+  return symmetric ? mirrorUpper(upperProduct(R, AP)) : spgemm(R, AP);
+}
+
+/** Upper triangle (J ≥ I) of C = R M, which is symmetric when A is: each row of M is read from its end down to the
+ *  first column below I, so about half of the products are skipped. Rows come out sorted. */
+function upperProduct(R: Csr, M: Csr): Csr {
+  const m = R.nRows, nc = M.nCols;
+  const rPtr = R.rowPtr, rCol = R.colIdx, rVal = R.values;
+  const mPtr = M.rowPtr, mCol = M.colIdx, mVal = M.values;
+  const marker = new Int32Array(nc).fill(-1);
+  const rowPtr = new Int32Array(m + 1);
+  let cap = Math.max(16, rPtr[m] * 4);
+  let cols = new Int32Array(cap);
+  let vals = new Float64Array(cap);
+  let nnz = 0;
+  for (let I = 0; I < m; I++) {
+    const rowStart = nnz;
+    for (let k = rPtr[I]; k < rPtr[I + 1]; k++) {
+      const a = rVal[k];
+      const i = rCol[k];
+      const lo = mPtr[i];
+      for (let q = mPtr[i + 1] - 1; q >= lo; q--) {
+        const J = mCol[q];
+        if (J < I) break;
+        const pos = marker[J];
+        if (pos < rowStart) {
+          if (nnz === cap) {
+            cap = Math.ceil(cap * 1.5);
+            const c2 = new Int32Array(cap); c2.set(cols.subarray(0, nnz)); cols = c2;
+            const v2 = new Float64Array(cap); v2.set(vals.subarray(0, nnz)); vals = v2;
+          }
+          marker[J] = nnz; cols[nnz] = J; vals[nnz] = a * mVal[q]; nnz++;
+        } else vals[pos] += a * mVal[q];
+      }
+    }
+    sortRowByColumn(cols, vals, rowStart, nnz);
+    rowPtr[I + 1] = nnz;
+  }
+  return { nRows: m, nCols: nc, rowPtr, colIdx: cols.slice(0, nnz), values: vals.slice(0, nnz) };
+}
+
+/** Full symmetric matrix from its upper triangle U: row I = (strict upper part of U)ᵀ row I, then U row I.
+ *  The transposed entries arrive in increasing source row, so every row is sorted without a sort. */
+function mirrorUpper(U: Csr): Csr {
+  const n = U.nRows;
+  const { rowPtr, colIdx, values } = U;
+  const count = new Int32Array(n + 1);
+  for (let I = 0; I < n; I++) {
+    count[I + 1] += rowPtr[I + 1] - rowPtr[I];
+    for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) if (colIdx[k] !== I) count[colIdx[k] + 1]++;
+  }
+  for (let I = 0; I < n; I++) count[I + 1] += count[I];
+  const fill = count.slice(0, n);
+  const cols = new Int32Array(count[n]);
+  const vals = new Float64Array(count[n]);
+  // Lower entries first: for each source row I in order, its strict upper entries (I, J) become (J, I).
+  for (let I = 0; I < n; I++) {
+    for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) {
+      const J = colIdx[k];
+      if (J !== I) { const p = fill[J]++; cols[p] = I; vals[p] = values[k]; }
+    }
+    // Row I's own lower entries are complete now (they came from rows < I); append its upper part.
+    for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) { const p = fill[I]++; cols[p] = colIdx[k]; vals[p] = values[k]; }
+  }
+  return { nRows: n, nCols: n, rowPtr: count, colIdx: cols, values: vals };
 }

@@ -17,7 +17,7 @@ const WHERE = 'linalg/amg';
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
 const STALLED_COARSENING = 0.8;
 /** Lanczos steps for ρ(D⁻¹A) in the prolongator damping; a handful suffice for the 4/(3ρ) rule. */
-const LANCZOS_STEPS = 6;
+const LANCZOS_STEPS = 4;
 
 export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const t0 = performance.now();
@@ -40,7 +40,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   let R: Csr | null = null;
   for (let l = 0; ; l++) {
     const n = current.nRows;
-    const { diagPos, diag, invDiag, diagonallyDominant } = scanLevel(current, l);
+    const { diagPos, diag, invDiag } = scanLevel(current, l);
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
       A: current, diagPos, invDiag, P, R, b: new Float64Array(l === 0 ? 0 : n), x: new Float64Array(l === 0 ? 0 : n),
@@ -56,10 +56,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     }
     // Gershgorin is close to ρ(D⁻¹A) on a diagonally dominant finest level (discretised diffusion as an M-matrix:
     // ρ → 2 as h → 0 for the five-point stencil; common practice, no source); elsewhere a Lanczos estimate.
-    const lanczos = symmetric && (l > 0 || !diagonallyDominant) ? LANCZOS_STEPS : 0;
+    const lanczos = symmetric && (l > 0 || !graph.diagonallyDominant) ? LANCZOS_STEPS : 0;
     P = smoothedProlongator(current, graph, agg, lanczos);
     R = transpose(P);
-    current = galerkinProduct(current, P, R);
+    current = galerkinProduct(current, P, R, symmetric);
   }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const hierarchy = { levels, coarse, sweeps, symmetric };

@@ -11,7 +11,12 @@ export interface StrengthGraph {
   filteredDiag: Float64Array;
   /** max_i Σ_j |a^F_ij| / |a^F_ii| ≥ ρ(D_F⁻¹A_F) (and ≥ 1). */
   gershgorinBound: number;
+  /** a_ii ≥ Σ_{j≠i} |a_ij| in every row of A (up to round-off). */
+  diagonallyDominant: boolean;
 }
+
+/** Smallest filtered diagonal accepted, as a fraction of a_ii. */
+const MIN_FILTERED_DIAGONAL = 0.1;
 
 export function strengthGraph(A: Csr, diag: Float64Array, theta: number): StrengthGraph {
   const { nRows: n, rowPtr, colIdx, values } = A;
@@ -19,22 +24,28 @@ export function strengthGraph(A: Csr, diag: Float64Array, theta: number): Streng
   const filteredDiag = new Float64Array(n);
   const theta2 = theta * theta;
   let bound = 1;
+  let dominant = true;
   for (let i = 0; i < n; i++) {
     const di = diag[i];
     const cut = theta2 * Math.abs(di);
-    let dF = di, off = 0;
+    let dF = di, off = 0, offAll = 0;
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
       const j = colIdx[k];
       if (j === i) continue;
       const a = values[k];
+      offAll += Math.abs(a);
       if (a !== 0 && a * a >= cut * Math.abs(diag[j])) { strong[k] = 1; off += Math.abs(a); }
       else dF += a;
     }
+    if (offAll > Math.abs(di) * (1 + 1e-12)) dominant = false;
+    // Safeguard (our choice): lumping many weak negative couplings could leave a^F_ii near zero and blow up
+    // the prolongator smoothing; fall back to a_ii then.
+    if (!(dF > MIN_FILTERED_DIAGONAL * di)) dF = di;
     filteredDiag[i] = dF;
     if (dF !== 0) {
       const g = (Math.abs(dF) + off) / Math.abs(dF);
       if (g > bound) bound = g;
     }
   }
-  return { strong, filteredDiag, gershgorinBound: bound };
+  return { strong, filteredDiag, gershgorinBound: bound, diagonallyDominant: dominant };
 }

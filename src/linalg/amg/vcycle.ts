@@ -1,11 +1,13 @@
 /** The multigrid V-cycle as a preconditioner: z = B r with B one V-cycle from a zero initial guess.
  *  Pre-smoothing by forward and post-smoothing by backward Gauss–Seidel (symmetric B for symmetric A), restriction
- *  R = Pᵀ, prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2). */
+ *  R = Pᵀ, prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2).
+ *  For symmetric A with one sweep the pre-smoother also yields the residual from the lower triangle alone, and on the
+ *  finest level the post-smoother also yields A z, which CG uses instead of its own product (withProduct). */
 import { spmv as spmvInto } from '../csr.ts';
 import type { Preconditioner } from '../types.ts';
 import {
-  backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual, prolongAndAdd, residualInto,
-  restrict,
+  backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual,
+  prolongAndAdd, residualInto, restrict,
 } from './smoother.ts';
 import type { AmgHierarchy } from './types.ts';
 

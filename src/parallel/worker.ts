@@ -1,0 +1,41 @@
+// A worker thread of the level pool: loads a study file (once per thread), derives its PDE data, runs one level.
+import { loadStudy, type LoadedStudy } from '../study/load.ts';
+import { buildProblem, type StudyProblem } from '../study/problem.ts';
+import { runLevel } from '../study/level.ts';
+import { DEFAULT_NORMS, solverSettings } from '../study/runner.ts';
+import type { LevelResult } from '../study/result.ts';
+import { RungsInputError, RungsNumericalError } from '../errors.ts';
+
+export interface LevelTask {
+  file: string;
+  index: number;
+  out: string;
+}
+
+export type LevelReply =
+  | { ok: true; level: LevelResult }
+  | { ok: false; error: { kind: 'input' | 'numerical' | 'other'; message: string; where?: string } };
+
+const cache = new Map<string, Promise<{ loaded: LoadedStudy; problem: StudyProblem }>>();
+
+function prepared(file: string) {
+  let hit = cache.get(file);
+  if (!hit) {
+    hit = loadStudy(file).then((loaded) => ({ loaded, problem: buildProblem(loaded.declaration, loaded.file) }));
+    cache.set(file, hit);
+  }
+  return hit;
+}
+
+export default async function runLevelTask(task: LevelTask): Promise<LevelReply> {
+  try {
+    const { loaded, problem } = await prepared(task.file);
+    const decl = loaded.declaration;
+    const level = await runLevel(decl, loaded.file, problem, task.index, decl.norms ?? DEFAULT_NORMS, solverSettings(decl), { out: task.out });
+    return { ok: true, level };
+  } catch (err) {
+    const e = err as Error;
+    const kind = err instanceof RungsInputError ? 'input' : err instanceof RungsNumericalError ? 'numerical' : 'other';
+    return { ok: false, error: { kind, message: kind === 'other' ? (e.stack ?? e.message) : e.message, where: (err as RungsInputError).where } };
+  }
+}
