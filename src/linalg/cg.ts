@@ -12,6 +12,11 @@ import { dot } from './vector.ts';
 
 /** Relative symmetry tolerance of the check CG runs before iterating (see isSymmetric). */
 export const CG_SYMMETRY_TOL = 1e-10;
+/** Delay d of the error estimate: ||x* − x_{k−d}||²_A ≈ Σ_{j=k−d}^{k−1} α_j r_j·z_j, a lower bound that is tight
+ *  once the error falls by a good factor over d steps (Hestenes & Stiefel 1952, Thm 6:1; Strakoš & Tichý 2002,
+ *  eq. 4.9). Since CG's A-norm error decreases monotonically, it also bounds the error of x_k from above
+ *  whenever the bound for x_{k−d} is tight. */
+export const CG_ERROR_DELAY = 3;
 /** How often the recursively updated residual may be replaced by the true one when they disagree at the end. */
 const MAX_RESIDUAL_REPLACEMENTS = 3;
 /** With a preconditioner that also returns A z, q = A p is updated by recursion and recomputed every this many steps. */
@@ -61,6 +66,8 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
   };
   restart();
   let it = 0;
+  const hs = new Float64Array(CG_ERROR_DELAY);
+  let errorEstimate = Infinity;
   while (it < maxIter) {
     if (!(rz > 0)) {
       if (!Number.isFinite(rz)) throw nonFiniteError(method, it, 'the preconditioned residual');
@@ -83,14 +90,23 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
       return finish(t, it, rel, 'breakdown', false,
         `cg: p·Ap vanished at iteration ${it} (a direction in the null space); ${SINGULAR_HINT}`);
     }
-    const rr = updateIterate(rz / pq, p, q, x, r);
+    const alpha = rz / pq;
+    const rr = updateIterate(alpha, p, q, x, r);
+    // Ring buffer of the last d terms α_j r_j·z_j of the Hestenes–Stiefel error sum.
+    // Summed afresh each step: a running sum would keep the round-off of the large early terms.
+    hs[it % CG_ERROR_DELAY] = alpha * rz;
     it++;
+    if (it >= CG_ERROR_DELAY) {
+      let sum = 0;
+      for (let j = 0; j < CG_ERROR_DELAY; j++) sum += hs[j];
+      errorEstimate = Math.sqrt(sum);
+    }
     rel = Math.sqrt(rr) / bNorm;
     if (!Number.isFinite(rel)) throw nonFiniteError(method, it, 'the residual');
     if (rel <= relTol) {
       // The recursion drifts from b − A x; accept only when the true residual agrees.
       rel = trueResidual(A, b, x, r) / bNorm;
-      if (rel <= relTol) return finish(t, it, rel, 'residual', true);
+      if (rel <= relTol) return { ...finish(t, it, rel, 'residual', true), energyErrorEstimate: errorEstimate };
       if (++replacements > MAX_RESIDUAL_REPLACEMENTS) {
         return finish(t, it, rel, 'stagnation', false,
           `cg: the true residual stays at ${rel.toExponential(2)} above relTol ${relTol}; ${SINGULAR_HINT}`);
@@ -98,8 +114,10 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
       restart();
       continue;
     }
-    if (opts.stopWhen && opts.stopWhen({ iteration: it, relativeResidual: rel, x })) {
-      return finish(t, it, trueResidual(A, b, x, r) / bNorm, 'stopWhen', true);
+    if (opts.stopWhen && opts.stopWhen({ iteration: it, relativeResidual: rel, x, energyErrorEstimate: errorEstimate })) {
+      const s = finish(t, it, trueResidual(A, b, x, r) / bNorm, 'stopWhen', true);
+      s.energyErrorEstimate = errorEstimate;
+      return s;
     }
     if (stagnated(it, rel)) {
       rel = trueResidual(A, b, x, r) / bNorm;

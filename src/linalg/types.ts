@@ -23,11 +23,21 @@ export interface SolveOptions {
   preconditioner?: Preconditioner;
   /** Optional extra stopping test called after each iteration with the current iterate;
    *  return true to stop (used to tie the algebraic error to the discretization error). */
-  stopWhen?: (info: { iteration: number; relativeResidual: number; x: Float64Array }) => boolean;
+  stopWhen?: (info: StopInfo) => boolean;
   /** CG only: skip the O(nnz) symmetry check when the caller has already checked A (default false). */
   skipSymmetryCheck?: boolean;
   /** GMRES only: Krylov dimension before a restart (default 30). */
   restart?: number;
+}
+
+/** What an extra stopping test sees after each iteration. */
+export interface StopInfo {
+  iteration: number;
+  relativeResidual: number;
+  x: Float64Array;
+  /** CG only: estimate of the A-norm error ||x* − x||_A of the iterate (Hestenes–Stiefel sum over the last
+   *  CG_ERROR_DELAY steps; Strakoš & Tichý 2002); Infinity until enough steps were taken. */
+  energyErrorEstimate?: number;
 }
 
 export interface SolveStats {
@@ -39,6 +49,8 @@ export interface SolveStats {
   /** 'residual' when relTol was reached, 'stopWhen' when the extra test stopped it, 'maxIter', 'breakdown' or
    *  'stagnation' (the residual stopped decreasing) otherwise; 'direct' for the exact solver. */
   stoppedBy: 'residual' | 'stopWhen' | 'maxIter' | 'breakdown' | 'stagnation' | 'direct';
+  /** CG: the last estimate of the A-norm of the algebraic error (see StopInfo). */
+  energyErrorEstimate?: number;
   /** Seconds spent building the preconditioner, when known. */
   setupSeconds?: number;
   /** Seconds spent iterating (or factorising and solving, for the direct solver), when known. */

@@ -18,43 +18,72 @@ export interface ErrorOptions {
 
 /** L2, H1 seminorm, H1, energy and largest nodal error of u − u_h, integrated cell by cell. */
 export function errorNorms(field: DiscreteField, exact: ExactSolution, opts: ErrorOptions = {}): NormValues {
-  const mesh = field.mesh;
+  return errorNormsOf([field], exact, opts)[0];
+}
+
+/** The norms of u − f for several fields on the same mesh in one pass, so u, ∇u and the coefficients are
+ *  evaluated once per quadrature point (the discrete solution and the interpolant share the work). */
+export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts: ErrorOptions = {}): NormValues[] {
+  const mesh = fields[0].mesh;
   const dim = mesh.dim;
-  const k = field.degree ?? 2;
+  const k = Math.max(...fields.map((f) => f.degree ?? 2));
   const rule = ruleFor(mesh.cellKind, opts.degree ?? 2 * k + ERROR_RULE_EXTRA);
   const nq = rule.nPoints;
-  const vals = new Float64Array(nq), grads = new Float64Array(nq * dim);
+  const nf = fields.length;
+  const vals = fields.map(() => new Float64Array(nq));
+  const grads = fields.map(() => new Float64Array(nq * dim));
   const J = new Float64Array(9), invJ = new Float64Array(9), x = new Float64Array(3), g = new Float64Array(3);
   const affine = mesh.cellKind !== 'quadrilateral';
-  let l2 = 0, h1 = 0, en = 0;
+  const l2 = new Float64Array(nf), h1 = new Float64Array(nf), en = new Float64Array(nf);
   const kf = opts.k, cf = opts.c;
+  const pts = rule.points, wts = rule.weights;
+  const { coords, cells, verticesPerCell: vpc } = mesh;
   for (let c = 0; c < mesh.nCells; c++) {
-    field.evaluate(c, rule.points, nq, vals, grads);
+    for (let f = 0; f < nf; f++) fields[f].evaluate(c, pts, nq, vals[f], grads[f]);
     let det = 0;
+    const v0 = cells[c * vpc] * dim;
     for (let q = 0; q < nq; q++) {
-      if (q === 0 || !affine) det = cellJacobian(mesh, c, rule.points, q * dim, J, invJ);
-      mapReferencePoint(mesh, c, rule.points, q * dim, x);
+      if (q === 0 || !affine) det = cellJacobian(mesh, c, pts, q * dim, J, invJ);
+      if (affine) {
+        // x = x0 + J ξ, with J from cellJacobian (no call per point).
+        for (let d = 0; d < dim; d++) {
+          let s = coords[v0 + d];
+          for (let r = 0; r < dim; r++) s += J[d * dim + r] * pts[q * dim + r];
+          x[d] = s;
+        }
+      } else mapReferencePoint(mesh, c, pts, q * dim, x);
       const X = x[0], Y = dim > 1 ? x[1] : 0, Z = dim > 2 ? x[2] : 0;
-      const w = rule.weights[q] * Math.abs(det);
-      const e = exact.u(X, Y, Z) - vals[q];
+      const w = wts[q] * Math.abs(det);
+      const u = exact.u(X, Y, Z);
       exact.grad(X, Y, Z, g);
-      let ge = 0;
-      for (let d = 0; d < dim; d++) { const t = g[d] - grads[q * dim + d]; ge += t * t; }
-      l2 += w * e * e;
-      h1 += w * ge;
-      en += w * ((kf ? kf(X, Y, Z) : 1) * ge + (cf ? cf(X, Y, Z) : 0) * e * e);
+      const kq = kf ? kf(X, Y, Z) : 1;
+      const cq = cf ? cf(X, Y, Z) : 0;
+      for (let f = 0; f < nf; f++) {
+        const e = u - vals[f][q];
+        const gf = grads[f];
+        let ge = 0;
+        for (let d = 0; d < dim; d++) { const t = g[d] - gf[q * dim + d]; ge += t * t; }
+        l2[f] += w * e * e;
+        h1[f] += w * ge;
+        en[f] += w * (kq * ge + cq * e * e);
+      }
     }
   }
-  let maxNodal = NaN;
-  if (field.nodes) {
-    maxNodal = 0;
-    const { coords, values } = field.nodes;
-    for (let i = 0; i < values.length; i++) {
-      const e = Math.abs(exact.u(coords[i * dim], dim > 1 ? coords[i * dim + 1] : 0, dim > 2 ? coords[i * dim + 2] : 0) - values[i]);
-      if (e > maxNodal) maxNodal = e;
-    }
+  return fields.map((field, f) => ({
+    L2: Math.sqrt(l2[f]), H1semi: Math.sqrt(h1[f]), H1: Math.sqrt(l2[f] + h1[f]), energy: Math.sqrt(Math.max(en[f], 0)),
+    maxNodal: maxNodalError(field, exact, dim),
+  }));
+}
+
+function maxNodalError(field: DiscreteField, exact: ExactSolution, dim: number): number {
+  if (!field.nodes) return NaN;
+  let m = 0;
+  const { coords, values } = field.nodes;
+  for (let i = 0; i < values.length; i++) {
+    const e = Math.abs(exact.u(coords[i * dim], dim > 1 ? coords[i * dim + 1] : 0, dim > 2 ? coords[i * dim + 2] : 0) - values[i]);
+    if (e > m) m = e;
   }
-  return { L2: Math.sqrt(l2), H1semi: Math.sqrt(h1), H1: Math.sqrt(l2 + h1), energy: Math.sqrt(Math.max(en, 0)), maxNodal };
+  return m;
 }
 
 /** The same norms of u itself (the error of the zero field): the scale that round-off is judged against. */

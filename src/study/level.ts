@@ -3,9 +3,11 @@ import { perturbMesh } from '../mesh/perturb.ts';
 import { checkMesh } from '../mesh/quality.ts';
 import { solveLagrange } from '../fem/discretizations/lagrange.ts';
 import { lagrangeSpace } from '../fem/dofmap/dofmap.ts';
-import { errorNorms } from '../norms/errors.ts';
+import { errorNormsOf } from '../norms/errors.ts';
 import { interpolate, lagrangeField } from '../norms/lagrange-field.ts';
 import type { DiscreteField, NormValues } from '../norms/types.ts';
+import type { Mesh } from '../mesh/types.ts';
+import type { FunctionSpace } from '../fem/dofmap/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
 import { runExternalLevel, externalLevelResult, levelFolder } from '../external/index.ts';
 import { fileStem } from '../report/series.ts';
@@ -14,6 +16,16 @@ import type { NormName, StudyDeclaration } from './declaration.ts';
 import type { StudyProblem } from './problem.ts';
 import type { LevelContext } from './context.ts';
 import { RungsInputError } from '../errors.ts';
+import { algebraicTie, DEFAULT_ERROR_FRACTION, type AlgebraicTie } from './algebraic.ts';
+
+/** I_h u on the discrete solution's own space when it is a Lagrange field of that degree, else on a new one. */
+function interpolantField(mesh: Mesh, degree: number, u: (x: number, y: number, z: number) => number, space: FunctionSpace | null): DiscreteField {
+  const sp = space ?? lagrangeSpace(mesh, degree);
+  return lagrangeField(sp, interpolate(sp, u));
+}
+
+const spaceOf = new WeakMap<DiscreteField, FunctionSpace>();
+const sameSpace = (f: DiscreteField) => spaceOf.get(f) ?? null;
 
 const seconds = (t0: number) => (performance.now() - t0) / 1e3;
 const peakRss = () => process.resourceUsage().maxRSS * 1024;
@@ -65,11 +77,31 @@ export async function runLevel(
   let stats: SolveStats | null = null;
   let tAssemble = 0, tSolve = 0;
   t = performance.now();
+  let interp: NormValues | null = null;
+  let tie: AlgebraicTie | null = null;
+  let tInterp = 0;
   if (disc.kind === 'lagrange') {
-    const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, solver });
+    const tSpace0 = performance.now();
+    const space = lagrangeSpace(mesh, disc.degree);
+    const tSpace = seconds(tSpace0);
+    const fraction = decl.solver?.errorFraction ?? DEFAULT_ERROR_FRACTION;
+    let stopWhen: LevelContext['solver']['stopWhen'];
+    if (problem.symmetric) {
+      if (fraction > 0) {
+        // Measure I_h u first: its errors set how small the algebraic error must be.
+        const t0 = performance.now();
+        [interp] = errorNormsOf([lagrangeField(space, interpolate(space, exact.u))], exact, errOpts);
+        tInterp = seconds(t0);
+      }
+      tie = algebraicTie(interp, fraction, mesh, space.dofCoords, coefficients.k);
+      const target = tie.target;
+      if (target > 0) stopWhen = ({ energyErrorEstimate }) => energyErrorEstimate !== undefined && energyErrorEstimate <= target;
+    }
+    const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, space, solver: { ...solver, stopWhen } });
     field = sol.field;
+    spaceOf.set(field, sol.space);
     stats = sol.solver;
-    tAssemble = sol.seconds.space + sol.seconds.assemble;
+    tAssemble = tSpace + sol.seconds.assemble;
     tSolve = sol.seconds.solve;
   } else {
     const ctx: LevelContext = { study: decl.name, index, n, mesh, exact, coefficients, boundary, solver };
@@ -83,14 +115,13 @@ export async function runLevel(
   }
 
   t = performance.now();
-  const errs = errorNorms(field, exact, errOpts);
-  let interp: NormValues | null = null;
+  // The nodal interpolant I_h u is measured in the same pass: the best-approximation reference of Céa's lemma.
   const degree = disc.degree;
-  if (degree !== undefined && degree > 0 && mesh.cellKind !== 'tetrahedron') {
-    const space = lagrangeSpace(mesh, degree);
-    interp = errorNorms(lagrangeField(space, interpolate(space, exact.u)), exact, errOpts);
-  }
-  const tErrors = seconds(t);
+  const withInterp = !interp && degree !== undefined && degree > 0 && mesh.cellKind !== 'tetrahedron';
+  const interpField = withInterp ? interpolantField(mesh, degree, exact.u, disc.kind === 'lagrange' ? sameSpace(field) : null) : null;
+  const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, errOpts);
+  if (interpErrs) interp = interpErrs;
+  const tErrors = seconds(t) + tInterp;
 
   const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, v[nm]]));
   const quasi = problem.symmetric && interp && interp.energy > 0 ? errs.energy / interp.energy : null;
@@ -100,6 +131,9 @@ export async function runLevel(
     interpolationErrors: interp ? pick(interp) : undefined,
     quasiOptimality: quasi,
     solver: stats,
+    algebraic: tie && stats?.energyErrorEstimate !== undefined && Number.isFinite(stats.energyErrorEstimate)
+      ? { estimate: stats.energyErrorEstimate, target: tie.target, fraction: tie.fraction, floors: tie.floors(stats.energyErrorEstimate) }
+      : null,
     seconds: { mesh: tMesh, assemble: tAssemble, solve: tSolve, errors: tErrors, total: seconds(tStart) },
     peakRssBytes: peakRss(),
   };

@@ -19,6 +19,9 @@ export interface LevelResult {
   /** ||u-u_h||_E / ||u-I_h u||_E, symmetric problems only. */
   quasiOptimality?: number | null;
   solver?: SolveStats | null;
+  /** The algebraic error of the solve, tied to the discretization error: the CG estimate of ||U* − U||_A, the
+   *  target it had to reach (fraction × the interpolation error) and the bound it implies on each norm's floor. */
+  algebraic?: { estimate: number; target: number; fraction: number; floors: Record<string, number> } | null;
   /** Wall seconds per phase: mesh, assemble, solve, errors, total. */
   seconds: Record<string, number>;
   /** Quantities of interest reported for this level (external solvers). */

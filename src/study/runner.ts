@@ -140,7 +140,9 @@ function finishAnalysis(
       expected: expected[nm],
       tolerance,
       fitWindow,
-      floorHint: levels.map((l) => (l.solver ? l.solver.relativeResidual * (scale > 0 ? scale : 1) : null)),
+      // The error the solver alone could leave: the tied algebraic-error bound where CG gave one, else the
+      // relative residual times the size of u (optimistic: the true algebraic error can be κ times larger).
+      floorHint: levels.map((l) => l.algebraic?.floors[nm] ?? (l.solver ? l.solver.relativeResidual * (scale > 0 ? scale : 1) : null)),
       scale: scale > 0 && Number.isFinite(scale) ? levels.map(() => scale) : undefined,
     });
     if (ceaReason && a.verdict !== 'on-order' && a.verdict !== 'exact') a.reasons.push(ceaReason);

@@ -15,6 +15,8 @@ export interface LagrangeSolveInput {
   boundary: BoundarySpec;
   quadrature?: QuadratureDegrees;
   solver?: Omit<SolveSystemOptions, 'symmetric'>;
+  /** The space, when the caller built it already (same mesh and degree). */
+  space?: FunctionSpace;
 }
 
 export interface LagrangeSolution {
@@ -30,7 +32,7 @@ export interface LagrangeSolution {
  *  interpolated, Neumann/Robin data integrated. */
 export function solveLagrange(input: LagrangeSolveInput): LagrangeSolution {
   const t0 = performance.now();
-  const space = lagrangeSpace(input.mesh, input.degree);
+  const space = input.space ?? lagrangeSpace(input.mesh, input.degree);
   const t1 = performance.now();
   const system = assembleSystem(space, input.coefficients, input.boundary, { quadrature: input.quadrature });
   const t2 = performance.now();
