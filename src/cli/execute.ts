@@ -29,6 +29,8 @@ export interface ExecuteOptions {
   quiet?: boolean;
   /** Worker threads for levels (1: run in this thread). Results are identical either way. */
   jobs?: number;
+  /** Smallest largest-level size (unknowns) for which worker threads are used (default PARALLEL_MIN_DOFS). */
+  parallelMinDofs?: number;
   /** Called when a study finishes, in the order of the study files. */
   onResult?: (r: StudyResult) => void;
   onProblem?: (p: InputProblem) => void;
@@ -78,7 +80,7 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   const broken = new Set<PreparedStudy>();
   const jobs = Math.max(1, opts.jobs ?? 1);
   const totalLevels = prepared.reduce((s, p) => s + p.total, 0);
-  if (jobs === 1 || totalLevels <= 1 || largestLevelDofs(prepared) < PARALLEL_MIN_DOFS) await runSerial(prepared, progress, onLevel, (p, err) => { broken.add(p); problem(asProblem(err, p.result.study, p.loaded.file)); });
+  if (jobs === 1 || totalLevels <= 1 || largestLevelDofs(prepared) < (opts.parallelMinDofs ?? PARALLEL_MIN_DOFS)) await runSerial(prepared, progress, onLevel, (p, err) => { broken.add(p); problem(asProblem(err, p.result.study, p.loaded.file)); });
   else await runParallel(prepared, Math.min(jobs, totalLevels), progress, onLevel, (p, err) => { broken.add(p); problem(asProblem(err, p.result.study, p.loaded.file)); });
   progress.clear();
 

@@ -6,7 +6,7 @@ import { amgSetup } from './amg/setup.ts';
 import type { AmgOptions, AmgStats } from './amg/types.ts';
 import { bicgstab } from './bicgstab.ts';
 import { CG_SYMMETRY_TOL, cg } from './cg.ts';
-import { isSymmetric } from './csr.ts';
+import { assertFiniteMatrix, isSymmetric } from './csr.ts';
 import { directSolve } from './direct/direct-solve.ts';
 import { gmres } from './gmres.ts';
 import { identityPreconditioner } from './iteration-control.ts';
@@ -70,6 +70,8 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
   if (!PRECONDITIONERS.includes(precOpt)) {
     throw new RungsInputError(`solveSystem: unknown preconditioner '${precOpt}'; valid: ${PRECONDITIONERS.join(', ')}`, WHERE);
   }
+  // NaN or Inf entries first: otherwise they surface as a misleading symmetry or breakdown message.
+  assertFiniteMatrix(A, WHERE);
   const n = A.nRows;
   const auto = autoChoice(n, symmetric);
   const method = methodOpt === 'auto' ? auto.method : methodOpt;

@@ -15,7 +15,7 @@ import type { LevelResult } from './result.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import type { StudyProblem } from './problem.ts';
 import type { LevelContext } from './context.ts';
-import { RungsInputError } from '../errors.ts';
+import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { algebraicTie, DEFAULT_ERROR_FRACTION, type AlgebraicTie } from './algebraic.ts';
 
 /** I_h u on the discrete solution's own space when it is a Lagrange field of that degree, else on a new one. */
@@ -35,8 +35,29 @@ export interface LevelEnvironment {
   out: string;
 }
 
-/** Runs one level: mesh, solve, errors; returns its row. */
+/** Runs one level: mesh, solve, errors; returns its row. Any failure is re-thrown naming the study and level. */
 export async function runLevel(
+  decl: StudyDeclaration, file: string, problem: StudyProblem, index: number, norms: NormName[],
+  solver: LevelContext['solver'], env: LevelEnvironment = { out: 'reports' },
+): Promise<LevelResult> {
+  try {
+    const level = await runLevelUnguarded(decl, file, problem, index, norms, solver, env);
+    const s = level.solver;
+    if (s && !s.converged) {
+      throw new RungsNumericalError(
+        `the ${s.method} solver (preconditioner ${s.preconditioner}) stopped by ${s.stoppedBy} after ${s.iterations} iterations at ` +
+        `relative residual ${s.relativeResidual.toExponential(2)}${s.message ? ` — ${s.message}` : ''}`);
+    }
+    return level;
+  } catch (err) {
+    const where = `${file} (study '${decl.name}') level ${index + 1} (n = ${decl.ladder.n[index]})`;
+    if (err instanceof RungsInputError) throw new RungsInputError(err.message.startsWith(file) ? err.message : `${where}: ${err.message}`, file);
+    if (err instanceof RungsNumericalError) throw new RungsNumericalError(`${where}: ${err.message}`, file);
+    throw err;
+  }
+}
+
+async function runLevelUnguarded(
   decl: StudyDeclaration, file: string, problem: StudyProblem, index: number, norms: NormName[],
   solver: LevelContext['solver'], env: LevelEnvironment = { out: 'reports' },
 ): Promise<LevelResult> {

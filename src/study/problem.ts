@@ -64,6 +64,11 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
     seen.set(t, part);
   }
 
+  if (decl.discretization.kind === 'lagrange' && dirichlet.length === 0 && robin.length === 0 && coef.c === undefined) {
+    throw new RungsInputError(
+      `${where}: boundary: every boundary part is Neumann and there is no reaction term c, so the solution is fixed only ` +
+      'up to a constant and the system is singular; give a Dirichlet or Robin part (boundary.dirichlet / boundary.robin) or a reaction c > 0', file);
+  }
   let alpha: ((x: number, y: number, z: number) => number) | undefined;
   if (bd.robin) {
     const a = manufacture({ dim, u: String(bd.robin.alpha) });
