@@ -12,6 +12,7 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
   let tabV = new Float64Array(0), tabG = new Float64Array(0);
   const J = new Float64Array(9), invJ = new Float64Array(9);
   const gref = new Float64Array(3);
+  const local = new Float64Array(n);
   const affine = mesh.cellKind !== 'quadrilateral';
   return {
     mesh,
@@ -25,15 +26,36 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
         el.tabulate(refPoints, nPoints, tabV, tabG);
         cachedPoints = refPoints; cachedN = nPoints;
       }
+      // Locals, not closure slots, in the hot loop.
+      const tv = tabV, tg = tabG, u = local;
       const o = c * n;
+      for (let i = 0; i < n; i++) u[i] = coeffs[cellDofs[o + i]];
+      if (dim === 2 && affine) {
+        cellJacobian(mesh, c, refPoints, 0, J, invJ);
+        const i00 = invJ[0], i01 = invJ[1], i10 = invJ[2], i11 = invJ[3];
+        for (let p = 0; p < nPoints; p++) {
+          let v = 0, g0 = 0, g1 = 0;
+          const vo = p * n, go = vo * 2;
+          for (let i = 0; i < n; i++) {
+            const ui = u[i];
+            v += ui * tv[vo + i];
+            g0 += ui * tg[go + 2 * i];
+            g1 += ui * tg[go + 2 * i + 1];
+          }
+          values[p] = v;
+          grads[2 * p] = i00 * g0 + i10 * g1;
+          grads[2 * p + 1] = i01 * g0 + i11 * g1;
+        }
+        return;
+      }
       for (let p = 0; p < nPoints; p++) {
         if (p === 0 || !affine) cellJacobian(mesh, c, refPoints, p * dim, J, invJ);
         let v = 0;
         gref[0] = 0; gref[1] = 0; gref[2] = 0;
         for (let i = 0; i < n; i++) {
-          const u = coeffs[cellDofs[o + i]];
-          v += u * tabV[p * n + i];
-          for (let r = 0; r < dim; r++) gref[r] += u * tabG[(p * n + i) * dim + r];
+          const ui = u[i];
+          v += ui * tv[p * n + i];
+          for (let r = 0; r < dim; r++) gref[r] += ui * tg[(p * n + i) * dim + r];
         }
         values[p] = v;
         for (let d = 0; d < dim; d++) {
