@@ -28,7 +28,10 @@ const BYTES_PER_MIB = 1024 * 1024;
  * - per norm that has interpolation errors on some level: `<norm>_interp_error` error of the nodal interpolant
  * - `quasi_optimality` ||u-u_h||_E / ||u-I_h u||_E (empty when not computed)
  * - `solver_method`, `solver_preconditioner`, `solver_iterations`, `solver_residual` (final relative residual),
- *   `solver_stopped_by` (residual, stopWhen, maxIter, breakdown or direct)
+ *   `solver_stopped_by` (residual, stopWhen — the algebraic error reached its target —, maxIter, breakdown, stagnation
+ *   or direct)
+ * - `algebraic_error` CG's estimate of the energy norm of the algebraic error, `algebraic_target` the bound it had to
+ *   reach (a fraction, default 1e-3, of the interpolation error); empty when not computed
  * - `t_mesh`, `t_assemble`, `t_solve`, `t_errors`, `t_total` wall seconds per phase
  * - `peak_rss_mb` peak resident set size in mebibytes (2^20 bytes), empty when not measured
  * Numbers are written as JavaScript prints them (full precision); NaN and missing values are empty cells;
@@ -52,6 +55,8 @@ export function levelsCsv(result: StudyResult): string {
     'solver_iterations',
     'solver_residual',
     'solver_stopped_by',
+    'algebraic_error',
+    'algebraic_target',
     ...phases.map((p) => `t_${p}`),
     'peak_rss_mb',
   ];
@@ -69,6 +74,8 @@ export function levelsCsv(result: StudyResult): string {
     level.solver?.iterations,
     level.solver?.relativeResidual,
     level.solver?.stoppedBy,
+    level.algebraic?.estimate,
+    level.algebraic?.target,
     ...phases.map((p) => level.seconds[p]),
     level.peakRssBytes === undefined ? undefined : level.peakRssBytes / BYTES_PER_MIB,
   ]);

@@ -40,7 +40,8 @@ export interface PreparedStudy {
   env: LevelEnvironment;
   solver: LevelContext['solver'];
   result: StudyResult;
-  t0: number;
+  /** Seconds spent deriving the PDE data (symbolic differentiation and checks). */
+  prepareSeconds: number;
 }
 
 /** Validates the PDE data and sets up the result; throws RungsInputError for bad input before any level runs. */
@@ -67,7 +68,9 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     startedAt: new Date().toISOString(),
     seconds: 0,
   };
-  return { loaded, problem, norms, expected, total, solver, result, t0, env: { out: opts.out ?? 'reports' } };
+  const prepareSeconds = (performance.now() - t0) / 1e3;
+  result.seconds = prepareSeconds;
+  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out: opts.out ?? 'reports' } };
 }
 
 /** The solver settings a level receives (method, preconditioner, tolerances) from the study's declaration. */
@@ -82,15 +85,17 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
   p.result.levels.push(level);
   p.result.levels.sort((a, b) => a.index - b.index);
-  p.result.seconds = (performance.now() - p.t0) / 1e3;
+  // The study's own compute time (levels may run interleaved with other studies' on a pool).
+  p.result.seconds = p.prepareSeconds + p.result.levels.reduce((s, l) => s + l.seconds.total, 0);
 }
 
 /** Analyses every norm once all levels are in and checks the study's expectation. */
 export function completeStudy(p: PreparedStudy): StudyResult {
+  const t0 = performance.now();
   if (p.problem.exact) finishAnalysis(p.result, p.loaded.declaration, p.problem.exact, p.norms, p.expected);
   p.result.quantities = quantityReports(p.result, p.loaded.declaration);
   p.result.asExpected = expectationMet(p.result);
-  p.result.seconds = (performance.now() - p.t0) / 1e3;
+  p.result.seconds += (performance.now() - t0) / 1e3;
   return p.result;
 }
 

@@ -9,7 +9,7 @@ const DOCUMENTED_LEVEL_COLUMNS = [
   'L2_error', 'L2_rate', 'H1semi_error', 'H1semi_rate',
   'H1semi_interp_error',
   'quasi_optimality',
-  'solver_method', 'solver_preconditioner', 'solver_iterations', 'solver_residual', 'solver_stopped_by',
+  'solver_method', 'solver_preconditioner', 'solver_iterations', 'solver_residual', 'solver_stopped_by', 'algebraic_error', 'algebraic_target',
   't_mesh', 't_assemble', 't_solve', 't_errors', 't_total',
   'peak_rss_mb',
 ];

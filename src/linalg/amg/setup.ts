@@ -10,6 +10,8 @@ import { galerkinProduct } from './galerkin.ts';
 import { smoothedProlongator } from './prolongator.ts';
 import { scanLevel } from './level-scan.ts';
 import { strengthGraph } from './strength.ts';
+import { withoutExactZeros, withoutRoundOff } from './negligible-entries.ts';
+export const X: Record<string, number> = JSON.parse(process.env.AMG_X ?? '{}');
 import type { AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
 
@@ -40,6 +42,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   let R: Csr | null = null;
   for (let l = 0; ; l++) {
     const n = current.nRows;
+    if (l === 0 && !X.keepZeros) current = withoutExactZeros(current);
     const { diagPos, diag, invDiag } = scanLevel(current, l);
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
@@ -47,8 +50,9 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
       r: new Float64Array(onCoarsest ? 0 : n),
     });
     if (onCoarsest) break;
+    if (l === 0 && !X.keepRoundOff) current = withoutRoundOff(current, diag);
 
-    const graph = strengthGraph(current, diag, theta0 * Math.pow(0.5, l));
+    const graph = strengthGraph(current, diag, (X.theta ?? theta0) * Math.pow(X.thetaDecay ?? 0.5, l), !!X.signed);
     const agg = aggregate(current, graph.strong);
     if (agg.count === 0 || agg.count > STALLED_COARSENING * n) {
       notes.push(`coarsening stalled on level ${l} (${n} → ${agg.count} aggregates)`);
@@ -62,7 +66,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     current = galerkinProduct(current, P, R, symmetric);
   }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
-  const hierarchy = { levels, coarse, sweeps, symmetric };
+  const hierarchy = { operator: A, levels, coarse, sweeps, symmetric };
   const nnz0 = A.rowPtr[A.nRows];
   let nnzSum = 0, rowSum = 0;
   for (const L of levels) { nnzSum += L.A.rowPtr[L.A.nRows]; rowSum += L.A.nRows; }

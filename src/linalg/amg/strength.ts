@@ -18,7 +18,7 @@ export interface StrengthGraph {
 /** Smallest filtered diagonal accepted, as a fraction of a_ii. */
 const MIN_FILTERED_DIAGONAL = 0.1;
 
-export function strengthGraph(A: Csr, diag: Float64Array, theta: number): StrengthGraph {
+export function strengthGraph(A: Csr, diag: Float64Array, theta: number, signed = false): StrengthGraph {
   const { nRows: n, rowPtr, colIdx, values } = A;
   const strong = new Uint8Array(values.length);
   const filteredDiag = new Float64Array(n);
@@ -34,7 +34,7 @@ export function strengthGraph(A: Csr, diag: Float64Array, theta: number): Streng
       if (j === i) continue;
       const a = values[k];
       offAll += Math.abs(a);
-      if (a !== 0 && a * a >= cut * Math.abs(diag[j])) { strong[k] = 1; off += Math.abs(a); }
+      if (a !== 0 && (signed ? -a : 1) > 0 && a * a >= cut * Math.abs(diag[j])) { strong[k] = 1; off += Math.abs(a); }
       else dF += a;
     }
     if (offAll > Math.abs(di) * (1 + 1e-12)) dominant = false;

@@ -40,6 +40,8 @@ export type CoarseSolver =
   | { kind: 'gauss-seidel'; sweeps: number };
 
 export interface AmgHierarchy {
+  /** The caller's matrix; the finest level smooths with a copy of it that has the same products. */
+  operator: Csr;
   levels: AmgLevel[];
   coarse: CoarseSolver;
   sweeps: number;

@@ -65,6 +65,6 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
   return {
     name: 'amg',
     apply(r: Float64Array, z: Float64Array): void { cycle(0, r, z); },
-    ...(fused ? { withProduct: { matrix: levels[0].A, apply: cycleWithProduct } } : {}),
+    ...(fused ? { withProduct: { matrix: h.operator, apply: cycleWithProduct } } : {}),
   };
 }
