@@ -2,18 +2,10 @@ import { RungsInputError } from '../errors.ts';
 import { fieldPath, type FieldNames } from './field-names.ts';
 import { SIXTH_ORDER_STEP, centralDerivative6 } from './finite-difference.ts';
 import { DEFAULT_SEED, checkBox, formatPoint, samplePoints, unitBox } from './sample-points.ts';
-import type { BoundingBox, Dim, ScalarFn, VectorFn } from './types.ts';
+import type { BoundingBox, Dim, ManufacturedSolution, ScalarFn, VectorFn } from './types.ts';
 
 /** The functions whose mutual consistency is checked: grad = ∇u and f = −∇·(k∇u) + b·∇u + c·u. */
-export interface ConsistencyInput {
-  dim: Dim;
-  u: ScalarFn;
-  grad: VectorFn;
-  f: ScalarFn;
-  k: ScalarFn;
-  b: VectorFn;
-  c: ScalarFn;
-}
+export type ConsistencyInput = Pick<ManufacturedSolution, 'dim' | 'u' | 'grad' | 'f' | 'k' | 'b' | 'c'>;
 
 export interface ConsistencyOptions {
   /** Where to sample (default [0,1]^dim). */

@@ -1,12 +1,2 @@
-/** Seeded pseudo-random numbers for reproducible tests and start vectors: mulberry32 (Tommy Ettinger, 2017,
- *  public-domain 32-bit generator). Returns a function giving uniform numbers in [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// One seeded generator for the whole project lives in src/mesh/random.ts; linalg re-exports it for its tests.
+export { mulberry32 } from '../mesh/random.ts';
