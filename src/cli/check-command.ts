@@ -49,7 +49,11 @@ export async function checkCommand(paths: string[], flags: CheckFlags): Promise<
   if (baseline && !flags.updateBaseline) {
     const findings = compareAll(results, baseline);
     for (const f of findings) {
-      if (f.severity === 'failure') { regressions++; process.stdout.write(`${f.kind === 'regression' ? 'regression' : 'mismatch'}: ${f.line}\n`); }
+      if (f.kind === 'ladder-mismatch') {
+        // A baseline recorded on another ladder cannot be compared: that is bad input, not a regression.
+        errors.push(f.line);
+        process.stderr.write(`error: ${flags.baseline}: ${f.line}\n`);
+      } else if (f.severity === 'failure') { regressions++; process.stdout.write(`regression: ${f.line}\n`); }
       else if (!flags.quiet) process.stdout.write(`note: ${f.line}\n`);
     }
     process.stdout.write(regressions ? `${regressions} baseline failure${regressions > 1 ? 's' : ''}\n` : 'baseline: no regressions\n');

@@ -61,7 +61,9 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     // Gershgorin is close to ρ(D⁻¹A) on a diagonally dominant finest level (discretised diffusion as an M-matrix:
     // ρ → 2 as h → 0 for the five-point stencil; common practice, no source); elsewhere a Lanczos estimate.
     const lanczos = symmetric && (l > 0 || !graph.diagonallyDominant) ? LANCZOS_STEPS : 0;
-    P = smoothedProlongator(current, graph, agg, lanczos);
+    let pg = graph;
+    if (X.noFilter) { const all = strengthGraph(current, diag, 0, false); pg = all; }
+    P = smoothedProlongator(current, pg, agg, X.lanczosAll ? LANCZOS_STEPS : lanczos);
     R = transpose(P);
     current = galerkinProduct(current, P, R, symmetric);
   }
