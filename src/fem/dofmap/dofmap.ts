@@ -23,7 +23,8 @@ export function buildSpace(mesh: Mesh, el: LagrangeElement): FunctionSpace {
   const ne = el.edges.length;
   const pe = el.perEdge;
   const pi = el.perInterior;
-  const { nEdges, cellEdges } = numberEdges(mesh, el.edges);
+  // Degree 1 has no edge dofs: the edges need not be numbered.
+  const { nEdges, cellEdges } = pe > 0 ? numberEdges(mesh, el.edges) : { nEdges: 0, cellEdges: new Int32Array(0) };
   const edgeBase = nVertices;
   const interiorBase = nVertices + nEdges * pe;
   const nDofs = interiorBase + nCells * pi;
@@ -40,6 +41,8 @@ export function buildSpace(mesh: Mesh, el: LagrangeElement): FunctionSpace {
     for (let j = 0; j < pi; j++) cellDofs[o + vpc + ne * pe + j] = interiorBase + c * pi + j;
   }
   const dim = mesh.dim;
+  // Degree 1: the dofs are the vertices.
+  if (nDofs === nVertices) return { mesh, element: el, nDofs, cellDofs, dofCoords: mesh.coords.slice(), nEdges };
   const dofCoords = new Float64Array(nDofs * dim);
   const x = new Float64Array(3);
   for (let c = 0; c < nCells; c++) {

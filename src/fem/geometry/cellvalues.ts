@@ -46,15 +46,27 @@ const xp = new Float64Array(3);
 export function reinitCell(cv: CellValues, mesh: Mesh, c: number, withGrads = true): void {
   const { nq, n, dim, rule, values: _v, refGrads, grads, x, wdet } = cv;
   const affine = mesh.cellKind !== 'quadrilateral';
+  const pts = rule.points, coords = mesh.coords;
+  const v0 = mesh.cells[c * mesh.verticesPerCell] * dim;
   let det = 0;
   for (let q = 0; q < nq; q++) {
     if (q === 0 || !affine) {
-      det = cellJacobian(mesh, c, rule.points, q * dim, J, invJ);
+      det = cellJacobian(mesh, c, pts, q * dim, J, invJ);
       if (!(det > 0)) throw badCell(mesh, c, det);
     }
     wdet[q] = rule.weights[q] * det;
-    mapReferencePoint(mesh, c, rule.points, q * dim, xp);
-    x[q * 3] = xp[0]; x[q * 3 + 1] = dim > 1 ? xp[1] : 0; x[q * 3 + 2] = dim > 2 ? xp[2] : 0;
+    if (affine) {
+      // x = x0 + J ξ inline (simplices): no call per point.
+      for (let d = 0; d < 3; d++) {
+        if (d >= dim) { x[q * 3 + d] = 0; continue; }
+        let s = coords[v0 + d];
+        for (let r = 0; r < dim; r++) s += J[d * dim + r] * pts[q * dim + r];
+        x[q * 3 + d] = s;
+      }
+    } else {
+      mapReferencePoint(mesh, c, pts, q * dim, xp);
+      x[q * 3] = xp[0]; x[q * 3 + 1] = xp[1]; x[q * 3 + 2] = 0;
+    }
     if (!withGrads) continue;
     const o = q * n * dim;
     for (let i = 0; i < n; i++) {

