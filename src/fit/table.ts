@@ -39,7 +39,8 @@ export interface FitData {
   unused: string[];
 }
 
-const META_COLUMNS = ['level', 'n', 'cells'];
+/** Columns of rungs's own level CSV that are not errors of a norm, though one ends in _error. */
+const META_COLUMNS = ['level', 'n', 'cells', 'algebraic_error', 'algebraic_target', 'quasi_optimality'];
 const ERROR_SUFFIX = '_error';
 const INTERP_SUFFIX = '_interp_error';
 
