@@ -13,16 +13,18 @@ export interface Aggregation {
   count: number;
 }
 
-export function aggregate(A: Csr, strong: Uint8Array): Aggregation {
+export function aggregate(A: Csr, strong: Uint8Array, diag?: Float64Array): Aggregation {
   const { nRows: n, rowPtr, colIdx, values } = A;
   const UNSEEN = -2;
   const aggregateOf = new Int32Array(n).fill(UNSEEN);
   const fromPass1 = new Uint8Array(n);
   let count = 0;
+  const WEAK = -3;
   for (let i = 0; i < n; i++) {
     let hasStrong = false;
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) if (strong[k]) { hasStrong = true; break; }
-    if (!hasStrong) aggregateOf[i] = NOT_AGGREGATED;
+    let off = 0;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) { if (strong[k]) { hasStrong = true; break; } if (colIdx[k] !== i) off += Math.abs(values[k]); }
+    if (!hasStrong) aggregateOf[i] = diag && off > 1e-3 * diag[i] ? WEAK : NOT_AGGREGATED;
   }
   // Pass 1.
   for (let i = 0; i < n; i++) {
@@ -59,6 +61,18 @@ export function aggregate(A: Csr, strong: Uint8Array): Aggregation {
       if (strong[k] && aggregateOf[colIdx[k]] === UNSEEN) aggregateOf[colIdx[k]] = count;
     }
     count++;
+  }
+  // Pass 4: weakly coupled nodes join the aggregate of their largest coupling, or found a singleton.
+  for (let i = 0; i < n; i++) {
+    if (aggregateOf[i] !== WEAK) continue;
+    let best = -1, bestValue = 0;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+      const j = colIdx[k];
+      if (j === i || aggregateOf[j] < 0) continue;
+      const v = Math.abs(values[k]) / Math.sqrt(diag![j]);
+      if (v > bestValue) { bestValue = v; best = aggregateOf[j]; }
+    }
+    aggregateOf[i] = best >= 0 ? best : count++;
   }
   return { aggregateOf, count };
 }

@@ -19,7 +19,7 @@ export function smoothedProlongator(A: Csr, graph: StrengthGraph, agg: Aggregati
 
   let rho = graph.gershgorinBound;
   if (lanczosSteps > 0) rho = lanczosSpectralRadius(A, strong, dF, lanczosSteps, rho);
-  const omega = 4 / (3 * rho);
+  const omega = (Number(process.env.AMG_OMEGA ?? 4 / 3)) / rho;
 
   // Row i: t_i(1 − ω) on agg(i), −ω a_ij t_j / a^F_ii on agg(j) for strong j. A row has at most nnz(row i of A)
   // entries and only a few in practice, so it is kept sorted by insertion as it grows.

@@ -53,7 +53,8 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     if (l === 0 && !X.keepRoundOff) current = withoutRoundOff(current, diag);
 
     const graph = strengthGraph(current, diag, (X.theta ?? theta0) * Math.pow(X.thetaDecay ?? 0.5, l), !!X.signed);
-    const agg = aggregate(current, graph.strong);
+    const agg = aggregate(current, graph.strong, X.weakJoin ? diag : undefined);
+    if (X.dbg) { let u = 0; for (let i = 0; i < n; i++) if (agg.aggregateOf[i] < 0) u++; console.log('level', l, 'n', n, 'unaggregated', u, 'aggs', agg.count); }
     if (agg.count === 0 || agg.count > STALLED_COARSENING * n) {
       notes.push(`coarsening stalled on level ${l} (${n} → ${agg.count} aggregates)`);
       break;
