@@ -13,7 +13,7 @@ export type { DiscreteField, ExactSolution } from './norms/types.ts';
 export { lagrangeSpace } from './fem/dofmap/dofmap.ts';
 export { assembleSystem, expandSolution } from './fem/assemble/system.ts';
 export { solveLagrange } from './fem/discretizations/lagrange.ts';
-export { lagrangeField, interpolate } from './norms/lagrange-field.ts';
+export { lagrangeField, interpolate } from './fem/field/lagrange-field.ts';
 export { errorNorms } from './norms/errors.ts';
 export { solveSystem } from './linalg/index.ts';
 export { ruleFor } from './fem/quadrature/index.ts';

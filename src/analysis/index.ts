@@ -25,3 +25,4 @@ export {
   type GciResult,
   type ConvergenceKind,
 } from './gci.ts';
+export { analyseQuantity, type QuantityReport, type QuantityOptions } from './quantities.ts';

@@ -1,7 +1,7 @@
 // One level of an external discretization, end to end: prepare the level folder, run the solver, read its output
 // back, and (for a VTK solution) integrate the errors with src/norms like any rungs field.
 import { errorNorms, type ErrorOptions } from '../norms/errors.ts';
-import { interpolate, lagrangeField } from '../norms/lagrange-field.ts';
+import { interpolate, lagrangeField } from '../fem/field/lagrange-field.ts';
 import type { ExactSolution, NormValues } from '../norms/types.ts';
 import type { LevelResult } from '../study/result.ts';
 import { runLevelCommand, showArgv } from './command.ts';

@@ -10,7 +10,7 @@ import type { LevelResult, StudyResult } from '../study/result.ts';
 import { packageVersions } from '../study/versions.ts';
 import { parseCsvTable } from './csv.ts';
 import { expectationFor, parseExpectations, type Expectations } from './expectations.ts';
-import { analyseQuantity, type QuantityReport } from './quantities.ts';
+import { analyseQuantity, type QuantityReport } from '../analysis/quantities.ts';
 import { readFitData, type ColumnChoice } from './table.ts';
 
 export interface FitOptions extends ColumnChoice {

@@ -1,4 +1,4 @@
-import type { QuantityReport } from './quantities.ts';
+import type { QuantityReport } from '../analysis/quantities.ts';
 
 export interface QuantityTerminalOptions {
   /** ANSI colour (the CLI passes false when NO_COLOR is set or stdout is not a TTY). */

@@ -1,3 +1,3 @@
 export type { DiscreteField, ExactSolution, NormValues } from './types.ts';
-export { lagrangeField, interpolate } from './lagrange-field.ts';
+export { lagrangeField, interpolate } from '../fem/field/lagrange-field.ts';
 export { errorNorms, exactNorms, ERROR_RULE_EXTRA } from './errors.ts';

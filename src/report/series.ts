@@ -30,8 +30,4 @@ export function interpolatedNorms(result: StudyResult): string[] {
   );
 }
 
-/** A file-name-safe form of a study name: letters, digits, '.', '_' and '-' kept, anything else '-'. */
-export function fileStem(study: string): string {
-  const stem = study.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^[.-]+/, '');
-  return stem === '' ? 'study' : stem;
-}
+export { fileStem } from '../study/names.ts';

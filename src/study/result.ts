@@ -1,6 +1,6 @@
 import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
-import type { QuantityReport } from '../fit/quantities.ts';
+import type { QuantityReport } from '../analysis/quantities.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 

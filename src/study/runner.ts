@@ -9,8 +9,8 @@ import { runLevel } from './level.ts';
 import { packageVersions } from './versions.ts';
 import type { LoadedStudy } from './load.ts';
 import type { LevelContext } from './context.ts';
-import { analyseQuantity } from '../fit/quantities.ts';
-import type { QuantityReport } from '../fit/quantities.ts';
+import { analyseQuantity } from '../analysis/quantities.ts';
+import type { QuantityReport } from '../analysis/quantities.ts';
 import type { LevelEnvironment } from './level.ts';
 
 export const DEFAULT_NORMS: NormName[] = ['L2', 'H1semi'];

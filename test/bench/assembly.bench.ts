@@ -5,7 +5,7 @@ import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { assembleSystem, expandSolution } from '../../src/fem/assemble/system.ts';
 import { manufacture } from '../../src/exact/index.ts';
 import { solveSystem } from '../../src/linalg/index.ts';
-import { lagrangeField } from '../../src/norms/lagrange-field.ts';
+import { lagrangeField } from '../../src/fem/field/lagrange-field.ts';
 import { errorNorms } from '../../src/norms/errors.ts';
 
 const ms = manufacture({ dim: 2, u: 'sin(pi*x) * sin(pi*y)' });

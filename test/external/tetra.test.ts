@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { errorNorms, exactNorms } from '../../src/norms/errors.ts';
-import { interpolate, lagrangeField } from '../../src/norms/lagrange-field.ts';
+import { interpolate, lagrangeField } from '../../src/fem/field/lagrange-field.ts';
 import type { ExactSolution } from '../../src/norms/types.ts';
 import { kuhnCubeMesh } from './cube-mesh.ts';
 

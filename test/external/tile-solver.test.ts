@@ -8,7 +8,7 @@ import { runLevelsInParallel } from '../../src/external/command.ts';
 import { externalLevelResult, runExternalLevel } from '../../src/external/level.ts';
 import { levelFolder } from '../../src/external/output.ts';
 import { external, type ExternalLevelRun } from '../../src/external/types.ts';
-import { analyseQuantity } from '../../src/fit/quantities.ts';
+import { analyseQuantity } from '../../src/analysis/quantities.ts';
 import type { ExactSolution } from '../../src/norms/types.ts';
 
 const solver = join(import.meta.dirname, '..', '..', 'examples', 'external', 'tile_solver.py');

@@ -4,7 +4,7 @@ import { intervalMesh } from '../../src/mesh/interval.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
 import { errorNorms } from '../../src/norms/errors.ts';
-import { interpolate, lagrangeField } from '../../src/norms/lagrange-field.ts';
+import { interpolate, lagrangeField } from '../../src/fem/field/lagrange-field.ts';
 import type { ExactSolution } from '../../src/norms/types.ts';
 import { parseLegacyVtk } from '../../src/external/vtk/legacy.ts';
 import { parseVtu } from '../../src/external/vtk/vtu.ts';

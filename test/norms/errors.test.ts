@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
-import { lagrangeField, interpolate } from '../../src/norms/lagrange-field.ts';
+import { lagrangeField, interpolate } from '../../src/fem/field/lagrange-field.ts';
 import { errorNorms } from '../../src/norms/errors.ts';
 import { manufacture } from '../../src/exact/index.ts';
 

@@ -9,7 +9,7 @@ import type { FunctionSpace } from '../../fem/dofmap/types.ts';
 import { mapReferencePoint } from '../../fem/geometry/map.ts';
 import { meshFromArrays } from '../../mesh/from-arrays.ts';
 import { CELL_DIM, type Mesh } from '../../mesh/types.ts';
-import { lagrangeField } from '../../norms/lagrange-field.ts';
+import { lagrangeField } from '../../fem/field/lagrange-field.ts';
 import type { DiscreteField } from '../../norms/types.ts';
 import { tetrahedronBoundaryFacets } from '../tetra-facets.ts';
 import { placeOf, type LevelRef } from '../where.ts';

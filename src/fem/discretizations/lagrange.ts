@@ -5,8 +5,8 @@ import { lagrangeSpace } from '../dofmap/dofmap.ts';
 import type { FunctionSpace } from '../dofmap/types.ts';
 import { assembleSystem, expandSolution, type AssembledSystem } from '../assemble/system.ts';
 import type { BoundarySpec, FormCoefficients, QuadratureDegrees } from '../assemble/types.ts';
-import { lagrangeField } from '../../norms/lagrange-field.ts';
-import type { DiscreteField } from '../../norms/types.ts';
+import { lagrangeField } from '../field/lagrange-field.ts';
+import type { DiscreteField } from '../field/types.ts';
 
 export interface LagrangeSolveInput {
   mesh: Mesh;

@@ -1,7 +1,7 @@
-import type { FunctionSpace } from '../fem/dofmap/types.ts';
-import { cellJacobian } from '../fem/geometry/jacobian.ts';
+import type { FunctionSpace } from '../dofmap/types.ts';
+import { cellJacobian } from '../geometry/jacobian.ts';
 import type { DiscreteField } from './types.ts';
-import type { ScalarFn } from '../fem/assemble/types.ts';
+import type { ScalarFn } from '../assemble/types.ts';
 
 /** The finite element function Σ U_i φ_i of a Lagrange space. */
 export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {

@@ -3,9 +3,9 @@
 // with Roache's safety factors (1998: 1.25 for three or more grids; 3 for two grids with an assumed order).
 import { RungsInputError } from '../errors.ts';
 import {
-  gciTwoGrids, gridConvergenceIndex, MIN_REFINEMENT_RATIO, richardsonExtrapolate, SAFETY_FACTOR_THREE_GRIDS, SAFETY_FACTOR_TWO_GRIDS,
-  type ConvergenceKind,
-} from '../analysis/index.ts';
+  gciTwoGrids, gridConvergenceIndex, MIN_REFINEMENT_RATIO, SAFETY_FACTOR_THREE_GRIDS, SAFETY_FACTOR_TWO_GRIDS, type ConvergenceKind,
+} from './gci.ts';
+import { richardsonExtrapolate } from './richardson.ts';
 
 export interface QuantityReport {
   name: string;
