@@ -50,6 +50,12 @@ describe('rungs check', () => {
     expect(shorter.status).toBe(2);
     expect(shorter.err).toMatch(/tile-p1  ladder  3 levels vs baseline 5 levels/);
   }, 90_000);
+  it('--quick runs only the coarsest levels that still give a fit (3 unless the study says)', () => {
+    const q = join(dir, 'quick');
+    const r = rungs('check', STUDY, '--quick', '--out', q);
+    expect(r.status).toBe(0);
+    expect(readFileSync(join(q, 'tile-p1.csv'), 'utf8').trim().split('\n')).toHaveLength(4);
+  }, 60_000);
   it('an unwritable output folder is bad input (exit 2)', () => {
     const ro = join(dir, 'ro');
     mkdirSync(ro);
