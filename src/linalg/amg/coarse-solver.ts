@@ -13,7 +13,7 @@ export const COARSE_SWEEPS = 20;
 
 export function buildCoarseSolver(A: Csr, symmetric: boolean, notes: string[]): CoarseSolver {
   const n = A.nRows;
-  if (n > (Number(process.env.AMG_MAXDENSE) || MAX_DENSE_COARSE)) {
+  if (n > MAX_DENSE_COARSE) {
     notes.push(`coarsest level has ${n} unknowns (> ${MAX_DENSE_COARSE}); it is smoothed by ${COARSE_SWEEPS} symmetric ` +
       'Gauss–Seidel sweep pairs instead of a direct solve, so convergence may suffer');
     return { kind: 'gauss-seidel', sweeps: COARSE_SWEEPS };

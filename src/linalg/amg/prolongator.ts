@@ -14,41 +14,50 @@ export function smoothedProlongator(A: Csr, graph: StrengthGraph, agg: Aggregati
   // Tentative prolongator values 1/√|aggregate|.
   const size = new Float64Array(count);
   for (let i = 0; i < n; i++) if (aggregateOf[i] >= 0) size[aggregateOf[i]]++;
+  for (let a = 0; a < count; a++) size[a] = 1 / Math.sqrt(size[a]);
   const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) if (aggregateOf[i] >= 0) t[i] = 1 / Math.sqrt(size[aggregateOf[i]]);
+  for (let i = 0; i < n; i++) if (aggregateOf[i] >= 0) t[i] = size[aggregateOf[i]];
 
   let rho = graph.gershgorinBound;
   if (lanczosSteps > 0) rho = lanczosSpectralRadius(A, strong, dF, lanczosSteps, rho);
-  const omega = (Number(process.env.AMG_OMEGA ?? 4 / 3)) / rho;
+  const omega = 4 / (3 * rho);
 
-  // Row i: t_i(1 − ω) on agg(i), −ω a_ij t_j / a^F_ii on agg(j) for strong j. A row has at most nnz(row i of A)
-  // entries and only a few in practice, so it is kept sorted by insertion as it grows.
+  // Row i: t_i(1 − ω) on agg(i), −ω a_ij t_j / a^F_ii on agg(j) for strong j. slot[a] is the position of aggregate
+  // a in the row being built, valid while owner[a] is that row.
+  const owner = new Int32Array(count).fill(-1);
+  const slot = new Int32Array(count);
   const pPtr = new Int32Array(n + 1);
-  const pCol = new Int32Array(rowPtr[n]);
-  const pVal = new Float64Array(rowPtr[n]);
+  // At most one entry per strong coupling plus one per row; the result is a view of these arrays (see galerkin.ts).
+  const cap = n + graph.strongCount;
+  const pCol = new Int32Array(cap);
+  const pVal = new Float64Array(cap);
   let nnz = 0;
   for (let i = 0; i < n; i++) {
-    const rowStart = nnz;
     const ai = aggregateOf[i];
+    const lo = rowPtr[i], hi = rowPtr[i + 1];
     if (ai >= 0) {
+      const rowStart = nnz;
       const scale = -omega / dF[i];
+      owner[ai] = i; slot[ai] = nnz;
       pCol[nnz] = ai; pVal[nnz] = t[i] * (1 - omega); nnz++;
-      for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+      for (let k = lo; k < hi; k++) {
         if (!strong[k]) continue;
         const j = colIdx[k];
         const aj = aggregateOf[j];
         if (aj < 0) continue;
         const v = scale * values[k] * t[j];
-        let p = nnz - 1;
-        while (p >= rowStart && pCol[p] > aj) p--;
-        if (p >= rowStart && pCol[p] === aj) pVal[p] += v;
-        else {
-          for (let s = nnz; s > p + 1; s--) { pCol[s] = pCol[s - 1]; pVal[s] = pVal[s - 1]; }
-          pCol[p + 1] = aj; pVal[p + 1] = v; nnz++;
-        }
+        if (owner[aj] === i) pVal[slot[aj]] += v;
+        else { owner[aj] = i; slot[aj] = nnz; pCol[nnz] = aj; pVal[nnz] = v; nnz++; }
+      }
+      // Insertion sort: a row holds a handful of aggregates.
+      for (let p = rowStart + 1; p < nnz; p++) {
+        const c = pCol[p], v = pVal[p];
+        let q = p - 1;
+        while (q >= rowStart && pCol[q] > c) { pCol[q + 1] = pCol[q]; pVal[q + 1] = pVal[q]; q--; }
+        pCol[q + 1] = c; pVal[q + 1] = v;
       }
     }
     pPtr[i + 1] = nnz;
   }
-  return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: pCol.slice(0, nnz), values: pVal.slice(0, nnz) };
+  return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: pCol.subarray(0, nnz), values: pVal.subarray(0, nnz) };
 }

@@ -35,6 +35,25 @@ export function forwardSweepFromZeroWithResidual(
   }
 }
 
+/** Forward sweep from any x that also leaves r = b − A x, for symmetric A. With δ_j the correction of row j, after
+ *  the sweep r_i = −Σ_{j>i} a_ij δ_j (row i was solved exactly when the rows above it still held their old values),
+ *  and row j scatters −a_ji δ_j into r_i along its lower part once δ_j is known. */
+export function forwardSweepWithResidual(
+  A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, r: Float64Array,
+): void {
+  const { nRows: n, rowPtr, colIdx, values } = A;
+  for (let i = 0; i < n; i++) {
+    const lo = rowPtr[i], d = diagPos[i];
+    let s = b[i];
+    for (let k = rowPtr[i + 1] - 1; k >= d; k--) s -= values[k] * x[colIdx[k]];
+    for (let k = lo; k < d; k++) s -= values[k] * x[colIdx[k]];
+    const delta = s * invDiag[i];
+    x[i] += delta;
+    r[i] = 0;
+    for (let k = lo; k < d; k++) r[colIdx[k]] -= values[k] * delta;
+  }
+}
+
 /** One forward Gauss–Seidel sweep: x_i += (b_i − (A x)_i) / a_ii in increasing i. */
 export function forwardSweep(A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array): void {
   const { nRows: n, rowPtr, colIdx, values } = A;
@@ -106,9 +125,11 @@ export function restrict(R: Csr, r: Float64Array, bc: Float64Array): void {
 /** x += P xc. */
 export function prolongAndAdd(P: Csr, xc: Float64Array, x: Float64Array): void {
   const { nRows: n, rowPtr, colIdx, values } = P;
+  let k = rowPtr[0];
   for (let i = 0; i < n; i++) {
-    let s = 0;
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s += values[k] * xc[colIdx[k]];
-    x[i] += s;
+    const end = rowPtr[i + 1];
+    let s = x[i];
+    for (; k < end; k++) s += values[k] * xc[colIdx[k]];
+    x[i] = s;
   }
 }

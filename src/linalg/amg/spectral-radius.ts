@@ -1,6 +1,7 @@
 /** Estimate of ρ(D_F⁻¹A_F) for the filtered matrix A_F of smoothed aggregation (strong off-diagonal entries of a
- *  symmetric A, diagonal dF) by a few Lanczos steps on the similar symmetric matrix D_F^{-1/2} A_F D_F^{-1/2} (Lanczos 1950; Saad 2003, Iterative Methods for Sparse Linear Systems, §6.6). The largest Ritz
- *  value approaches λ_max from below, so the estimate is inflated slightly and capped by Gershgorin's bound. */
+ *  symmetric A, diagonal dF) by a few Lanczos steps on the similar symmetric matrix D_F^{-1/2} A_F D_F^{-1/2}
+ *  (Lanczos 1950; Saad 2003, Iterative Methods for Sparse Linear Systems, §6.6). The largest Ritz value approaches
+ *  λ_max from below, so the estimate is inflated slightly and capped by Gershgorin's bound. */
 import { mulberry32 } from '../random.ts';
 import type { Csr } from '../types.ts';
 
@@ -10,16 +11,11 @@ export function lanczosSpectralRadius(
   const n = A.nRows;
   const k = Math.min(steps, n);
   const { rowPtr, colIdx, values } = A;
-  // Entries of D_F^{-1/2} A_F D_F^{-1/2}, so every Lanczos step is a plain sparse product.
+  // B = D_F^{-1/2} A_F D_F^{-1/2} is applied as s ⊙ (A_F (s ⊙ v)), s = D_F^{-1/2}, with A_F read from A through the
+  // strong mask: no copy of the matrix (on the finest level a copy would cost more than the four products).
   const s = new Float64Array(n);
   for (let i = 0; i < n; i++) s[i] = dF[i] > 0 ? 1 / Math.sqrt(dF[i]) : 0;
-  const scaled = new Float64Array(values.length);
-  for (let i = 0; i < n; i++) {
-    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) {
-      const j = colIdx[p];
-      scaled[p] = j === i ? dF[i] * s[i] * s[i] : strong[p] ? values[p] * s[i] * s[j] : 0;
-    }
-  }
+  const u = new Float64Array(n);
   const rand = mulberry32(0x5eed);
   let v = new Float64Array(n);
   let vPrev = new Float64Array(n);
@@ -27,7 +23,7 @@ export function lanczosSpectralRadius(
   let nrm = 0;
   for (let i = 0; i < n; i++) { v[i] = rand() - 0.5; nrm += v[i] * v[i]; }
   nrm = Math.sqrt(nrm);
-  for (let i = 0; i < n; i++) v[i] /= nrm;
+  for (let i = 0; i < n; i++) { v[i] /= nrm; u[i] = s[i] * v[i]; }
   const alpha = new Float64Array(k);
   const beta = new Float64Array(k);
   let m = 0;
@@ -36,9 +32,9 @@ export function lanczosSpectralRadius(
     // w = B v − β_{j−1} v_{j−1}, α_j = w·v
     let a = 0;
     for (let i = 0; i < n; i++) {
-      let acc = 0;
-      for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) acc += scaled[p] * v[colIdx[p]];
-      const wi = acc - betaPrev * vPrev[i];
+      let acc = dF[i] * u[i];
+      for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) if (strong[p]) acc += values[p] * u[colIdx[p]];
+      const wi = s[i] * acc - betaPrev * vPrev[i];
       w[i] = wi;
       a += wi * v[i];
     }
@@ -51,7 +47,7 @@ export function lanczosSpectralRadius(
     if (!(b > 1e-12 * Math.abs(a))) break;
     const t = vPrev; vPrev = v; v = t;
     const inv = 1 / b;
-    for (let i = 0; i < n; i++) v[i] = w[i] * inv;
+    for (let i = 0; i < n; i++) { const vi = w[i] * inv; v[i] = vi; u[i] = s[i] * vi; }
     betaPrev = b;
   }
   const lmax = largestTridiagonalEigenvalue(alpha, beta, m);

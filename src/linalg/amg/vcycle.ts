@@ -1,21 +1,24 @@
-/** The multigrid V-cycle as a preconditioner: z = B r with B one V-cycle from a zero initial guess.
+/** The multigrid cycle as a preconditioner: z = B r with B one cycle from a zero initial guess.
  *  Pre-smoothing by forward and post-smoothing by backward Gauss–Seidel (symmetric B for symmetric A), restriction
- *  R = Pᵀ, prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2).
- *  For symmetric A with one sweep the pre-smoother also yields the residual from the lower triangle alone, and on the
- *  finest level the post-smoother also yields A z, which CG uses instead of its own product (withProduct). */
+ *  R = Pᵀ, prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2). A level with
+ *  coarseVisits = 2 cycles its coarser level twice (the W-cycle, γ = 2 in Hackbusch 1985, Multi-Grid Methods and
+ *  Applications, §2.4, from memory); the setup does that below the first coarse level only, where it is cheap.
+ *  For symmetric A the last pre-smoothing sweep also yields the residual from one pass over the matrix, and on the
+ *  finest level the last post-smoothing sweep also yields A z, which CG uses instead of its own product
+ *  (withProduct) when that product is exactly the caller's (see FinestOperator.exactProducts). Nothing is
+ *  allocated per cycle. */
 import { spmv as spmvInto } from '../csr.ts';
 import type { Preconditioner } from '../types.ts';
 import {
   backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual,
-  prolongAndAdd, residualInto, restrict,
+  forwardSweepWithResidual, prolongAndAdd, residualInto, restrict,
 } from './smoother.ts';
-import type { AmgHierarchy } from './types.ts';
+import type { AmgHierarchy, AmgLevel } from './types.ts';
 
-const XX: Record<string, number> = JSON.parse(process.env.AMG_X ?? '{}');
 export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
-  const { levels, coarse, sweeps, symmetric } = h;
+  const { levels, coarse, symmetric } = h;
   const last = levels.length - 1;
-  const fused = symmetric && sweeps === 1;
+  const visits = levels.map((L) => L.coarseVisits);
 
   const solveCoarsest = (b: Float64Array, x: Float64Array): void => {
     const L = levels[last];
@@ -29,32 +32,45 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
     } else coarse.factor.solve(b, x);
   };
 
+  /** x = S b from x = 0 with S the forward sweeps of level L, and L.r = b − A x. */
+  const preSmooth = (L: AmgLevel, b: Float64Array, x: Float64Array): void => {
+    const { A, diagPos, invDiag, sweeps } = L;
+    if (symmetric && sweeps === 1) { forwardSweepFromZeroWithResidual(A, diagPos, invDiag, b, x, L.r); return; }
+    forwardSweepFromZero(A, diagPos, invDiag, b, x);
+    if (symmetric) {
+      for (let s = 2; s < sweeps; s++) forwardSweep(A, diagPos, invDiag, b, x);
+      forwardSweepWithResidual(A, diagPos, invDiag, b, x, L.r);
+    } else {
+      for (let s = 1; s < sweeps; s++) forwardSweep(A, diagPos, invDiag, b, x);
+      residualInto(A, b, x, L.r);
+    }
+  };
+
+  /** Restriction of L.r, the cycle below (twice on the cheap levels: a W-cycle there), and the correction added
+   *  to x. The second visit iterates on the coarse residual, x_c += B_c (b_c − A_c x_c); two steps of a symmetric
+   *  iteration are again a symmetric operator, so B stays a valid CG preconditioner. */
+  const coarseCorrection = (l: number, x: Float64Array): void => {
+    const C = levels[l + 1];
+    restrict(C.R!, levels[l].r, C.b);
+    cycle(l + 1, C.b, C.x);
+    if (visits[l] > 1) {
+      residualInto(C.A, C.b, C.x, C.rc);
+      cycle(l + 1, C.rc, C.dx);
+      const cx = C.x, dx = C.dx;
+      for (let i = 0; i < cx.length; i++) cx[i] += dx[i];
+    }
+    prolongAndAdd(C.P!, C.x, x);
+  };
+
   const cycle = (l: number, b: Float64Array, x: Float64Array): void => {
     if (l === last) { solveCoarsest(b, x); return; }
     const L = levels[l];
-    const C = levels[l + 1];
-    const sw = l > 0 ? (XX.cs ?? sweeps) : sweeps;
-    if (fused && sw === 1) forwardSweepFromZeroWithResidual(L.A, L.diagPos, L.invDiag, b, x, L.r);
-    else {
-      forwardSweepFromZero(L.A, L.diagPos, L.invDiag, b, x);
-      for (let s = 1; s < sw; s++) forwardSweep(L.A, L.diagPos, L.invDiag, b, x);
-      residualInto(L.A, b, x, L.r);
-    }
-    restrict(C.R!, L.r, C.b);
-    cycle(l + 1, C.b, C.x);
-    prolongAndAdd(C.P!, C.x, x);
-    if (l > 0 && XX.w && l + 1 < last) {
-      // second coarse visit (W-cycle): residual, restrict, correct
-      residualInto(L.A, b, x, L.r);
-      restrict(C.R!, L.r, C.b);
-      C.x.fill(0);
-      cycle(l + 1, C.b, C.x);
-      prolongAndAdd(C.P!, C.x, x);
-    }
-    for (let s = 0; s < sw; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
+    preSmooth(L, b, x);
+    coarseCorrection(l, x);
+    for (let s = 0; s < L.sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
   };
 
-  /** The finest level of cycle(), ending with the backward sweep that also forms A z. */
+  /** cycle(0, …) ending with the backward sweep that also forms A z (symmetric A only). */
   const cycleWithProduct = (b: Float64Array, x: Float64Array, w: Float64Array): number => {
     const L = levels[0];
     if (last === 0) {
@@ -64,17 +80,15 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
       for (let i = 0; i < x.length; i++) bx += b[i] * x[i];
       return bx;
     }
-    const C = levels[1];
-    forwardSweepFromZeroWithResidual(L.A, L.diagPos, L.invDiag, b, x, L.r);
-    restrict(C.R!, L.r, C.b);
-    cycle(1, C.b, C.x);
-    prolongAndAdd(C.P!, C.x, x);
+    preSmooth(L, b, x);
+    coarseCorrection(0, x);
+    for (let s = 1; s < L.sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
     return backwardSweepWithProduct(L.A, L.diagPos, L.invDiag, b, x, w);
   };
 
   return {
     name: 'amg',
     apply(r: Float64Array, z: Float64Array): void { cycle(0, r, z); },
-    ...(fused ? { withProduct: { matrix: h.operator, apply: cycleWithProduct } } : {}),
+    ...(symmetric && h.exactProducts ? { withProduct: { matrix: h.operator, apply: cycleWithProduct } } : {}),
   };
 }
