@@ -4,7 +4,7 @@
  *  Templates for the Solution of Linear Systems, Fig. 2.10 (numbering from memory). */
 import { spmv } from './csr.ts';
 import {
-  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, stagnationWatch, zeroRhsStats,
+  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
 import { dot } from './vector.ts';
@@ -38,10 +38,8 @@ export function bicgstab(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: S
   let rel: number;
   if (isAllZero(x)) { r.set(b); rel = 1; } else rel = trueResidual();
   if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
-  const stats = (iterations: number, stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string): SolveStats => ({
-    method, preconditioner: M.name, iterations, relativeResidual: rel, converged, stoppedBy,
-    solveSeconds: (performance.now() - t0) / 1000, ...(message ? { message } : {}),
-  });
+  const stats = (iterations: number, stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string): SolveStats =>
+    solveStats(method, M.name, t0, iterations, rel, stoppedBy, converged, message);
   if (rel <= relTol) return stats(0, 'residual', true);
 
   const stagnated = stagnationWatch();

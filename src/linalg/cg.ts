@@ -5,7 +5,7 @@
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { assertFiniteMatrix, isSymmetric } from './csr.ts';
 import {
-  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, stagnationWatch, zeroRhsStats,
+  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
 import { dot } from './vector.ts';
@@ -169,10 +169,7 @@ function finish(
   t: { t0: number; method: string; M: string }, iterations: number, relativeResidual: number,
   stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string,
 ): SolveStats {
-  return {
-    method: t.method, preconditioner: t.M, iterations, relativeResidual, converged, stoppedBy,
-    solveSeconds: (performance.now() - t.t0) / 1000, ...(message ? { message } : {}),
-  };
+  return solveStats(t.method, t.M, t.t0, iterations, relativeResidual, stoppedBy, converged, message);
 }
 
 /** r = b − A x; returns ||r||. */
@@ -216,14 +213,6 @@ function updateIterate(alpha: number, p: Float64Array, q: Float64Array, x: Float
   return rr;
 }
 
-/** z = M⁻¹ r, p = z; returns r·z. */
-function restartDirection(M: { apply(r: Float64Array, z: Float64Array): void }, r: Float64Array, z: Float64Array, p: Float64Array): number {
-  M.apply(r, z);
-  p.set(z);
-  let rz = 0;
-  for (let i = 0; i < r.length; i++) rz += r[i] * z[i];
-  return rz;
-}
 
 /** max_i Σ_j |a_ij|, a cheap scale for the curvature test. */
 function infinityNorm(A: Csr): number {

@@ -5,7 +5,7 @@
 import { RungsInputError } from '../errors.ts';
 import { spmv } from './csr.ts';
 import {
-  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, stagnationWatch, zeroRhsStats,
+  SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
 
@@ -62,10 +62,8 @@ export function gmres(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: Solv
   const r = V[0];
   let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(r);
   if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
-  const stats = (iterations: number, stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string): SolveStats => ({
-    method, preconditioner: M.name, iterations, relativeResidual: rel, converged, stoppedBy,
-    solveSeconds: (performance.now() - t0) / 1000, ...(message ? { message } : {}),
-  });
+  const stats = (iterations: number, stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string): SolveStats =>
+    solveStats(method, M.name, t0, iterations, rel, stoppedBy, converged, message);
   if (rel <= relTol) return stats(0, 'residual', true);
 
   const stagnated = stagnationWatch();

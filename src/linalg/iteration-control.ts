@@ -70,6 +70,17 @@ export function nonFiniteError(method: string, iteration: number, what: string):
   );
 }
 
+/** The statistics record every iterative solver returns. */
+export function solveStats(
+  method: string, preconditioner: string, t0: number, iterations: number, relativeResidual: number,
+  stoppedBy: SolveStats['stoppedBy'], converged: boolean, message?: string,
+): SolveStats {
+  return {
+    method, preconditioner, iterations, relativeResidual, converged, stoppedBy,
+    solveSeconds: (performance.now() - t0) / 1000, ...(message ? { message } : {}),
+  };
+}
+
 /** Stats for the trivial solve b = 0 (x = 0 exactly). */
 export function zeroRhsStats(method: string, M: Preconditioner, x: Float64Array, t0: number): SolveStats {
   x.fill(0);

@@ -24,8 +24,6 @@ function interpolantField(mesh: Mesh, degree: number, u: (x: number, y: number, 
   return lagrangeField(sp, interpolate(sp, u));
 }
 
-const spaceOf = new WeakMap<DiscreteField, FunctionSpace>();
-const sameSpace = (f: DiscreteField) => spaceOf.get(f) ?? null;
 
 /** Cells sampled for the interpolation-error estimate that sets the solver target (every cell below this). */
 const TARGET_SAMPLE_CELLS = 50_000;
@@ -104,6 +102,8 @@ async function runLevelUnguarded(
   let interp: NormValues | null = null;
   let tie: AlgebraicTie | null = null;
   let tInterp = 0;
+  // The built-in discretization's own space, reused for the interpolant.
+  let solvedSpace: FunctionSpace | null = null;
   if (disc.kind === 'lagrange') {
     const tSpace0 = performance.now();
     const space = lagrangeSpace(mesh, disc.degree);
@@ -127,7 +127,7 @@ async function runLevelUnguarded(
     }
     const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, space, solver: { ...solver, stopWhen } });
     field = sol.field;
-    spaceOf.set(field, sol.space);
+    solvedSpace = sol.space;
     stats = sol.solver;
     tAssemble = tSpace + sol.seconds.assemble;
     tSolve = sol.seconds.solve;
@@ -146,7 +146,7 @@ async function runLevelUnguarded(
   // The nodal interpolant I_h u is measured in the same pass: the best-approximation reference of Céa's lemma.
   const degree = disc.degree;
   const withInterp = !interp && degree !== undefined && degree > 0 && mesh.cellKind !== 'tetrahedron';
-  const interpField = withInterp ? interpolantField(mesh, degree, exact.u, disc.kind === 'lagrange' ? sameSpace(field) : null) : null;
+  const interpField = withInterp ? interpolantField(mesh, degree, exact.u, solvedSpace) : null;
   const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, errOpts);
   if (interpErrs) interp = interpErrs;
   const tErrors = seconds(t) + tInterp;
