@@ -42,8 +42,9 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
   if (bNorm === 0) return zeroRhsStats(method, M, x, t0);
 
   const n = A.nRows;
-  const r = new Float64Array(n);
-  const z = new Float64Array(n);
+  const vector = (): Float64Array => (M.vector ? M.vector(n) : new Float64Array(n));
+  const r = vector();
+  const z = vector();
   const p = new Float64Array(n);
   const q = new Float64Array(n);
   const t = { t0, method, M: M.name };
@@ -54,7 +55,7 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
 
   const stagnated = stagnationWatch();
   const fusedM = M.withProduct && M.withProduct.matrix === A ? M.withProduct : null;
-  const w = fusedM ? new Float64Array(n) : q;
+  const w = fusedM ? vector() : q;
   let replacements = 0;
   let sinceProduct = 0;
   let rz = 0, pq = 0;

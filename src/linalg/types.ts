@@ -14,6 +14,10 @@ export interface Preconditioner {
   /** Optional fused form for CG: z = M^{-1} r and, in the same sweeps, Az = matrix·z; returns r·z.
    *  CG uses it (saving its own product with A) only when `matrix` is the very matrix it solves with. */
   withProduct?: { matrix: Csr; apply(r: Float64Array, z: Float64Array, Az: Float64Array): number };
+  /** Optional: a zeroed vector of length n in the preconditioner's own memory, which apply reads and writes without
+   *  copying (the multigrid cycle's WebAssembly arena); a new Float64Array when it has none left. Solvers take the
+   *  vectors they pass to apply from here. */
+  vector?(n: number): Float64Array;
 }
 
 export interface SolveOptions {

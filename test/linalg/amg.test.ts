@@ -17,6 +17,7 @@ import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { checkerboard, lagrangeGridStiffness } from './helpers/lagrange-grid.ts';
 import { neumannLaplacian } from './helpers/neumann.ts';
+import { convectionDiffusion } from './helpers/convection.ts';
 import { fivePointLaplacian } from './helpers/poisson.ts';
 import { randomVector, relativeError } from './helpers/random-matrices.ts';
 
@@ -34,25 +35,6 @@ function amgPcg(A: Csr, b: Float64Array, relTol = 1e-13): { x: Float64Array; ite
   const s = cg(A, b, x, { relTol, preconditioner });
   expect(s.converged).toBe(true);
   return { x, iterations: s.iterations, levels: stats.levels };
-}
-
-/** Upwind convection–diffusion on an m×m grid: five-point diffusion plus first-order upwind differences of
- *  β·∇u scaled by h (a non-symmetric M-matrix; common practice, no source). */
-function convectionDiffusion(m: number, bx: number, by: number): Csr {
-  const h = 1 / (m + 1);
-  const I: number[] = [], J: number[] = [], V: number[] = [];
-  for (let j = 0; j < m; j++) for (let i = 0; i < m; i++) {
-    const r = j * m + i;
-    const push = (c: number, v: number): void => { I.push(r); J.push(c); V.push(v); };
-    push(r, 4 + h * (Math.abs(bx) + Math.abs(by)));
-    const west = -1 - (bx > 0 ? h * bx : 0), east = -1 + (bx < 0 ? h * bx : 0);
-    const south = -1 - (by > 0 ? h * by : 0), north = -1 + (by < 0 ? h * by : 0);
-    if (i > 0) push(r - 1, west);
-    if (i < m - 1) push(r + 1, east);
-    if (j > 0) push(r - m, south);
-    if (j < m - 1) push(r + m, north);
-  }
-  return csrFromTriplets(m * m, m * m, I, J, V);
 }
 
 describe('smoothed-aggregation AMG as a CG preconditioner agrees with the direct solver to 1e-10', () => {

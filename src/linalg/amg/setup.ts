@@ -16,8 +16,10 @@ import { scanLevel } from './level-scan.ts';
 import { finestOperator } from './negligible-entries.ts';
 import { smoothedProlongator } from './prolongator.ts';
 import { strengthGraph } from './strength.ts';
-import type { AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
+import { packHierarchy } from './pack.ts';
+import type { AmgHierarchy, AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
+import { wasmCyclePreconditioner } from './wasm-cycle.ts';
 
 const WHERE = 'linalg/amg';
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
@@ -91,7 +93,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     levels[l + 1].dx = new Float64Array(m);
   }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
-  const hierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
+  const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
+  const packed = (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
+  if (!packed && opts.kernels !== 'javascript') notes.push('no WebAssembly arena could hold the hierarchy; the cycle runs in JavaScript');
+  const hierarchy = packed ? packed.hierarchy : built;
   // Complexities against the finest operator the cycle works with (the caller's matrix without negligible entries).
   const nnz0 = levels[0].A.rowPtr[A.nRows];
   let nnzSum = 0, rowSum = 0;
@@ -99,12 +104,13 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const coarsest = levels[levels.length - 1].A.nRows;
   return {
     hierarchy,
-    preconditioner: vCyclePreconditioner(hierarchy),
+    preconditioner: packed ? wasmCyclePreconditioner(packed) : vCyclePreconditioner(hierarchy),
     stats: {
       levels: levels.length,
       operatorComplexity: nnzSum / nnz0,
       gridComplexity: rowSum / A.nRows,
       setupSeconds: (performance.now() - t0) / 1000,
+      kernels: packed ? 'wasm' : 'javascript',
       perLevel: levels.map((L) => ({ rows: L.A.nRows, nnz: L.A.rowPtr[L.A.nRows] })),
       coarseSolver: coarse.kind === 'gauss-seidel' ? `gauss-seidel sweeps (n = ${coarsest})` : `${coarse.kind} (n = ${coarsest})`,
       notes,

@@ -19,6 +19,10 @@ export interface AmgOptions {
   /** W-cycle below the first coarse level (each level from 1 down cycles its coarser level twice); false gives a
    *  plain V-cycle. Default true. */
   wCycle?: boolean;
+  /** 'wasm' (default): the hierarchy moves into a WebAssembly arena and the cycle runs the kernels of
+   *  src/linalg/kernels/sparse.wat; 'javascript': the same cycle in plain TypeScript (the reference the kernels are
+   *  tested against, and the fallback where no arena can be had). Both give the same bits. */
+  kernels?: 'wasm' | 'javascript';
   /** Whether A is symmetric; decides the coarsest solver (Cholesky or LU). Checked from A when absent. */
   symmetric?: boolean;
 }
@@ -78,6 +82,8 @@ export interface AmgStats {
   /** Σ n_l / n_0. */
   gridComplexity: number;
   setupSeconds: number;
+  /** Which kernels the cycle runs ('javascript' also when a WebAssembly arena was asked for but not available). */
+  kernels: 'wasm' | 'javascript';
   perLevel: AmgLevelInfo[];
   /** How the coarsest level is solved, e.g. 'cholesky (n = 143)'. */
   coarseSolver: string;

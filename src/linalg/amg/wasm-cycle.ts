@@ -1,0 +1,138 @@
+/** The cycle of vcycle.ts on a hierarchy packed into a WebAssembly arena (pack.ts), with the sweeps, residuals and
+ *  grid transfers run by the kernels of src/linalg/kernels/sparse.wat: the same operations in the same order, so
+ *  the same bits, about twice as fast as V8's code for the same loops (measured, test/bench/solve.bench.ts).
+ *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
+ *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
+import type { Csr, Preconditioner } from '../types.ts';
+import type { AmgLevel } from './types.ts';
+import type { PackedHierarchy } from './pack.ts';
+
+/** Byte offsets of a level's arrays inside the arena. */
+interface LevelPointers {
+  n: number; rp: number; ci: number; va: number; dp: number; inv: number;
+  b: number; x: number; r: number; rc: number; dx: number;
+  /** The transfer to the next finer level (P) and from it (R), 0 on the finest. */
+  P: CsrPointers | null; R: CsrPointers | null;
+  sweeps: number; visits: number;
+}
+interface CsrPointers { n: number; rp: number; ci: number; va: number }
+
+const csrPointers = (A: Csr): CsrPointers =>
+  ({ n: A.nRows, rp: A.rowPtr.byteOffset, ci: A.colIdx.byteOffset, va: A.values.byteOffset });
+
+function levelPointers(L: AmgLevel): LevelPointers {
+  return {
+    ...csrPointers(L.A), dp: L.diagPos.byteOffset, inv: L.invDiag.byteOffset,
+    b: L.b.byteOffset, x: L.x.byteOffset, r: L.r.byteOffset, rc: L.rc.byteOffset, dx: L.dx.byteOffset,
+    P: L.P && csrPointers(L.P), R: L.R && csrPointers(L.R), sweeps: L.sweeps, visits: L.coarseVisits,
+  };
+}
+
+export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner {
+  const { hierarchy: h, arena, staging, spares } = packed;
+  const k = arena.kernels;
+  const { coarse, symmetric } = h;
+  const levels = h.levels.map(levelPointers);
+  const last = levels.length - 1;
+  const coarsest = h.levels[last];
+  const view = (ptr: number, n: number): Float64Array => new Float64Array(arena.memory.buffer, ptr, n);
+  // Views of the coarsest level's own b and x (empty when the finest level is the coarsest: then the caller's).
+  const own = coarsest.b.length > 0;
+
+  const solveCoarsest = (L: LevelPointers, b: number, x: number): void => {
+    if (coarse.kind === 'gauss-seidel') {
+      k.forwardSweepFromZero(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+      k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+      for (let s = 1; s < coarse.sweeps; s++) {
+        k.forwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+        k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+      }
+      return;
+    }
+    // The dense factor works on typed arrays; the coarsest level's b and x are views of the arena.
+    if (own && b === L.b && x === L.x) coarse.factor.solve(coarsest.b, coarsest.x);
+    else coarse.factor.solve(view(b, L.n), view(x, L.n));
+  };
+
+  const preSmooth = (L: LevelPointers, b: number, x: number): void => {
+    const { n, rp, ci, va, dp, inv, sweeps } = L;
+    if (symmetric && sweeps === 1) { k.forwardSweepFromZeroWithResidual(n, rp, ci, va, dp, inv, b, x, L.r); return; }
+    k.forwardSweepFromZero(n, rp, ci, va, dp, inv, b, x);
+    if (symmetric) {
+      for (let s = 2; s < sweeps; s++) k.forwardSweep(n, rp, ci, va, dp, inv, b, x);
+      k.forwardSweepWithResidual(n, rp, ci, va, dp, inv, b, x, L.r);
+    } else {
+      for (let s = 1; s < sweeps; s++) k.forwardSweep(n, rp, ci, va, dp, inv, b, x);
+      k.residual(n, rp, ci, va, b, x, L.r);
+    }
+  };
+
+  const coarseCorrection = (l: number, x: number): void => {
+    const C = levels[l + 1];
+    const R = C.R!, P = C.P!;
+    k.spmv(R.n, R.rp, R.ci, R.va, levels[l].r, C.b);
+    cycle(l + 1, C.b, C.x);
+    if (levels[l].visits > 1) {
+      k.residual(C.n, C.rp, C.ci, C.va, C.b, C.x, C.rc);
+      cycle(l + 1, C.rc, C.dx);
+      k.addInto(C.n, C.x, C.dx);
+    }
+    k.multiplyAdd(P.n, P.rp, P.ci, P.va, C.x, x);
+  };
+
+  const cycle = (l: number, b: number, x: number): void => {
+    const L = levels[l];
+    if (l === last) { solveCoarsest(L, b, x); return; }
+    preSmooth(L, b, x);
+    coarseCorrection(l, x);
+    for (let s = 0; s < L.sweeps; s++) k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+  };
+
+  const cycleWithProduct = (b: number, x: number, w: number): number => {
+    const L = levels[0];
+    if (last === 0) {
+      solveCoarsest(L, b, x);
+      k.spmv(L.n, L.rp, L.ci, L.va, x, w);
+      const bv = view(b, L.n), xv = view(x, L.n);
+      let bx = 0;
+      for (let i = 0; i < L.n; i++) bx += bv[i] * xv[i];
+      return bx;
+    }
+    preSmooth(L, b, x);
+    coarseCorrection(0, x);
+    for (let s = 1; s < L.sweeps; s++) k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+    return k.backwardSweepWithProduct(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x, w);
+  };
+
+  /** The caller's vector as an arena offset: its own when it lives there, else the staging copy. */
+  const input = (r: Float64Array, stage: Float64Array): number => {
+    if (arena.owns(r)) return r.byteOffset;
+    stage.set(r);
+    return stage.byteOffset;
+  };
+  const output = (z: Float64Array, stage: Float64Array): number => (arena.owns(z) ? z.byteOffset : stage.byteOffset);
+  const copyOut = (z: Float64Array, stage: Float64Array): void => { if (!arena.owns(z)) z.set(stage); };
+
+  return {
+    name: 'amg',
+    apply(r: Float64Array, z: Float64Array): void {
+      cycle(0, input(r, staging.b), output(z, staging.x));
+      copyOut(z, staging.x);
+    },
+    vector(n: number): Float64Array {
+      const v = n === levels[0].n ? spares.pop() : undefined;
+      return v ? v.fill(0) : new Float64Array(n);
+    },
+    ...(symmetric && h.exactProducts ? {
+      withProduct: {
+        matrix: h.operator,
+        apply(r: Float64Array, z: Float64Array, w: Float64Array): number {
+          const bx = cycleWithProduct(input(r, staging.b), output(z, staging.x), output(w, staging.w));
+          copyOut(z, staging.x);
+          copyOut(w, staging.w);
+          return bx;
+        },
+      },
+    } : {}),
+  };
+}
