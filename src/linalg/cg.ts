@@ -8,6 +8,7 @@ import {
   SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
+import { javascriptCgSteps } from './cg-steps.ts';
 import { dot } from './vector.ts';
 
 /** Relative symmetry tolerance of the check CG runs before iterating (see isSymmetric). */
@@ -38,132 +39,136 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
       'linalg/cg',
     );
   }
-  const x = x0InOut;
-  if (bNorm === 0) return zeroRhsStats(method, M, x, t0);
+  if (bNorm === 0) return zeroRhsStats(method, M, x0InOut, t0);
 
   const n = A.nRows;
-  const vector = (): Float64Array => (M.vector ? M.vector(n) : new Float64Array(n));
+  const taken: Float64Array[] = [];
+  const vector = (): Float64Array => {
+    if (!M.vector) return new Float64Array(n);
+    const v = M.vector(n);
+    taken.push(v);
+    return v;
+  };
   const r = vector();
   const z = vector();
-  const p = new Float64Array(n);
-  const q = new Float64Array(n);
+  const p = vector();
+  const q = vector();
   const t = { t0, method, M: M.name };
 
-  let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(A, b, x, r) / bNorm;
-  if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
-  if (rel <= relTol) return finish(t, 0, rel, 'residual', true);
+  // With a preconditioner that keeps its own memory (the multigrid arena), every vector it touches, and the
+  // iterate, live there: the cycle and the vector updates then run as WebAssembly kernels without copies.
+  const x = M.vector ? vector() : x0InOut;
+  if (x !== x0InOut) x.set(x0InOut);
+  const steps = M.cgSteps ?? javascriptCgSteps;
+  const iterate = (): SolveStats => {
+    let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(A, b, x, r) / bNorm;
+    if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
+    if (rel <= relTol) return finish(t, 0, rel, 'residual', true);
 
-  const stagnated = stagnationWatch();
-  const fusedM = M.withProduct && M.withProduct.matrix === A ? M.withProduct : null;
-  const w = fusedM ? vector() : q;
-  let replacements = 0;
-  let sinceProduct = 0;
-  let rz = 0, pq = 0;
-  /** Search direction from the current residual: z = M⁻¹r, p = z, q = A p, and r·z, p·q. */
-  const restart = (): void => {
-    if (fusedM) { rz = fusedM.apply(r, z, w); p.set(z); q.set(w); pq = dot(p, q); }
-    else { M.apply(r, z); p.set(z); rz = dot(r, z); pq = spmvDot(A, p, q); }
-    sinceProduct = 0;
-  };
-  restart();
-  let it = 0;
-  const hs = new Float64Array(CG_ERROR_DELAY);
-  let errorEstimate = Infinity;
-  while (it < maxIter) {
-    if (!(rz > 0)) {
-      if (!Number.isFinite(rz)) throw nonFiniteError(method, it, 'the preconditioned residual');
-      if (rz < 0) {
-        throw new RungsNumericalError(
-          `cg: r·M⁻¹r = ${rz} < 0 at iteration ${it}: the preconditioner '${M.name}' is not positive definite`, 'linalg/cg');
+    const stagnated = stagnationWatch();
+    const fusedM = M.withProduct && M.withProduct.matrix === A ? M.withProduct : null;
+    const w = fusedM ? vector() : q;
+    let replacements = 0;
+    let sinceProduct = 0;
+    let rz = 0, pq = 0;
+    /** Search direction from the current residual: z = M⁻¹r, p = z, q = A p, and r·z, p·q. */
+    const restart = (): void => {
+      if (fusedM) { rz = fusedM.apply(r, z, w); p.set(z); q.set(w); pq = dot(p, q); }
+      else { M.apply(r, z); p.set(z); rz = dot(r, z); pq = spmvDot(A, p, q); }
+      sinceProduct = 0;
+    };
+    restart();
+    let it = 0;
+    const hs = new Float64Array(CG_ERROR_DELAY);
+    let errorEstimate = Infinity;
+    while (it < maxIter) {
+      if (!(rz > 0)) {
+        if (!Number.isFinite(rz)) throw nonFiniteError(method, it, 'the preconditioned residual');
+        if (rz < 0) {
+          throw new RungsNumericalError(
+            `cg: r·M⁻¹r = ${rz} < 0 at iteration ${it}: the preconditioner '${M.name}' is not positive definite`, 'linalg/cg');
+        }
+        return finish(t, it, rel, 'breakdown', false,
+          `cg: the preconditioned residual vanished while ||r||/||b|| = ${rel}; ${SINGULAR_HINT}`);
       }
-      return finish(t, it, rel, 'breakdown', false,
-        `cg: the preconditioned residual vanished while ||r||/||b|| = ${rel}; ${SINGULAR_HINT}`);
-    }
-    if (!(pq > 0)) {
-      if (!Number.isFinite(pq)) throw nonFiniteError(method, it, 'p·Ap');
-      if (pq < -1e-8 * infinityNorm(A) * dot(p, p)) {
-        throw new RungsInputError(
-          `cg: p·Ap = ${pq.toExponential(3)} < 0 at iteration ${it}: the matrix is not positive definite, which CG needs; ` +
-            "check the sign of the operator, or use method 'gmres'",
-          'linalg/cg',
-        );
+      if (!(pq > 0)) {
+        if (!Number.isFinite(pq)) throw nonFiniteError(method, it, 'p·Ap');
+        if (pq < -1e-8 * infinityNorm(A) * dot(p, p)) {
+          throw new RungsInputError(
+            `cg: p·Ap = ${pq.toExponential(3)} < 0 at iteration ${it}: the matrix is not positive definite, which CG needs; ` +
+              "check the sign of the operator, or use method 'gmres'",
+            'linalg/cg',
+          );
+        }
+        return finish(t, it, rel, 'breakdown', false,
+          `cg: p·Ap vanished at iteration ${it} (a direction in the null space); ${SINGULAR_HINT}`);
       }
-      return finish(t, it, rel, 'breakdown', false,
-        `cg: p·Ap vanished at iteration ${it} (a direction in the null space); ${SINGULAR_HINT}`);
-    }
-    const alpha = rz / pq;
-    const rr = updateIterate(alpha, p, q, x, r);
-    // Ring buffer of the last d terms α_j r_j·z_j of the Hestenes–Stiefel error sum.
-    // Summed afresh each step: a running sum would keep the round-off of the large early terms.
-    hs[it % CG_ERROR_DELAY] = alpha * rz;
-    it++;
-    if (it >= CG_ERROR_DELAY) {
-      let sum = 0;
-      for (let j = 0; j < CG_ERROR_DELAY; j++) sum += hs[j];
-      errorEstimate = Math.sqrt(sum);
-    }
-    rel = Math.sqrt(rr) / bNorm;
-    if (!Number.isFinite(rel)) throw nonFiniteError(method, it, 'the residual');
-    if (rel <= relTol) {
-      // The recursion drifts from b − A x; accept only when the true residual agrees.
-      rel = trueResidual(A, b, x, r) / bNorm;
-      if (rel <= relTol) return { ...finish(t, it, rel, 'residual', true), energyErrorEstimate: errorEstimate };
-      if (++replacements > MAX_RESIDUAL_REPLACEMENTS) {
+      const alpha = rz / pq;
+      const rr = steps.update(alpha, p, q, x, r);
+      // Ring buffer of the last d terms α_j r_j·z_j of the Hestenes–Stiefel error sum.
+      // Summed afresh each step: a running sum would keep the round-off of the large early terms.
+      hs[it % CG_ERROR_DELAY] = alpha * rz;
+      it++;
+      if (it >= CG_ERROR_DELAY) {
+        let sum = 0;
+        for (let j = 0; j < CG_ERROR_DELAY; j++) sum += hs[j];
+        errorEstimate = Math.sqrt(sum);
+      }
+      rel = Math.sqrt(rr) / bNorm;
+      if (!Number.isFinite(rel)) throw nonFiniteError(method, it, 'the residual');
+      if (rel <= relTol) {
+        // The recursion drifts from b − A x; accept only when the true residual agrees.
+        rel = trueResidual(A, b, x, r) / bNorm;
+        if (rel <= relTol) return { ...finish(t, it, rel, 'residual', true), energyErrorEstimate: errorEstimate };
+        if (++replacements > MAX_RESIDUAL_REPLACEMENTS) {
+          return finish(t, it, rel, 'stagnation', false,
+            `cg: the true residual stays at ${rel.toExponential(2)} above relTol ${relTol}; ${SINGULAR_HINT}`);
+        }
+        restart();
+        continue;
+      }
+      if (opts.stopWhen && opts.stopWhen({ iteration: it, relativeResidual: rel, x, energyErrorEstimate: errorEstimate })) {
+        const s = finish(t, it, trueResidual(A, b, x, r) / bNorm, 'stopWhen', true);
+        s.energyErrorEstimate = errorEstimate;
+        return s;
+      }
+      if (stagnated(it, rel)) {
+        rel = trueResidual(A, b, x, r) / bNorm;
         return finish(t, it, rel, 'stagnation', false,
-          `cg: the true residual stays at ${rel.toExponential(2)} above relTol ${relTol}; ${SINGULAR_HINT}`);
+          `cg: the residual stopped decreasing at ${rel.toExponential(2)} (relTol ${relTol}); ${SINGULAR_HINT}`);
       }
-      restart();
-      continue;
+      if (it >= maxIter) break;
+      let rzNew: number;
+      if (fusedM) {
+        rzNew = fusedM.apply(r, z, w);
+        const beta = rzNew / rz;
+        // q = A p by the recursion A(z + βp) = Az + βAp, refreshed by a true product now and then against drift.
+        if (++sinceProduct < PRODUCT_REFRESH) pq = steps.direction(beta, z, w, p, q);
+        else { nextDirection(beta, z, p); pq = spmvDot(A, p, q); sinceProduct = 0; }
+      } else {
+        M.apply(r, z);
+        rzNew = dot(r, z);
+        nextDirection(rzNew / rz, z, p);
+        pq = spmvDot(A, p, q);
+      }
+      rz = rzNew;
     }
-    if (opts.stopWhen && opts.stopWhen({ iteration: it, relativeResidual: rel, x, energyErrorEstimate: errorEstimate })) {
-      const s = finish(t, it, trueResidual(A, b, x, r) / bNorm, 'stopWhen', true);
-      s.energyErrorEstimate = errorEstimate;
-      return s;
-    }
-    if (stagnated(it, rel)) {
-      rel = trueResidual(A, b, x, r) / bNorm;
-      return finish(t, it, rel, 'stagnation', false,
-        `cg: the residual stopped decreasing at ${rel.toExponential(2)} (relTol ${relTol}); ${SINGULAR_HINT}`);
-    }
-    if (it >= maxIter) break;
-    let rzNew: number;
-    if (fusedM) {
-      rzNew = fusedM.apply(r, z, w);
-      const beta = rzNew / rz;
-      // q = A p by the recursion A(z + βp) = Az + βAp, refreshed by a true product now and then against drift.
-      if (++sinceProduct < PRODUCT_REFRESH) pq = nextDirectionWithProduct(beta, z, w, p, q);
-      else { nextDirection(beta, z, p); pq = spmvDot(A, p, q); sinceProduct = 0; }
-    } else {
-      M.apply(r, z);
-      rzNew = dot(r, z);
-      nextDirection(rzNew / rz, z, p);
-      pq = spmvDot(A, p, q);
-    }
-    rz = rzNew;
+    rel = trueResidual(A, b, x, r) / bNorm;
+    return finish(t, it, rel, 'maxIter', rel <= relTol,
+      rel <= relTol ? undefined : `cg: not converged after ${it} iterations (||r||/||b|| = ${rel.toExponential(2)})`);
+  };
+  try {
+    return iterate();
+  } finally {
+    if (x !== x0InOut) x0InOut.set(x);
+    if (M.release) for (const v of taken) M.release(v);
   }
-  rel = trueResidual(A, b, x, r) / bNorm;
-  return finish(t, it, rel, 'maxIter', rel <= relTol,
-    rel <= relTol ? undefined : `cg: not converged after ${it} iterations (||r||/||b|| = ${rel.toExponential(2)})`);
 }
 
 /** p = z + β p. */
 function nextDirection(beta: number, z: Float64Array, p: Float64Array): void {
   const n = p.length;
   for (let i = 0; i < n; i++) p[i] = z[i] + beta * p[i];
-}
-
-/** p = z + β p, q = w + β q with w = A z; returns p·q. */
-function nextDirectionWithProduct(beta: number, z: Float64Array, w: Float64Array, p: Float64Array, q: Float64Array): number {
-  const n = p.length;
-  let pq = 0;
-  for (let i = 0; i < n; i++) {
-    const pi = z[i] + beta * p[i];
-    const qi = w[i] + beta * q[i];
-    p[i] = pi;
-    q[i] = qi;
-    pq += pi * qi;
-  }
-  return pq;
 }
 
 function finish(
@@ -201,18 +206,6 @@ function spmvDot(A: Csr, p: Float64Array, q: Float64Array): number {
   return pq;
 }
 
-/** x += α p, r −= α q; returns ||r||². */
-function updateIterate(alpha: number, p: Float64Array, q: Float64Array, x: Float64Array, r: Float64Array): number {
-  const n = x.length;
-  let rr = 0;
-  for (let i = 0; i < n; i++) {
-    x[i] += alpha * p[i];
-    const ri = r[i] - alpha * q[i];
-    r[i] = ri;
-    rr += ri * ri;
-  }
-  return rr;
-}
 
 
 /** max_i Σ_j |a_ij|, a cheap scale for the curvature test. */

@@ -1,5 +1,6 @@
 import { RungsInputError } from '../errors.ts';
 import type { Csr } from './types.ts';
+import { heapAllocator, type Allocator } from './kernels/allocator.ts';
 
 const WHERE = 'linalg/csr';
 
@@ -115,15 +116,23 @@ function siftDown(cols: Int32Array, vals: Float64Array, lo: number, start: numbe
 }
 
 /** Aᵀ in CSR; a counting sort by column, so the rows of the result come out sorted. */
-export function transpose(A: Csr): Csr {
+export function transpose(A: Csr, alloc: Allocator = heapAllocator): Csr {
   const { nRows, nCols, rowPtr, colIdx, values } = A;
   const nnz = rowPtr[nRows];
-  const tPtr = new Int32Array(nCols + 1);
+  const tPtr = alloc.i32(nCols + 1);
   for (let k = 0; k < nnz; k++) tPtr[colIdx[k] + 1]++;
   for (let j = 0; j < nCols; j++) tPtr[j + 1] += tPtr[j];
-  const fill = tPtr.slice(0, nCols);
-  const tCol = new Int32Array(nnz);
-  const tVal = new Float64Array(nnz);
+  const fill = alloc.i32(nCols, false);
+  fill.set(tPtr.subarray(0, nCols));
+  const tCol = alloc.i32(nnz, false);
+  const tVal = alloc.f64(nnz, false);
+  const wasm = alloc.wasm;
+  if (wasm && wasm.owns(rowPtr, colIdx, values, tPtr, fill, tCol, tVal)) {
+    wasm.kernels.transposeInto(nRows, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, fill.byteOffset,
+      tCol.byteOffset, tVal.byteOffset);
+    alloc.free(fill);
+    return { nRows: nCols, nCols: nRows, rowPtr: tPtr, colIdx: tCol, values: tVal };
+  }
   for (let i = 0; i < nRows; i++) {
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
       const p = fill[colIdx[k]]++;
@@ -131,13 +140,14 @@ export function transpose(A: Csr): Csr {
       tVal[p] = values[k];
     }
   }
+  alloc.free(fill);
   return { nRows: nCols, nCols: nRows, rowPtr: tPtr, colIdx: tCol, values: tVal };
 }
 
 /** Position of the diagonal entry of every row, −1 where the row stores none. */
-export function diagonalPositions(A: Csr): Int32Array {
+export function diagonalPositions(A: Csr, alloc: Allocator = heapAllocator): Int32Array {
   const { nRows, rowPtr, colIdx } = A;
-  const pos = new Int32Array(nRows).fill(-1);
+  const pos = alloc.i32(nRows, false).fill(-1);
   for (let i = 0; i < nRows; i++) {
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
       if (colIdx[k] === i) { pos[i] = k; break; }

@@ -1,25 +1,41 @@
 /** Sparse matrix–matrix product C = A B in CSR, row by row (Gustavson 1978, ACM TOMS 4(3) 250–269): each row of C
  *  accumulates scaled rows of B through a marker per column of B that holds the entry's position in the current
- *  row; the row is sorted at the end. Used for the multigrid Galerkin products. */
+ *  row; the row is sorted at the end. Used for the multigrid Galerkin products. When every operand lives in the
+ *  allocator's WebAssembly memory, the same loop runs as the kernel sparseProduct (sparse.wat), same bits. */
 import { RungsInputError } from '../errors.ts';
 import { sortRowByColumn } from './csr.ts';
+import { heapAllocator, type Allocator } from './kernels/allocator.ts';
 import type { Csr } from './types.ts';
 
-export function spgemm(A: Csr, B: Csr): Csr {
+/** The result's arrays come from `alloc` (default: the JavaScript heap). */
+export function spgemm(A: Csr, B: Csr, alloc: Allocator = heapAllocator): Csr {
   if (A.nCols !== B.nRows) {
     throw new RungsInputError(`spgemm: cannot multiply ${A.nRows}×${A.nCols} by ${B.nRows}×${B.nCols}`, 'linalg/spgemm');
   }
   const m = A.nRows, nc = B.nCols;
   const aPtr = A.rowPtr, aCol = A.colIdx, aVal = A.values;
   const bPtr = B.rowPtr, bCol = B.colIdx, bVal = B.values;
-  const marker = new Int32Array(nc).fill(-1);
-  const rowPtr = new Int32Array(m + 1);
+  const rowPtr = alloc.i32(m + 1);
   // Room for every contribution: pages the product never reaches are never touched (the operating system maps
   // them on first write), so the bound costs address space, not time; the result is a view, not a copy.
   let bound = 0;
   for (let k = 0; k < aPtr[m]; k++) { const r = aCol[k]; bound += bPtr[r + 1] - bPtr[r]; }
-  const cols = new Int32Array(Math.max(1, bound));
-  const vals = new Float64Array(Math.max(1, bound));
+  const cols = alloc.i32(Math.max(1, bound), false);
+  const vals = alloc.f64(Math.max(1, bound), false);
+  const wasm = alloc.wasm;
+  if (wasm && wasm.owns(aPtr, aCol, aVal, bPtr, bCol, bVal, rowPtr, cols, vals)) {
+    const marker = alloc.i32(nc, false);
+    if (wasm.owns(marker)) {
+      marker.fill(-1);
+      const nnz = wasm.kernels.sparseProduct(m, aPtr.byteOffset, aCol.byteOffset, aVal.byteOffset, bPtr.byteOffset,
+        bCol.byteOffset, bVal.byteOffset, marker.byteOffset, rowPtr.byteOffset, cols.byteOffset, vals.byteOffset);
+      alloc.free(marker);
+      sortLongRows(rowPtr, cols, vals, m);
+      return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
+    }
+    alloc.free(marker);
+  }
+  const marker = new Int32Array(nc).fill(-1);
   let nnz = 0;
   for (let i = 0; i < m; i++) {
     const rowStart = nnz;
@@ -37,5 +53,10 @@ export function spgemm(A: Csr, B: Csr): Csr {
     sortRowByColumn(cols, vals, rowStart, nnz);
     rowPtr[i + 1] = nnz;
   }
-  return { nRows: m, nCols: nc, rowPtr, colIdx: cols.subarray(0, nnz), values: vals.subarray(0, nnz) };
+  return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
+}
+
+/** The kernels sort rows of up to 32 entries (insertion sort); the longer ones are sorted here (heap sort). */
+export function sortLongRows(rowPtr: Int32Array, cols: Int32Array, vals: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) if (rowPtr[i + 1] - rowPtr[i] > 32) sortRowByColumn(cols, vals, rowPtr[i], rowPtr[i + 1]);
 }

@@ -14,10 +14,22 @@ export interface Preconditioner {
   /** Optional fused form for CG: z = M^{-1} r and, in the same sweeps, Az = matrix·z; returns r·z.
    *  CG uses it (saving its own product with A) only when `matrix` is the very matrix it solves with. */
   withProduct?: { matrix: Csr; apply(r: Float64Array, z: Float64Array, Az: Float64Array): number };
-  /** Optional: a zeroed vector of length n in the preconditioner's own memory, which apply reads and writes without
+  /** Optional: a vector of length n in the preconditioner's own memory (contents unspecified), which apply reads and writes without
    *  copying (the multigrid cycle's WebAssembly arena); a new Float64Array when it has none left. Solvers take the
    *  vectors they pass to apply from here. */
   vector?(n: number): Float64Array;
+  /** Gives back a vector from `vector` once the solver is done with it (so the next solve can take it again). */
+  release?(v: Float64Array): void;
+  /** Optional: CG's vector updates for vectors in that memory (falling back to TypeScript for others). */
+  cgSteps?: CgSteps;
+}
+
+/** The fused vector updates of preconditioned CG. */
+export interface CgSteps {
+  /** x += α p, r −= α q; returns r·r. */
+  update(alpha: number, p: Float64Array, q: Float64Array, x: Float64Array, r: Float64Array): number;
+  /** p = z + β p, q = w + β q; returns p·q. */
+  direction(beta: number, z: Float64Array, w: Float64Array, p: Float64Array, q: Float64Array): number;
 }
 
 export interface SolveOptions {

@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { assembleKernels, kernelModuleText } from '../../scripts/assemble-kernels.ts';
+import { SPARE_VECTORS } from '../../src/linalg/amg/pack.ts';
 import { amgSetup } from '../../src/linalg/amg/setup.ts';
 import {
   backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual,
@@ -157,13 +158,16 @@ describe('the multigrid cycle in WebAssembly', () => {
     });
   }
 
-  it('hands a Krylov solver arena vectors, and plain ones once they run out', () => {
+  it('hands a Krylov solver arena vectors, plain ones once they run out, and the same again once given back', () => {
     const A = lagrangeGridStiffness('triangle', 1, 20).A;
     const { preconditioner } = amgSetup(A);
-    const got = [1, 2, 3, 4].map(() => preconditioner.vector!(A.nRows));
+    const got = Array.from({ length: SPARE_VECTORS + 1 }, () => preconditioner.vector!(A.nRows));
     const arenaBuffer = got[0].buffer;
-    expect(got.slice(0, 3).every((v) => v.buffer === arenaBuffer && v.every((e) => e === 0))).toBe(true);
-    expect(got[3].buffer).not.toBe(arenaBuffer);
+    expect(got.slice(0, SPARE_VECTORS).every((v) => v.buffer === arenaBuffer)).toBe(true);
+    expect(got[SPARE_VECTORS].buffer === arenaBuffer).toBe(false);
+    // given back, they are handed out again (a second solve with the same preconditioner copies nothing either)
+    for (const v of got) preconditioner.release!(v);
+    expect(preconditioner.vector!(A.nRows).buffer === arenaBuffer).toBe(true);
     expect(preconditioner.vector!(7).length).toBe(7);
   });
 

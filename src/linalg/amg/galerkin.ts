@@ -1,26 +1,55 @@
 /** Galerkin coarse operator A_c = Pᵀ A P (restriction R = Pᵀ), formed as R (A P) with sparse products;
- *  Vaněk, Mandel & Brezina (1996), Computing 56, 179–196, §2 (variational coarse spaces). */
+ *  Vaněk, Mandel & Brezina (1996), Computing 56, 179–196, §2 (variational coarse spaces). The intermediate
+ *  products are given back to the allocator as soon as they are used. */
 import { sortRowByColumn } from '../csr.ts';
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
-import { spgemm } from '../spgemm.ts';
+import { sortLongRows, spgemm } from '../spgemm.ts';
+
+const freeCsr = (M: Csr, alloc: Allocator): void => { alloc.free(M.rowPtr); alloc.free(M.colIdx); alloc.free(M.values); };
 
 /** R must be Pᵀ (the caller keeps it as the restriction of the cycle). */
-export function galerkinProduct(A: Csr, P: Csr, R: Csr, symmetric: boolean): Csr {
-  const AP = spgemm(A, P);
-  return symmetric ? mirrorUpper(upperProduct(R, AP)) : spgemm(R, AP);
+export function galerkinProduct(A: Csr, P: Csr, R: Csr, symmetric: boolean, alloc: Allocator = heapAllocator): Csr {
+  const AP = spgemm(A, P, alloc);
+  if (!symmetric) {
+    const C = spgemm(R, AP, alloc);
+    freeCsr(AP, alloc);
+    return C;
+  }
+  const U = upperProduct(R, AP, alloc);
+  freeCsr(AP, alloc);
+  const C = mirrorUpper(U, alloc);
+  freeCsr(U, alloc);
+  return C;
 }
 
 /** Upper triangle (J ≥ I) of C = R M, which is symmetric when A is: each row of M is read from its end down to the
- *  first column below I, so about half of the products are skipped. Rows come out sorted. */
-function upperProduct(R: Csr, M: Csr): Csr {
+ *  first column below I, so about half of the products are skipped. Rows come out sorted. In WebAssembly memory
+ *  the same loop runs as the kernel upperProduct (sparse.wat). */
+function upperProduct(R: Csr, M: Csr, alloc: Allocator): Csr {
   const m = R.nRows, nc = M.nCols;
   const rPtr = R.rowPtr, rCol = R.colIdx, rVal = R.values;
   const mPtr = M.rowPtr, mCol = M.colIdx, mVal = M.values;
+  const rowPtr = alloc.i32(m + 1);
+  // Room for every contribution (see spgemm.ts: untouched pages cost address space only); the tail is given back.
+  let bound = 0;
+  for (let k = 0; k < rPtr[m]; k++) { const i = rCol[k]; bound += mPtr[i + 1] - mPtr[i]; }
+  const cols = alloc.i32(Math.max(1, bound), false);
+  const vals = alloc.f64(Math.max(1, bound), false);
+  const wasm = alloc.wasm;
+  if (wasm && wasm.owns(rPtr, rCol, rVal, mPtr, mCol, mVal, rowPtr, cols, vals)) {
+    const marker = alloc.i32(nc, false);
+    if (wasm.owns(marker)) {
+      marker.fill(-1);
+      const nnz = wasm.kernels.upperProduct(m, rPtr.byteOffset, rCol.byteOffset, rVal.byteOffset, mPtr.byteOffset,
+        mCol.byteOffset, mVal.byteOffset, marker.byteOffset, rowPtr.byteOffset, cols.byteOffset, vals.byteOffset);
+      alloc.free(marker);
+      sortLongRows(rowPtr, cols, vals, m);
+      return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
+    }
+    alloc.free(marker);
+  }
   const marker = new Int32Array(nc).fill(-1);
-  const rowPtr = new Int32Array(m + 1);
-  let cap = Math.max(16, rPtr[m] * 4);
-  let cols = new Int32Array(cap);
-  let vals = new Float64Array(cap);
   let nnz = 0;
   for (let I = 0; I < m; I++) {
     const rowStart = nnz;
@@ -32,36 +61,30 @@ function upperProduct(R: Csr, M: Csr): Csr {
         const J = mCol[q];
         if (J < I) break;
         const pos = marker[J];
-        if (pos < rowStart) {
-          if (nnz === cap) {
-            cap = Math.ceil(cap * 1.5);
-            const c2 = new Int32Array(cap); c2.set(cols.subarray(0, nnz)); cols = c2;
-            const v2 = new Float64Array(cap); v2.set(vals.subarray(0, nnz)); vals = v2;
-          }
-          marker[J] = nnz; cols[nnz] = J; vals[nnz] = a * mVal[q]; nnz++;
-        } else vals[pos] += a * mVal[q];
+        if (pos < rowStart) { marker[J] = nnz; cols[nnz] = J; vals[nnz] = a * mVal[q]; nnz++; }
+        else vals[pos] += a * mVal[q];
       }
     }
     sortRowByColumn(cols, vals, rowStart, nnz);
     rowPtr[I + 1] = nnz;
   }
-  return { nRows: m, nCols: nc, rowPtr, colIdx: cols.subarray(0, nnz), values: vals.subarray(0, nnz) };
+  return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
 }
 
 /** Full symmetric matrix from its upper triangle U: row I = (strict upper part of U)ᵀ row I, then U row I.
  *  The transposed entries arrive in increasing source row, so every row is sorted without a sort. */
-function mirrorUpper(U: Csr): Csr {
+function mirrorUpper(U: Csr, alloc: Allocator): Csr {
   const n = U.nRows;
   const { rowPtr, colIdx, values } = U;
-  const count = new Int32Array(n + 1);
+  const count = alloc.i32(n + 1);
   for (let I = 0; I < n; I++) {
     count[I + 1] += rowPtr[I + 1] - rowPtr[I];
     for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) if (colIdx[k] !== I) count[colIdx[k] + 1]++;
   }
   for (let I = 0; I < n; I++) count[I + 1] += count[I];
   const fill = count.slice(0, n);
-  const cols = new Int32Array(count[n]);
-  const vals = new Float64Array(count[n]);
+  const cols = alloc.i32(count[n], false);
+  const vals = alloc.f64(count[n], false);
   // Lower entries first: for each source row I in order, its strict upper entries (I, J) become (J, I).
   for (let I = 0; I < n; I++) {
     for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) {

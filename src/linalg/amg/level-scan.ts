@@ -1,5 +1,6 @@
-/** A level's operator checked (finite entries, positive diagonal) and its diagonal located. */
+/** A level's operator checked (finite entries, positive diagonal) and its diagonal located, in one pass. */
 import { RungsInputError, RungsNumericalError } from '../../errors.ts';
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
 export interface LevelScan {
@@ -9,30 +10,26 @@ export interface LevelScan {
 }
 
 /** Throws RungsInputError on the finest level (the caller's matrix) and RungsNumericalError on coarser ones. */
-export function scanLevel(A: Csr, level: number): LevelScan {
+export function scanLevel(A: Csr, level: number, alloc: Allocator = heapAllocator): LevelScan {
   const where = 'linalg/amg';
   const fail = (msg: string): Error => (level === 0 ? new RungsInputError(msg, where) : new RungsNumericalError(msg, where));
   const { nRows: n, rowPtr, colIdx, values } = A;
-  const nnz = rowPtr[n];
-  let bad = -1;
-  for (let k = 0; k < nnz; k++) {
-    const v = values[k];
-    if (v - v !== 0) { bad = k; break; } // NaN or ±Inf
-  }
-  if (bad >= 0) {
-    let row = 0;
-    while (rowPtr[row + 1] <= bad) row++;
-    throw fail(`amg: matrix entry (${row}, ${colIdx[bad]}) of level ${level} is ${values[bad]}; every entry must be finite ` +
-      (level === 0 ? '(check the coefficients and the assembly)' : '(overflow while forming the coarse operator)'));
-  }
-  const diagPos = new Int32Array(n);
-  const diag = new Float64Array(n);
-  const invDiag = new Float64Array(n);
+  const diagPos = alloc.i32(n, false);
+  const diag = alloc.f64(n, false);
+  const invDiag = alloc.f64(n, false);
   for (let i = 0; i < n; i++) {
     let pos = -1;
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
-      const c = colIdx[k];
-      if (c >= i) { if (c === i) pos = k; break; }
+    let finite = true;
+    for (let k = rowPtr[i], end = rowPtr[i + 1]; k < end; k++) {
+      const v = values[k];
+      if (v - v !== 0) finite = false; // NaN or ±Inf
+      if (colIdx[k] === i) pos = k;
+    }
+    if (!finite) {
+      let k = rowPtr[i];
+      while (values[k] - values[k] === 0) k++;
+      throw fail(`amg: matrix entry (${i}, ${colIdx[k]}) of level ${level} is ${values[k]}; every entry must be finite ` +
+        (level === 0 ? '(check the coefficients and the assembly)' : '(overflow while forming the coarse operator)'));
     }
     const d = pos >= 0 ? values[pos] : 0;
     if (!(d > 0)) {

@@ -5,6 +5,7 @@
  *  25 % of the stored entries).
  *  Both cost time in every sweep and in every sparse product of the setup, and the round-off ones would make the
  *  strength graph and the aggregates depend on noise. */
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
 /** Off-diagonal entries with |a_ij| ≤ ROUND_OFF_ENTRY·√(a_ii a_jj) are treated as round-off. Measured on rungs's
@@ -22,36 +23,41 @@ export interface FinestOperator {
    *  dropped it may not: those of a P3 matrix at 600k unknowns shift A x by 1e-10 relative to b, enough to keep
    *  CG from reaching 1e-10 against A. */
   exactProducts: boolean;
+  /** Position of each row's diagonal entry in `operator`. */
+  diagPos: Int32Array;
 }
 
-/** diag holds a_ii (positive, as scanLevel checked). */
-export function finestOperator(A: Csr, diag: Float64Array): FinestOperator {
+/** diag holds a_ii (positive, as scanLevel checked). One pass: the kept entries are copied into room for all of
+ *  A (the tail is given back), and the diagonal positions of the copy are recorded on the way. When nothing is
+ *  dropped the copy is kept only for an allocator with WebAssembly memory (whose kernels need the operator
+ *  there); otherwise A itself is the operator. */
+export function finestOperator(A: Csr, diag: Float64Array, alloc: Allocator = heapAllocator): FinestOperator {
   const { nRows: n, rowPtr, colIdx, values } = A;
   const t2 = ROUND_OFF_ENTRY * ROUND_OFF_ENTRY;
-  let zeros = 0, roundOff = 0;
+  const bound = rowPtr[n];
+  const ptr = alloc.i32(n + 1);
+  const cols = alloc.i32(Math.max(1, bound), false);
+  const vals = alloc.f64(Math.max(1, bound), false);
+  const diagPos = alloc.i32(n, false);
+  let zeros = 0, roundOff = 0, out = 0;
   for (let i = 0; i < n; i++) {
     const di = diag[i];
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+    for (let k = rowPtr[i], end = rowPtr[i + 1]; k < end; k++) {
       const v = values[k], j = colIdx[k];
-      if (j === i) continue;
-      if (v === 0) zeros++;
-      else if (v * v <= t2 * di * diag[j]) roundOff++;
-    }
-  }
-  if (zeros + roundOff === 0) return { operator: A, exactProducts: true };
-  const nnz = rowPtr[n] - zeros - roundOff;
-  const ptr = new Int32Array(n + 1);
-  const cols = new Int32Array(nnz);
-  const vals = new Float64Array(nnz);
-  let out = 0;
-  for (let i = 0; i < n; i++) {
-    const di = diag[i];
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
-      const v = values[k], j = colIdx[k];
-      if (j !== i && v * v <= t2 * di * diag[j]) continue;
+      if (j === i) diagPos[i] = out;
+      else if (v === 0) { zeros++; continue; }
+      else if (v * v <= t2 * di * diag[j]) { roundOff++; continue; }
       cols[out] = j; vals[out] = v; out++;
     }
     ptr[i + 1] = out;
   }
-  return { operator: { nRows: n, nCols: A.nCols, rowPtr: ptr, colIdx: cols, values: vals }, exactProducts: roundOff === 0 };
+  if (zeros + roundOff === 0 && !alloc.wasm) {
+    alloc.free(ptr); alloc.free(cols); alloc.free(vals);
+    return { operator: A, diagPos, exactProducts: true };
+  }
+  return {
+    operator: { nRows: n, nCols: A.nCols, rowPtr: ptr, colIdx: alloc.shrink(cols, out), values: alloc.shrink(vals, out) },
+    diagPos,
+    exactProducts: roundOff === 0,
+  };
 }

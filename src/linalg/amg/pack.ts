@@ -1,13 +1,21 @@
-/** Moves a multigrid hierarchy into one WebAssembly arena: every level's matrices, smoother data and work vectors
- *  become views into the arena (the JavaScript copies are then garbage), plus staging vectors for callers whose
- *  arrays live elsewhere and spare vectors a Krylov solver may take so that nothing is copied per cycle. */
-import { arenaBytes, createArena, type Arena } from '../kernels/arena.ts';
+/** The multigrid hierarchy in one WebAssembly arena, where the kernels of wasm-cycle.ts read it. The setup builds
+ *  it there directly (spillingAllocator), the intermediate products given back and reused; only when the arena
+ *  reserved up front proves too small does packHierarchy copy the finished hierarchy into one of the exact size.
+ *  Either way the arena also holds staging vectors for callers whose arrays live elsewhere and spare vectors a
+ *  Krylov solver may take, so that nothing is copied per cycle. */
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
+import { arenaBytes, createArena, MAX_ARENA_BYTES, type Arena } from '../kernels/arena.ts';
 import type { Csr } from '../types.ts';
 import type { AmgHierarchy, AmgLevel } from './types.ts';
 
-/** Finest-size vectors reserved for the caller: right-hand side, iterate and product staging, and three spares. */
+/** Finest-size vectors reserved for the caller: right-hand side, iterate and product staging, and six spares (the
+ *  vectors of CG: r, z, p, q, A z and the iterate). */
 const STAGING_VECTORS = 3;
-export const SPARE_VECTORS = 3;
+export const SPARE_VECTORS = 6;
+/** Arena reserved for building a hierarchy, in bytes of the caller's matrix. Smoothed aggregation of P1–P3
+ *  matrices needs about 4–8 (hierarchy with operator complexity 1.3–2, the prolongators, and the intermediate
+ *  product A P with its bound-sized buffers); the rest is headroom that costs address space only. */
+const ARENA_PER_MATRIX_BYTE = 48;
 
 export interface PackedHierarchy {
   hierarchy: AmgHierarchy;
@@ -18,34 +26,60 @@ export interface PackedHierarchy {
   spares: Float64Array[];
 }
 
-function csrBytes(A: Csr): number[] {
-  return [A.rowPtr.byteLength, A.colIdx.byteLength, A.values.byteLength];
+const csrByteLengths = (A: Csr): number[] => [A.rowPtr.byteLength, A.colIdx.byteLength, A.values.byteLength];
+
+/** Bytes to reserve for building the hierarchy of A in an arena. */
+export function arenaEstimate(A: Csr): number {
+  return Math.min(MAX_ARENA_BYTES, ARENA_PER_MATRIX_BYTE * csrByteLengths(A).reduce((a, b) => a + b, 0) + (1 << 20));
 }
 
-function levelBytes(L: AmgLevel): number[] {
-  const out = [...csrBytes(L.A), L.diagPos.byteLength, L.invDiag.byteLength, L.b.byteLength, L.x.byteLength,
+/** Bytes of the staging and spare vectors for n finest unknowns. */
+export function arenaVectorBytes(n: number): number {
+  return arenaBytes(new Array<number>(STAGING_VECTORS + SPARE_VECTORS).fill(8 * n));
+}
+
+export function arenaVectors(arena: Arena, n: number): Pick<PackedHierarchy, 'staging' | 'spares'> {
+  return {
+    staging: { b: arena.f64(n), x: arena.f64(n), w: arena.f64(n) },
+    spares: Array.from({ length: SPARE_VECTORS }, () => arena.f64(n)),
+  };
+}
+
+/** Arena arrays while they fit, JavaScript arrays after that; spilled() tells whether any had to go to the heap. */
+export function spillingAllocator(arena: Arena): Allocator & { spilled(): boolean } {
+  let spilled = false;
+  const fits = (bytes: number): boolean => arena.fits(bytes) || ((spilled = true), false);
+  return {
+    f64: (n, zeroed) => (fits(8 * n) ? arena.f64(n, zeroed) : heapAllocator.f64(n)),
+    i32: (n, zeroed) => (fits(4 * n) ? arena.i32(n, zeroed) : heapAllocator.i32(n)),
+    free: (a) => { if (arena.owns(a)) arena.free(a); },
+    shrink: (a, n) => (arena.owns(a) ? arena.shrink(a, n) : heapAllocator.shrink(a, n)),
+    spilled: () => spilled,
+    wasm: { kernels: arena.kernels, owns: (...arrays) => arrays.every((a) => arena.owns(a)) },
+  };
+}
+
+function levelByteLengths(L: AmgLevel): number[] {
+  const out = [...csrByteLengths(L.A), L.diagPos.byteLength, L.invDiag.byteLength, L.b.byteLength, L.x.byteLength,
     L.r.byteLength, L.rc.byteLength, L.dx.byteLength];
-  if (L.P) out.push(...csrBytes(L.P));
-  if (L.R) out.push(...csrBytes(L.R));
+  if (L.P) out.push(...csrByteLengths(L.P));
+  if (L.R) out.push(...csrByteLengths(L.R));
   return out;
 }
 
-/** The hierarchy in an arena, or null when no arena can hold it (WebAssembly unavailable, or beyond 4 GiB). */
+/** A copy of the hierarchy in an arena of its own, or null when none can hold it (WebAssembly unavailable, or
+ *  beyond 4 GiB). */
 export function packHierarchy(h: AmgHierarchy): PackedHierarchy | null {
   const n0 = h.levels[0].A.nRows;
-  const bytes = arenaBytes([...h.levels.flatMap(levelBytes),
-    ...new Array<number>(STAGING_VECTORS + SPARE_VECTORS).fill(8 * n0)]);
-  const arena = createArena(bytes);
+  const arena = createArena(arenaBytes(h.levels.flatMap(levelByteLengths)) + arenaVectorBytes(n0));
   if (!arena) return null;
-  const f64 = (a: Float64Array): Float64Array => { const v = arena.f64(a.length); v.set(a); return v; };
-  const i32 = (a: Int32Array): Int32Array => { const v = arena.i32(a.length); v.set(a); return v; };
+  const f64 = (a: Float64Array): Float64Array => { const v = arena.f64(a.length, false); v.set(a); return v; };
+  const i32 = (a: Int32Array): Int32Array => { const v = arena.i32(a.length, false); v.set(a); return v; };
   const csr = (A: Csr): Csr => ({ nRows: A.nRows, nCols: A.nCols, rowPtr: i32(A.rowPtr), colIdx: i32(A.colIdx), values: f64(A.values) });
   const levels = h.levels.map((L): AmgLevel => ({
     ...L,
     A: csr(L.A), diagPos: i32(L.diagPos), invDiag: f64(L.invDiag), P: L.P && csr(L.P), R: L.R && csr(L.R),
     b: f64(L.b), x: f64(L.x), r: f64(L.r), rc: f64(L.rc), dx: f64(L.dx),
   }));
-  const staging = { b: arena.f64(n0), x: arena.f64(n0), w: arena.f64(n0) };
-  const spares = Array.from({ length: SPARE_VECTORS }, () => arena.f64(n0));
-  return { hierarchy: { ...h, levels }, arena, staging, spares };
+  return { hierarchy: { ...h, levels }, arena, ...arenaVectors(arena, n0) };
 }

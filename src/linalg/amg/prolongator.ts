@@ -2,12 +2,15 @@
  *  §3–4). P̂ is the tentative prolongator: the constant vector on each aggregate, scaled to unit length (the
  *  near-null space of a scalar diffusion operator). A_F is the filtered matrix (weak couplings dropped and added to
  *  the diagonal). ω = 4/(3ρ) with ρ ≥ ρ(D_F⁻¹A_F): Gershgorin's bound, or a Lanczos estimate when asked for. */
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 import type { Aggregation } from './aggregation.ts';
 import { lanczosSpectralRadius } from './spectral-radius.ts';
 import type { StrengthGraph } from './strength.ts';
 
-export function smoothedProlongator(A: Csr, graph: StrengthGraph, agg: Aggregation, lanczosSteps = 0): Csr {
+export function smoothedProlongator(
+  A: Csr, graph: StrengthGraph, agg: Aggregation, lanczosSteps = 0, alloc: Allocator = heapAllocator,
+): Csr {
   const { nRows: n, rowPtr, colIdx, values } = A;
   const { strong, filteredDiag: dF } = graph;
   const { aggregateOf, count } = agg;
@@ -26,11 +29,11 @@ export function smoothedProlongator(A: Csr, graph: StrengthGraph, agg: Aggregati
   // a in the row being built, valid while owner[a] is that row.
   const owner = new Int32Array(count).fill(-1);
   const slot = new Int32Array(count);
-  const pPtr = new Int32Array(n + 1);
-  // At most one entry per strong coupling plus one per row; the result is a view of these arrays (see galerkin.ts).
+  const pPtr = alloc.i32(n + 1);
+  // At most one entry per strong coupling plus one per row; the unused tail is given back at the end.
   const cap = n + graph.strongCount;
-  const pCol = new Int32Array(cap);
-  const pVal = new Float64Array(cap);
+  const pCol = alloc.i32(cap, false);
+  const pVal = alloc.f64(cap, false);
   let nnz = 0;
   for (let i = 0; i < n; i++) {
     const ai = aggregateOf[i];
@@ -59,5 +62,5 @@ export function smoothedProlongator(A: Csr, graph: StrengthGraph, agg: Aggregati
     }
     pPtr[i + 1] = nnz;
   }
-  return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: pCol.subarray(0, nnz), values: pVal.subarray(0, nnz) };
+  return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: alloc.shrink(pCol, nnz), values: alloc.shrink(pVal, nnz) };
 }

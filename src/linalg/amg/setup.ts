@@ -7,7 +7,7 @@
  *  of a finest-level one, and together they keep the PCG iteration counts flat from 16k to 1M unknowns (P2: 17–18)
  *  and within 1.7× of the constant-coefficient ones for a 1000:1 checkerboard (measured, test/bench/fe-solve). */
 import { RungsInputError } from '../../errors.ts';
-import { diagonalPositions, isSymmetric, transpose } from '../csr.ts';
+import { isSymmetric, transpose } from '../csr.ts';
 import type { Csr } from '../types.ts';
 import { aggregate } from './aggregation.ts';
 import { buildCoarseSolver } from './coarse-solver.ts';
@@ -16,12 +16,15 @@ import { scanLevel } from './level-scan.ts';
 import { finestOperator } from './negligible-entries.ts';
 import { smoothedProlongator } from './prolongator.ts';
 import { strengthGraph } from './strength.ts';
-import { packHierarchy } from './pack.ts';
+import { arenaEstimate, arenaVectorBytes, arenaVectors, packHierarchy, spillingAllocator } from './pack.ts';
+import { createArena } from '../kernels/arena.ts';
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { AmgHierarchy, AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
 import { wasmCyclePreconditioner } from './wasm-cycle.ts';
 
 const WHERE = 'linalg/amg';
+
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
 const STALLED_COARSENING = 0.8;
 /** Lanczos steps for ρ(D⁻¹A) in the prolongator damping; a handful suffice for the 4/(3ρ) rule. */
@@ -50,51 +53,65 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
 
   const notes: string[] = [];
   const levels: AmgLevel[] = [];
+  // The hierarchy is built straight into the kernels' arena when one is asked for and can be had (see pack.ts).
+  const arena = (opts.kernels ?? 'wasm') === 'wasm' ? createArena(arenaEstimate(A)) : null;
+  const spill = arena ? spillingAllocator(arena) : null;
+  const alloc: Allocator = spill ?? heapAllocator;
   let current = A;
   let P: Csr | null = null;
   let R: Csr | null = null;
   let exactProducts = true;
   for (let l = 0; ; l++) {
     const n = current.nRows;
-    let scan = scanLevel(current, l);
+    let scan = scanLevel(current, l, alloc);
     if (l === 0) {
-      const finest = finestOperator(current, scan.diag);
+      // The operator the cycle smooths with: A without negligible entries, in the arena when there is one.
+      const finest = finestOperator(current, scan.diag, alloc);
       exactProducts = finest.exactProducts;
-      if (finest.operator !== current) { current = finest.operator; scan = { ...scan, diagPos: diagonalPositions(current) }; }
+      current = finest.operator;
+      alloc.free(scan.diagPos);
+      scan = { ...scan, diagPos: finest.diagPos };
     }
     const { diagPos, diag, invDiag } = scan;
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
       A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P, R,
-      b: new Float64Array(l === 0 ? 0 : n), x: new Float64Array(l === 0 ? 0 : n), r: new Float64Array(onCoarsest ? 0 : n),
-      rc: new Float64Array(0), dx: new Float64Array(0),
+      b: alloc.f64(l === 0 ? 0 : n), x: alloc.f64(l === 0 ? 0 : n), r: alloc.f64(onCoarsest ? 0 : n),
+      rc: alloc.f64(0), dx: alloc.f64(0),
     });
-    if (onCoarsest) break;
+    if (onCoarsest) { alloc.free(diag); break; }
 
     const graph = strengthGraph(current, diag, theta0 * Math.pow(0.5, l));
     const agg = aggregate(current, graph, diag, l === 0);
+    alloc.free(diag);
     if (agg.count === 0 || agg.count > STALLED_COARSENING * n) {
       notes.push(`coarsening stalled on level ${l} (${n} → ${agg.count} aggregates)`);
-      levels[l].r = new Float64Array(0);
+      alloc.free(levels[l].r);
+      levels[l].r = alloc.f64(0);
       break;
     }
     // Gershgorin is close to ρ(D⁻¹A) on a diagonally dominant finest level (discretised diffusion as an M-matrix:
     // ρ → 2 as h → 0 for the five-point stencil; common practice, no source); elsewhere a Lanczos estimate.
     const lanczos = symmetric && (l > 0 || !graph.diagonallyDominant) ? LANCZOS_STEPS : 0;
-    P = smoothedProlongator(current, graph, agg, lanczos);
-    R = transpose(P);
-    current = galerkinProduct(current, P, R, symmetric);
+    P = smoothedProlongator(current, graph, agg, lanczos, alloc);
+    R = transpose(P, alloc);
+    current = galerkinProduct(current, P, R, symmetric, alloc);
   }
   // A second visit of the coarsest level would add nothing to its exact solve.
   for (let l = FIRST_W_LEVEL; wCycle && l + 2 < levels.length; l++) {
     levels[l].coarseVisits = 2;
     const m = levels[l + 1].A.nRows;
-    levels[l + 1].rc = new Float64Array(m);
-    levels[l + 1].dx = new Float64Array(m);
+    alloc.free(levels[l + 1].rc); alloc.free(levels[l + 1].dx);
+    levels[l + 1].rc = alloc.f64(m);
+    levels[l + 1].dx = alloc.f64(m);
   }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
-  const packed = (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
+  // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole
+  // hierarchy into an arena of the exact size. No arena at all: the JavaScript cycle.
+  const packed = arena && spill && !spill.spilled() && arena.fits(arenaVectorBytes(A.nRows))
+    ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows) }
+    : (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
   if (!packed && opts.kernels !== 'javascript') notes.push('no WebAssembly arena could hold the hierarchy; the cycle runs in JavaScript');
   const hierarchy = packed ? packed.hierarchy : built;
   // Complexities against the finest operator the cycle works with (the caller's matrix without negligible entries).

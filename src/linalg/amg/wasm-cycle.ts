@@ -3,6 +3,7 @@
  *  the same bits, about twice as fast as V8's code for the same loops (measured, test/bench/solve.bench.ts).
  *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
  *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
+import { javascriptCgSteps } from '../cg-steps.ts';
 import type { Csr, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
 import type { PackedHierarchy } from './pack.ts';
@@ -119,9 +120,20 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
       cycle(0, input(r, staging.b), output(z, staging.x));
       copyOut(z, staging.x);
     },
+    cgSteps: {
+      update: (alpha, p, q, x, r) => (arena.owns(p) && arena.owns(q) && arena.owns(x) && arena.owns(r) && p.length === x.length
+        ? k.cgUpdate(x.length, alpha, p.byteOffset, q.byteOffset, x.byteOffset, r.byteOffset)
+        : javascriptCgSteps.update(alpha, p, q, x, r)),
+      direction: (beta, z, w, p, q) => (arena.owns(z) && arena.owns(w) && arena.owns(p) && arena.owns(q) && z.length === p.length
+        ? k.cgDirection(p.length, beta, z.byteOffset, w.byteOffset, p.byteOffset, q.byteOffset)
+        : javascriptCgSteps.direction(beta, z, w, p, q)),
+    },
     vector(n: number): Float64Array {
       const v = n === levels[0].n ? spares.pop() : undefined;
-      return v ? v.fill(0) : new Float64Array(n);
+      return v ?? new Float64Array(n);
+    },
+    release(v: Float64Array): void {
+      if (arena.owns(v) && v.length === levels[0].n && !spares.includes(v)) spares.push(v);
     },
     ...(symmetric && h.exactProducts ? {
       withProduct: {

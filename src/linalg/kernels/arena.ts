@@ -1,40 +1,28 @@
 /** A fixed-size block of WebAssembly memory that holds the arrays the sparse kernels work on, handed out as typed
- *  array views. The memory never grows (growing would detach every view), so the caller sizes it up front with
- *  arenaBytes. Offset 0 is never handed out: the kernels' descending loops rely on that (see sparse.wat). */
+ *  array views. The memory never grows (growing would detach every view), so it is reserved generously up front:
+ *  pages that are never written are never backed by physical memory (Linux maps them on first touch), so the
+ *  reservation costs address space, not memory. Freed blocks go to a first-fit free list and are reused, which
+ *  also spares the cost of first touches (page faults). Offset 0 is never handed out: the kernels' descending
+ *  loops rely on that (see sparse.wat). */
+import type { Allocator } from './allocator.ts';
+import type { SparseKernels } from './sparse-kernels.ts';
 import { SPARSE_KERNELS_BASE64 } from './sparse-wasm.ts';
 
 const PAGE = 65536;
-/** Largest memory a 32-bit WebAssembly module can address (65536 pages). */
-export const MAX_ARENA_BYTES = 65536 * PAGE;
+/** Largest memory a 32-bit WebAssembly module can address here (65535 pages: just under 4 GiB). */
+export const MAX_ARENA_BYTES = 65535 * PAGE;
 /** Every array starts on a 64-byte boundary (a cache line). */
 const ALIGN = 64;
 
-/** The exports of sparse.wat; every array argument is a byte offset into the arena. */
-export interface SparseKernels {
-  spmv(n: number, rp: number, ci: number, va: number, x: number, y: number): void;
-  multiplyAdd(n: number, rp: number, ci: number, va: number, y: number, x: number): void;
-  residual(n: number, rp: number, ci: number, va: number, b: number, x: number, r: number): void;
-  addInto(n: number, x: number, y: number): void;
-  forwardSweepFromZero(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
-  forwardSweepFromZeroWithResidual(
-    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
-  forwardSweepWithResidual(
-    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
-  forwardSweep(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
-  backwardSweep(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
-  backwardSweepWithProduct(
-    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, w: number): number;
-}
-
-export interface Arena {
+export interface Arena extends Allocator {
   memory: WebAssembly.Memory;
   kernels: SparseKernels;
-  f64(n: number): Float64Array;
-  i32(n: number): Int32Array;
   /** Whether a view lies in this arena (so the kernels can take its byteOffset). */
   owns(a: ArrayBufferView): boolean;
-  /** Bytes still free. */
+  /** Bytes that can still be handed out in one piece at the end (the free list aside). */
   remaining(): number;
+  /** Whether an array of this many bytes would fit (at the end or in a freed block). */
+  fits(byteLength: number): boolean;
 }
 
 let compiled: WebAssembly.Module | null | undefined;
@@ -51,10 +39,12 @@ function kernelModule(): WebAssembly.Module | null {
   return compiled;
 }
 
+const rounded = (byteLength: number): number => Math.max(ALIGN, Math.ceil(byteLength / ALIGN) * ALIGN);
+
 /** Bytes an arena needs for arrays of these byte lengths (each rounded up to the alignment), plus the reserved start. */
 export function arenaBytes(byteLengths: readonly number[]): number {
   let total = ALIGN;
-  for (const b of byteLengths) total += Math.ceil(b / ALIGN) * ALIGN;
+  for (const b of byteLengths) total += rounded(b);
   return total;
 }
 
@@ -73,19 +63,63 @@ export function createArena(bytes: number): Arena | null {
   const instance = new WebAssembly.Instance(module, { env: { memory } });
   const kernels = instance.exports as unknown as SparseKernels;
   const size = pages * PAGE;
-  let next = ALIGN;
+  let top = ALIGN;
+  /** Freed blocks [offset, bytes], sorted by offset, never adjacent to each other or to `top`. */
+  const holes: [number, number][] = [];
+  const blockOf = new Map<number, number>(); // offset → bytes of every live block
+
+  const giveBack = (at: number, bytes: number): void => {
+    let i = 0;
+    while (i < holes.length && holes[i][0] < at) i++;
+    holes.splice(i, 0, [at, bytes]);
+    // coalesce with the next and the previous hole, then with the top
+    if (i + 1 < holes.length && holes[i][0] + holes[i][1] === holes[i + 1][0]) { holes[i][1] += holes[i + 1][1]; holes.splice(i + 1, 1); }
+    if (i > 0 && holes[i - 1][0] + holes[i - 1][1] === holes[i][0]) { holes[i - 1][1] += holes[i][1]; holes.splice(i, 1); i--; }
+    if (holes[i][0] + holes[i][1] === top) { top = holes[i][0]; holes.splice(i, 1); }
+  };
+  /** Whether the block last taken came from the free list (fresh memory at the top is zero already). */
+  let reused = false;
+  const cleared = <T extends Float64Array | Int32Array>(a: T, zeroed: boolean): T => { if (zeroed && reused) a.fill(0); return a; };
   const take = (byteLength: number): number => {
-    const at = next;
-    next += Math.ceil(byteLength / ALIGN) * ALIGN;
-    if (next > size) throw new Error(`arena: ${byteLength} more bytes asked of a ${size}-byte arena with ${size - at} free`);
+    reused = false;
+    const bytes = rounded(byteLength);
+    for (let i = 0; i < holes.length; i++) {
+      const [at, free] = holes[i];
+      if (free < bytes) continue;
+      if (free === bytes) holes.splice(i, 1); else holes[i] = [at + bytes, free - bytes];
+      blockOf.set(at, bytes);
+      reused = true;
+      return at;
+    }
+    if (top + bytes > size) {
+      throw new RangeError(`arena: ${byteLength} more bytes asked of a ${size}-byte arena with ${size - top} free at the end`);
+    }
+    const at = top;
+    top += bytes;
+    blockOf.set(at, bytes);
     return at;
+  };
+  const release = (a: Float64Array | Int32Array): void => {
+    const bytes = blockOf.get(a.byteOffset);
+    if (a.buffer !== memory.buffer || bytes === undefined) throw new Error('arena: free of an array this arena did not hand out');
+    blockOf.delete(a.byteOffset);
+    giveBack(a.byteOffset, bytes);
   };
   return {
     memory,
     kernels,
-    f64: (n) => new Float64Array(memory.buffer, take(8 * n), n),
-    i32: (n) => new Int32Array(memory.buffer, take(4 * n), n),
+    f64: (n, zeroed = true) => cleared(new Float64Array(memory.buffer, take(8 * n), n), zeroed),
+    i32: (n, zeroed = true) => cleared(new Int32Array(memory.buffer, take(4 * n), n), zeroed),
+    free: release,
+    shrink<T extends Float64Array | Int32Array>(a: T, n: number): T {
+      const bytes = blockOf.get(a.byteOffset);
+      if (a.buffer !== memory.buffer || bytes === undefined) throw new Error('arena: shrink of an array this arena did not hand out');
+      const keep = rounded(n * a.BYTES_PER_ELEMENT);
+      if (keep < bytes) { blockOf.set(a.byteOffset, keep); giveBack(a.byteOffset + keep, bytes - keep); }
+      return a.subarray(0, n) as T;
+    },
     owns: (a) => a.buffer === memory.buffer,
-    remaining: () => size - next,
+    remaining: () => size - top,
+    fits: (byteLength) => top + rounded(byteLength) <= size || holes.some(([, free]) => free >= rounded(byteLength)),
   };
 }

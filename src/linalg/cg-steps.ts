@@ -1,0 +1,31 @@
+/** The two vector updates of preconditioned CG, fused so that each reads its vectors once: here in TypeScript,
+ *  and as the WebAssembly kernels cgUpdate/cgDirection (sparse.wat) for vectors in the multigrid arena. */
+import type { CgSteps } from './types.ts';
+
+export const javascriptCgSteps: CgSteps = {
+  /** x += α p, r −= α q; returns ||r||². */
+  update(alpha, p, q, x, r) {
+    const n = x.length;
+    let rr = 0;
+    for (let i = 0; i < n; i++) {
+      x[i] += alpha * p[i];
+      const ri = r[i] - alpha * q[i];
+      r[i] = ri;
+      rr += ri * ri;
+    }
+    return rr;
+  },
+  /** p = z + β p, q = w + β q with w = A z; returns p·q. */
+  direction(beta, z, w, p, q) {
+    const n = p.length;
+    let pq = 0;
+    for (let i = 0; i < n; i++) {
+      const pi = z[i] + beta * p[i];
+      const qi = w[i] + beta * q[i];
+      p[i] = pi;
+      q[i] = qi;
+      pq += pi * qi;
+    }
+    return pq;
+  },
+};

@@ -1,0 +1,26 @@
+/** The exports of sparse.wat; every array argument is a byte offset into the arena. */
+export interface SparseKernels {
+  spmv(n: number, rp: number, ci: number, va: number, x: number, y: number): void;
+  multiplyAdd(n: number, rp: number, ci: number, va: number, y: number, x: number): void;
+  residual(n: number, rp: number, ci: number, va: number, b: number, x: number, r: number): void;
+  addInto(n: number, x: number, y: number): void;
+  forwardSweepFromZero(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
+  forwardSweepFromZeroWithResidual(
+    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
+  forwardSweepWithResidual(
+    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
+  forwardSweep(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
+  backwardSweep(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
+  backwardSweepWithProduct(
+    n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, w: number): number;
+  /** C = A B into room for every contribution; marker (one i32 per column of B) must hold −1. Returns nnz(C). */
+  sparseProduct(m: number, aRp: number, aCi: number, aVa: number, bRp: number, bCi: number, bVa: number,
+    marker: number, outRp: number, outCi: number, outVa: number): number;
+  /** Upper triangle of C = R M, same conventions. */
+  upperProduct(m: number, rRp: number, rCi: number, rVa: number, mRp: number, mCi: number, mVa: number,
+    marker: number, outRp: number, outCi: number, outVa: number): number;
+  cgUpdate(n: number, alpha: number, p: number, q: number, x: number, r: number): number;
+  cgDirection(n: number, beta: number, z: number, w: number, p: number, q: number): number;
+  /** The scatter of a transpose: fill holds the transpose's row starts and is advanced. */
+  transposeInto(n: number, rp: number, ci: number, va: number, fill: number, tCi: number, tVa: number): void;
+}
