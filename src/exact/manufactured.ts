@@ -1,5 +1,5 @@
 import { RungsInputError } from '../errors.ts';
-import { compileFlux, compileScalar, compileVector } from './compile.ts';
+import { compileFlux, compileScalar, compileValueAndGradient, compileVector } from './compile.ts';
 import { fieldPath, type FieldNames } from './field-names.ts';
 import { assertFinite } from './finite.ts';
 import { parseFormula } from './formula.ts';
@@ -59,6 +59,7 @@ export function manufacture(input: FormulaInput, fields: FieldNames = '', option
     origin: 'formulas',
     u: compileScalar(u),
     grad: compileVector(grad),
+    valueAndGrad: compileValueAndGradient(u, grad),
     f: compileScalar(f),
     k: compileScalar(k),
     b: compileVector(b),

@@ -6,6 +6,8 @@ export type ScalarFn = (x: number, y: number, z: number) => number;
 
 /** A vector field: writes its `dim` components into out[0 .. dim-1] (out is reused by the caller, never kept). */
 export type VectorFn = (x: number, y: number, z: number, out: Float64Array) => void;
+/** Writes ∇u(x, y, z) to out and returns u(x, y, z). */
+export type ValueGradFn = (x: number, y: number, z: number, out: Float64Array) => number;
 
 /** Normal flux k ∇u·n at a point, n the outward unit normal (components beyond the dimension are ignored). */
 export type FluxFn = (x: number, y: number, z: number, nx: number, ny: number, nz: number) => number;
@@ -30,6 +32,8 @@ export interface ManufacturedSolution {
   origin: 'formulas' | 'functions';
   u: ScalarFn;
   grad: VectorFn;
+  /** u and ∇u in one call with shared sub-expressions (formulas only; the error integration uses it). */
+  valueAndGrad?: ValueGradFn;
   f: ScalarFn;
   k: ScalarFn;
   b: VectorFn;

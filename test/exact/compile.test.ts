@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { derivative, parse } from 'mathjs';
-import { compileFlux, compileScalar, compileVector, javaScriptOf } from '../../src/exact/compile.ts';
+import { compileFlux, compileScalar, compileValueAndGradient, compileVector, javaScriptOf } from '../../src/exact/compile.ts';
 import { parseFormula } from '../../src/exact/formula.ts';
 import { mulberry32 } from '../../src/mesh/random.ts';
 
@@ -80,5 +80,37 @@ describe('compileVector and compileFlux', () => {
       const expected = (k.evaluate({ x, y }) as number) * (g0 * nx + g1 * ny);
       expect(relativeDifference(flux(x, y, 0, nx, ny, 0), expected)).toBeLessThanOrEqual(1e-14);
     }
+  });
+});
+
+describe('compileValueAndGradient', () => {
+  // Gradients by mathjs's derivative (an outside symbolic differentiator); each value must be the same bits as the
+  // separately compiled u and ∇u, which the tests above check against mathjs's own evaluation.
+  const formulas = [
+    'sin(pi*x) * sin(pi*y)',
+    'exp(-(x^2 + y^2) / 0.1) + cos(3*x*y)^2',
+    'x^3 * y^2 + sqrt(1 + x^2 + y^2) * log(2 + x)',
+    '(x - 0.3)^2 * tanh(20 * (y - 0.5))',
+  ];
+  for (const text of formulas) {
+    it(`gives the bits of compileScalar and compileVector: ${text}`, () => {
+      const u = parse(text);
+      const grad = [derivative(u, 'x'), derivative(u, 'y')];
+      const both = compileValueAndGradient(u, grad);
+      const value = compileScalar(u), gradient = compileVector(grad);
+      const g1 = new Float64Array(2), g2 = new Float64Array(2);
+      for (const [x, y] of randomPoints(40, 7)) {
+        const v = both(x, y, 0, g1);
+        gradient(x, y, 0, g2);
+        expect(v).toBe(value(x, y, 0));
+        expect(Array.from(g1)).toEqual(Array.from(g2));
+      }
+    });
+  }
+
+  it('evaluates each distinct call once: sin(πx)·sin(πy) needs four, not six', () => {
+    const u = parse('sin(pi*x) * sin(pi*y)');
+    const source = compileValueAndGradient(u, [derivative(u, 'x'), derivative(u, 'y')]).toString();
+    expect(source.match(/Math\.(sin|cos)\(/g)?.length).toBe(4);
   });
 });
