@@ -1,6 +1,6 @@
 /** The two vector updates of preconditioned CG, fused so that each reads its vectors once: here in TypeScript,
  *  and as the WebAssembly kernels cgUpdate/cgDirection (sparse.wat) for vectors in the multigrid arena. */
-import type { CgSteps } from './types.ts';
+import type { CgSteps, Csr } from './types.ts';
 
 export const javascriptCgSteps: CgSteps = {
   /** x += α p, r −= α q; returns ||r||². */
@@ -29,3 +29,18 @@ export const javascriptCgSteps: CgSteps = {
     return pq;
   },
 };
+
+/** q = A p; returns p·q (one sweep). */
+export function spmvDot(A: Csr, p: Float64Array, q: Float64Array): number {
+  const { nRows: n, rowPtr, colIdx, values } = A;
+  let pq = 0;
+  let k = rowPtr[0];
+  for (let i = 0; i < n; i++) {
+    const end = rowPtr[i + 1];
+    let s = 0;
+    for (; k < end; k++) s += values[k] * p[colIdx[k]];
+    q[i] = s;
+    pq += p[i] * s;
+  }
+  return pq;
+}

@@ -8,7 +8,7 @@ import {
   SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
-import { javascriptCgSteps } from './cg-steps.ts';
+import { javascriptCgSteps, spmvDot } from './cg-steps.ts';
 import { dot } from './vector.ts';
 
 /** Relative symmetry tolerance of the check CG runs before iterating (see isSymmetric). */
@@ -60,6 +60,9 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
   const x = M.vector ? vector() : x0InOut;
   if (x !== x0InOut) x.set(x0InOut);
   const steps = M.cgSteps ?? javascriptCgSteps;
+  // q = A p through the preconditioner's copy of A when it offers one (WebAssembly), else here.
+  const product = M.product && M.product.matrix === A ? M.product : null;
+  const applyA = (v: Float64Array, out: Float64Array): number => (product ? product.spmvDot(v, out) : spmvDot(A, v, out));
   const iterate = (): SolveStats => {
     let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(A, b, x, r) / bNorm;
     if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
@@ -74,7 +77,7 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
     /** Search direction from the current residual: z = M⁻¹r, p = z, q = A p, and r·z, p·q. */
     const restart = (): void => {
       if (fusedM) { rz = fusedM.apply(r, z, w); p.set(z); q.set(w); pq = dot(p, q); }
-      else { M.apply(r, z); p.set(z); rz = dot(r, z); pq = spmvDot(A, p, q); }
+      else { M.apply(r, z); p.set(z); rz = dot(r, z); pq = applyA(p, q); }
       sinceProduct = 0;
     };
     restart();
@@ -144,12 +147,12 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
         const beta = rzNew / rz;
         // q = A p by the recursion A(z + βp) = Az + βAp, refreshed by a true product now and then against drift.
         if (++sinceProduct < PRODUCT_REFRESH) pq = steps.direction(beta, z, w, p, q);
-        else { nextDirection(beta, z, p); pq = spmvDot(A, p, q); sinceProduct = 0; }
+        else { nextDirection(beta, z, p); pq = applyA(p, q); sinceProduct = 0; }
       } else {
         M.apply(r, z);
         rzNew = dot(r, z);
         nextDirection(rzNew / rz, z, p);
-        pq = spmvDot(A, p, q);
+        pq = applyA(p, q);
       }
       rz = rzNew;
     }
@@ -191,20 +194,6 @@ function trueResidual(A: Csr, b: Float64Array, x: Float64Array, r: Float64Array)
   return Math.sqrt(rr);
 }
 
-/** q = A p; returns p·q (one sweep). */
-function spmvDot(A: Csr, p: Float64Array, q: Float64Array): number {
-  const { nRows: n, rowPtr, colIdx, values } = A;
-  let pq = 0;
-  let k = rowPtr[0];
-  for (let i = 0; i < n; i++) {
-    const end = rowPtr[i + 1];
-    let s = 0;
-    for (; k < end; k++) s += values[k] * p[colIdx[k]];
-    q[i] = s;
-    pq += p[i] * s;
-  }
-  return pq;
-}
 
 
 

@@ -22,6 +22,9 @@ export interface Preconditioner {
   release?(v: Float64Array): void;
   /** Optional: CG's vector updates for vectors in that memory (falling back to TypeScript for others). */
   cgSteps?: CgSteps;
+  /** Optional: q = matrix·p (returning p·q) with a copy of `matrix` in that memory; CG uses it in place of its own
+   *  product when `matrix` is the very matrix it solves with. */
+  product?: { matrix: Csr; spmvDot(p: Float64Array, q: Float64Array): number };
 }
 
 /** The fused vector updates of preconditioned CG. */

@@ -24,6 +24,9 @@ export interface PackedHierarchy {
   staging: { b: Float64Array; x: Float64Array; w: Float64Array };
   /** Finest-size vectors in the arena not yet handed out (see Preconditioner.vector). */
   spares: Float64Array[];
+  /** A copy of the caller's matrix in the arena, when the finest level's operator differs from it (round-off
+   *  entries dropped), so that CG's products with A run as kernels too. */
+  operatorCopy?: Csr;
 }
 
 const csrByteLengths = (A: Csr): number[] => [A.rowPtr.byteLength, A.colIdx.byteLength, A.values.byteLength];

@@ -17,13 +17,23 @@ import { finestOperator } from './negligible-entries.ts';
 import { smoothedProlongator } from './prolongator.ts';
 import { strengthGraph } from './strength.ts';
 import { arenaEstimate, arenaVectorBytes, arenaVectors, packHierarchy, spillingAllocator } from './pack.ts';
-import { createArena } from '../kernels/arena.ts';
+import { createArena, type Arena } from '../kernels/arena.ts';
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { AmgHierarchy, AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
 import { wasmCyclePreconditioner } from './wasm-cycle.ts';
 
 const WHERE = 'linalg/amg';
+
+/** CG's products with A run as a kernel when A has a copy in the arena; worth its memory only when the cycle's own
+ *  finest operator cannot stand in for A (see FinestOperator.exactProducts) and there is room. */
+function operatorCopyFor(arena: Arena, A: Csr, wanted: boolean): { operatorCopy?: Csr } {
+  const bytes = A.rowPtr.byteLength + A.colIdx.byteLength + A.values.byteLength + 3 * 64;
+  if (!wanted || !arena.fits(bytes)) return {};
+  const rowPtr = arena.i32(A.rowPtr.length, false), colIdx = arena.i32(A.colIdx.length, false), values = arena.f64(A.values.length, false);
+  rowPtr.set(A.rowPtr); colIdx.set(A.colIdx); values.set(A.values);
+  return { operatorCopy: { nRows: A.nRows, nCols: A.nCols, rowPtr, colIdx, values } };
+}
 
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
 const STALLED_COARSENING = 0.8;
@@ -110,7 +120,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole
   // hierarchy into an arena of the exact size. No arena at all: the JavaScript cycle.
   const packed = arena && spill && !spill.spilled() && arena.fits(arenaVectorBytes(A.nRows))
-    ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows) }
+    ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows), ...operatorCopyFor(arena, A, symmetric && !exactProducts) }
     : (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
   if (!packed && opts.kernels !== 'javascript') notes.push('no WebAssembly arena could hold the hierarchy; the cycle runs in JavaScript');
   const hierarchy = packed ? packed.hierarchy : built;

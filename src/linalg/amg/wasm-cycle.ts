@@ -3,7 +3,7 @@
  *  the same bits, about twice as fast as V8's code for the same loops (measured, test/bench/solve.bench.ts).
  *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
  *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
-import { javascriptCgSteps } from '../cg-steps.ts';
+import { javascriptCgSteps, spmvDot } from '../cg-steps.ts';
 import type { Csr, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
 import type { PackedHierarchy } from './pack.ts';
@@ -128,6 +128,17 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
         ? k.cgDirection(p.length, beta, z.byteOffset, w.byteOffset, p.byteOffset, q.byteOffset)
         : javascriptCgSteps.direction(beta, z, w, p, q)),
     },
+    ...(packed.operatorCopy ? {
+      product: {
+        matrix: h.operator,
+        spmvDot(p: Float64Array, q: Float64Array): number {
+          const C = packed.operatorCopy!;
+          return arena.owns(p) && arena.owns(q)
+            ? k.spmvDot(C.nRows, C.rowPtr.byteOffset, C.colIdx.byteOffset, C.values.byteOffset, p.byteOffset, q.byteOffset)
+            : spmvDot(h.operator, p, q);
+        },
+      },
+    } : {}),
     vector(n: number): Float64Array {
       const v = n === levels[0].n ? spares.pop() : undefined;
       return v ?? new Float64Array(n);

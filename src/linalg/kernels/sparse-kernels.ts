@@ -23,4 +23,6 @@ export interface SparseKernels {
   cgDirection(n: number, beta: number, z: number, w: number, p: number, q: number): number;
   /** The scatter of a transpose: fill holds the transpose's row starts and is advanced. */
   transposeInto(n: number, rp: number, ci: number, va: number, fill: number, tCi: number, tVa: number): void;
+  /** y = A x; returns x·y. */
+  spmvDot(n: number, rp: number, ci: number, va: number, x: number, y: number): number;
 }
