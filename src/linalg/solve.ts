@@ -127,7 +127,13 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
     skipSymmetryCheck: method === 'cg',
   };
   const run = method === 'cg' ? cg : method === 'gmres' ? gmres : bicgstab;
-  const stats = run(A, b, x, solveOpts);
+  let stats: SolveStats;
+  try {
+    stats = run(A, b, x, solveOpts);
+  } finally {
+    // The preconditioner lives only for this solve: the multigrid arena's memory (already resident) goes to the next.
+    M.dispose?.();
+  }
   stats.setupSeconds = setupSeconds;
   const notes = [stats.message, ...(amg?.notes ?? []), fallback].filter(Boolean);
   if (notes.length > 0) stats.message = notes.join('; ');

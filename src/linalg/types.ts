@@ -20,6 +20,9 @@ export interface Preconditioner {
   vector?(n: number): Float64Array;
   /** Gives back a vector from `vector` once the solver is done with it (so the next solve can take it again). */
   release?(v: Float64Array): void;
+  /** Optional: the preconditioner will not be used again; its memory may go to the next one (the multigrid arena).
+   *  Whoever calls it must hold no vector from `vector`. */
+  dispose?(): void;
   /** Optional: CG's vector updates for vectors in that memory (falling back to TypeScript for others). */
   cgSteps?: CgSteps;
   /** Optional: q = matrix·p (returning p·q) with a copy of `matrix` in that memory; CG uses it in place of its own

@@ -20,6 +20,7 @@ import { csrFromDense, diagonalPositions, spmv } from '../../src/linalg/csr.ts';
 import { arenaBytes, createArena, MAX_ARENA_BYTES, type Arena } from '../../src/linalg/kernels/arena.ts';
 import type { Csr } from '../../src/linalg/types.ts';
 import { convectionDiffusion } from './helpers/convection.ts';
+import { mulberry32 } from '../../src/mesh/random.ts';
 import { checkerboard, lagrangeGridStiffness } from './helpers/lagrange-grid.ts';
 import { randomDiagonallyDominant, randomSpd, randomVector } from './helpers/random-matrices.ts';
 
@@ -51,6 +52,33 @@ describe('arena', () => {
     expect(c.byteOffset).toBeGreaterThanOrEqual(b.byteOffset + 40);
     expect(arena.owns(new Float64Array(3))).toBe(false);
     expect(() => arena.f64(arena.remaining() / 8 + 1)).toThrow(/arena/);
+  });
+
+  it('never hands out overlapping blocks, and zeroed ones are zero after any reuse (seeded random use)', () => {
+    const rand = mulberry32(7);
+    const arena = createArena(1 << 21)!;
+    const live: Float64Array[] = [];
+    for (let step = 1; step <= 5000; step++) {
+      const op = rand();
+      if (op < 0.5 || live.length === 0) {
+        const n = Math.floor(rand() * 1500);
+        if (!arena.fits(8 * n)) continue;
+        const zeroed = rand() < 0.5;
+        const a = arena.f64(n, zeroed);
+        if (zeroed) expect(a.every((v) => v === 0), `step ${step}`).toBe(true);
+        a.fill(step); // dirty it for whoever gets this memory next
+        live.push(a);
+      } else if (op < 0.8) {
+        const i = Math.floor(rand() * live.length);
+        arena.free(live[i]);
+        live.splice(i, 1);
+      } else {
+        const i = Math.floor(rand() * live.length);
+        live[i] = arena.shrink(live[i], Math.floor(rand() * (live[i].length + 1)));
+      }
+      const spans = live.map((a) => [a.byteOffset, a.byteOffset + a.byteLength]).sort((x, y) => x[0] - y[0]);
+      for (let k = 1; k < spans.length; k++) expect(spans[k][0], `step ${step}`).toBeGreaterThanOrEqual(spans[k - 1][1]);
+    }
   });
 
   it('declines sizes beyond 32-bit addressing instead of failing later', () => {
@@ -174,6 +202,27 @@ describe('the multigrid cycle in WebAssembly', () => {
     for (const v of got) preconditioner.release!(v);
     expect(preconditioner.vector!(A.nRows).buffer === arenaBuffer).toBe(true);
     expect(preconditioner.vector!(7).length).toBe(7);
+  });
+
+  it('a disposed preconditioner hands its memory to the next setup, which still gives the same bits', () => {
+    const A = lagrangeGridStiffness('triangle', 1, 40, checkerboard(1000)).A;
+    const b = randomVector(A.nRows, 4);
+    const solve = (): { x: Float64Array; buffer: ArrayBufferLike; iterations: number } => {
+      const { preconditioner } = amgSetup(A);
+      const x = new Float64Array(A.nRows);
+      const s = cg(A, b, x, { relTol: 1e-10, preconditioner });
+      expect(s.converged).toBe(true);
+      const buffer = preconditioner.vector!(A.nRows).buffer;
+      preconditioner.dispose!();
+      return { x, buffer, iterations: s.iterations };
+    };
+    const first = solve(), second = solve();
+    expect(second.buffer).toBe(first.buffer); // the same (already written) memory
+    expect(second.iterations).toBe(first.iterations);
+    same(second.x, first.x);
+    const reference = new Float64Array(A.nRows);
+    cg(A, b, reference, { relTol: 1e-10, preconditioner: amgSetup(A, { kernels: 'javascript' }).preconditioner });
+    same(second.x, reference);
   });
 
   it('PCG with either kernels takes the same iterations to the same solution', () => {

@@ -14,6 +14,7 @@
  *    or founds a singleton: leaving it out of the coarse space would lose the constant there.
  *  Decoupled nodes (no coupling of threshold size, e.g. Dirichlet identity rows) stay out of every aggregate: the
  *  smoother solves them exactly, so the coarse space need not represent them. */
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 import { DECOUPLED, HAS_STRONG, type StrengthGraph } from './strength.ts';
 
@@ -25,20 +26,23 @@ export interface Aggregation {
   count: number;
 }
 
-export function aggregate(A: Csr, graph: StrengthGraph, diag: Float64Array, typicalRootsFirst: boolean): Aggregation {
+/** aggregateOf comes from `alloc` (the caller frees it); the working arrays are given back before returning. */
+export function aggregate(
+  A: Csr, graph: StrengthGraph, diag: Float64Array, typicalRootsFirst: boolean, alloc: Allocator = heapAllocator,
+): Aggregation {
   const { nRows: n, rowPtr, colIdx, values } = A;
   const { strong, rowKind } = graph;
   const UNSEEN = -2;
   const WEAK_ONLY = -3;
-  const aggregateOf = new Int32Array(n);
-  const fromPass1 = new Uint8Array(n);
+  const aggregateOf = alloc.i32(n, false);
+  const fromPass1 = alloc.u8(n);
   for (let i = 0; i < n; i++) {
     const kind = rowKind[i];
     aggregateOf[i] = kind === HAS_STRONG ? UNSEEN : kind === DECOUPLED ? NOT_AGGREGATED : WEAK_ONLY;
   }
   let count = 0;
   // Pass 1.
-  const order = typicalRootsFirst ? typicalDegreeFirst(A, strong) : null;
+  const order = typicalRootsFirst ? typicalDegreeFirst(A, strong, alloc) : null;
   for (let t = 0; t < n; t++) {
     const i = order ? order[t] : t;
     if (aggregateOf[i] !== UNSEEN) continue;
@@ -88,13 +92,15 @@ export function aggregate(A: Csr, graph: StrengthGraph, diag: Float64Array, typi
     }
     aggregateOf[i] = best >= 0 ? best : count++;
   }
+  alloc.free(fromPass1);
+  if (order) alloc.free(order);
   return { aggregateOf, count };
 }
 
 /** The nodes whose number of strong couplings is at least the most common number, then the rest, in index order. */
-function typicalDegreeFirst(A: Csr, strong: Uint8Array): Int32Array {
+function typicalDegreeFirst(A: Csr, strong: Uint8Array, alloc: Allocator): Int32Array {
   const { nRows: n, rowPtr } = A;
-  const degree = new Int32Array(n);
+  const degree = alloc.i32(n, false);
   let maxDegree = 0;
   for (let i = 0; i < n; i++) {
     let d = 0;
@@ -106,9 +112,10 @@ function typicalDegreeFirst(A: Csr, strong: Uint8Array): Int32Array {
   for (let i = 0; i < n; i++) histogram[degree[i]]++;
   let mode = 0;
   for (let d = 1; d <= maxDegree; d++) if (histogram[d] > histogram[mode]) mode = d;
-  const order = new Int32Array(n);
+  const order = alloc.i32(n, false);
   let t = 0;
   for (let i = 0; i < n; i++) if (degree[i] >= mode) order[t++] = i;
   for (let i = 0; i < n; i++) if (degree[i] < mode) order[t++] = i;
+  alloc.free(degree);
   return order;
 }

@@ -13,9 +13,10 @@ import type { AmgHierarchy, AmgLevel } from './types.ts';
 const STAGING_VECTORS = 3;
 export const SPARE_VECTORS = 6;
 /** Arena reserved for building a hierarchy, in bytes of the caller's matrix. Smoothed aggregation of P1–P3
- *  matrices needs about 4–8 (hierarchy with operator complexity 1.3–2, the prolongators, and the intermediate
- *  product A P with its bound-sized buffers); the rest is headroom that costs address space only. */
-const ARENA_PER_MATRIX_BYTE = 48;
+ *  matrices needs about 4–8 (hierarchy with operator complexity 1.1–1.4, the prolongators, the intermediate
+ *  product A P and the bound-sized buffers of the products); the rest is headroom that costs address space only,
+ *  though reserving it is not free (about 10 ms per GB, measured): 48 took 40–50 ms at 1M P1 unknowns. */
+const ARENA_PER_MATRIX_BYTE = 24;
 
 export interface PackedHierarchy {
   hierarchy: AmgHierarchy;
@@ -55,6 +56,7 @@ export function spillingAllocator(arena: Arena): Allocator & { spilled(): boolea
   return {
     f64: (n, zeroed) => (fits(8 * n) ? arena.f64(n, zeroed) : heapAllocator.f64(n)),
     i32: (n, zeroed) => (fits(4 * n) ? arena.i32(n, zeroed) : heapAllocator.i32(n)),
+    u8: (n, zeroed) => (fits(n) ? arena.u8(n, zeroed) : heapAllocator.u8(n)),
     free: (a) => { if (arena.owns(a)) arena.free(a); },
     shrink: (a, n) => (arena.owns(a) ? arena.shrink(a, n) : heapAllocator.shrink(a, n)),
     spilled: () => spilled,
@@ -66,7 +68,6 @@ function levelByteLengths(L: AmgLevel): number[] {
   const out = [...csrByteLengths(L.A), L.diagPos.byteLength, L.invDiag.byteLength, L.b.byteLength, L.x.byteLength,
     L.r.byteLength, L.rc.byteLength, L.dx.byteLength];
   if (L.P) out.push(...csrByteLengths(L.P));
-  if (L.R) out.push(...csrByteLengths(L.R));
   return out;
 }
 
@@ -81,7 +82,7 @@ export function packHierarchy(h: AmgHierarchy): PackedHierarchy | null {
   const csr = (A: Csr): Csr => ({ nRows: A.nRows, nCols: A.nCols, rowPtr: i32(A.rowPtr), colIdx: i32(A.colIdx), values: f64(A.values) });
   const levels = h.levels.map((L): AmgLevel => ({
     ...L,
-    A: csr(L.A), diagPos: i32(L.diagPos), invDiag: f64(L.invDiag), P: L.P && csr(L.P), R: L.R && csr(L.R),
+    A: csr(L.A), diagPos: i32(L.diagPos), invDiag: f64(L.invDiag), P: L.P && csr(L.P),
     b: f64(L.b), x: f64(L.x), r: f64(L.r), rc: f64(L.rc), dx: f64(L.dx),
   }));
   return { hierarchy: { ...h, levels }, arena, ...arenaVectors(arena, n0) };

@@ -15,20 +15,20 @@ export function smoothedProlongator(
   const { strong, filteredDiag: dF } = graph;
   const { aggregateOf, count } = agg;
   // Tentative prolongator values 1/√|aggregate|.
-  const size = new Float64Array(count);
+  const size = alloc.f64(count);
   for (let i = 0; i < n; i++) if (aggregateOf[i] >= 0) size[aggregateOf[i]]++;
   for (let a = 0; a < count; a++) size[a] = 1 / Math.sqrt(size[a]);
-  const t = new Float64Array(n);
+  const t = alloc.f64(n);
   for (let i = 0; i < n; i++) if (aggregateOf[i] >= 0) t[i] = size[aggregateOf[i]];
 
   let rho = graph.gershgorinBound;
-  if (lanczosSteps > 0) rho = lanczosSpectralRadius(A, strong, dF, lanczosSteps, rho);
+  if (lanczosSteps > 0) rho = lanczosSpectralRadius(A, strong, dF, lanczosSteps, rho, alloc);
   const omega = 4 / (3 * rho);
 
   // Row i: t_i(1 − ω) on agg(i), −ω a_ij t_j / a^F_ii on agg(j) for strong j. slot[a] is the position of aggregate
   // a in the row being built, valid while owner[a] is that row.
-  const owner = new Int32Array(count).fill(-1);
-  const slot = new Int32Array(count);
+  const owner = alloc.i32(count, false).fill(-1);
+  const slot = alloc.i32(count, false);
   const pPtr = alloc.i32(n + 1);
   // At most one entry per strong coupling plus one per row; the unused tail is given back at the end.
   const cap = n + graph.strongCount;
@@ -62,5 +62,6 @@ export function smoothedProlongator(
     }
     pPtr[i + 1] = nnz;
   }
+  alloc.free(size); alloc.free(t); alloc.free(owner); alloc.free(slot);
   return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: alloc.shrink(pCol, nnz), values: alloc.shrink(pVal, nnz) };
 }

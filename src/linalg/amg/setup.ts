@@ -69,7 +69,6 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const alloc: Allocator = spill ?? heapAllocator;
   let current = A;
   let P: Csr | null = null;
-  let R: Csr | null = null;
   let exactProducts = true;
   for (let l = 0; ; l++) {
     const n = current.nRows;
@@ -85,27 +84,34 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     const { diagPos, diag, invDiag } = scan;
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
-      A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P, R,
+      A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P,
       b: alloc.f64(l === 0 ? 0 : n), x: alloc.f64(l === 0 ? 0 : n), r: alloc.f64(onCoarsest ? 0 : n),
       rc: alloc.f64(0), dx: alloc.f64(0),
     });
     if (onCoarsest) { alloc.free(diag); break; }
 
-    const graph = strengthGraph(current, diag, theta0 * Math.pow(0.5, l));
-    const agg = aggregate(current, graph, diag, l === 0);
+    const graph = strengthGraph(current, diag, theta0 * Math.pow(0.5, l), alloc);
+    const agg = aggregate(current, graph, diag, l === 0, alloc);
     alloc.free(diag);
+    const freeGraph = (): void => {
+      alloc.free(graph.strong); alloc.free(graph.rowKind); alloc.free(graph.filteredDiag); alloc.free(agg.aggregateOf);
+    };
     if (agg.count === 0 || agg.count > STALLED_COARSENING * n) {
       notes.push(`coarsening stalled on level ${l} (${n} → ${agg.count} aggregates)`);
       alloc.free(levels[l].r);
       levels[l].r = alloc.f64(0);
+      freeGraph();
       break;
     }
     // Gershgorin is close to ρ(D⁻¹A) on a diagonally dominant finest level (discretised diffusion as an M-matrix:
     // ρ → 2 as h → 0 for the five-point stencil; common practice, no source); elsewhere a Lanczos estimate.
     const lanczos = symmetric && (l > 0 || !graph.diagonallyDominant) ? LANCZOS_STEPS : 0;
     P = smoothedProlongator(current, graph, agg, lanczos, alloc);
-    R = transpose(P, alloc);
+    freeGraph();
+    // Pᵀ only for the Galerkin product (its memory goes to the next level): the cycle restricts with P's rows.
+    const R = transpose(P, alloc);
     current = galerkinProduct(current, P, R, symmetric, alloc);
+    alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values);
   }
   // A second visit of the coarsest level would add nothing to its exact solve.
   for (let l = FIRST_W_LEVEL; wCycle && l + 2 < levels.length; l++) {

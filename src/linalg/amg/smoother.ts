@@ -112,13 +112,15 @@ export function residualInto(A: Csr, b: Float64Array, x: Float64Array, r: Float6
   }
 }
 
-/** bc = R r with R = Pᵀ stored by rows (long rows: one per aggregate). */
-export function restrict(R: Csr, r: Float64Array, bc: Float64Array): void {
-  const { nRows: n, rowPtr, colIdx, values } = R;
-  for (let I = 0; I < n; I++) {
-    let s = 0;
-    for (let k = rowPtr[I]; k < rowPtr[I + 1]; k++) s += values[k] * r[colIdx[k]];
-    bc[I] = s;
+/** bc = Pᵀ r from the rows of P (no stored transpose): bc is zeroed, then fine row i adds p_iI r_i to bc[I], so
+ *  every bc[I] sums its terms in increasing i, the order of a row of R = Pᵀ. */
+export function restrictByTranspose(P: Csr, r: Float64Array, bc: Float64Array): void {
+  const { nRows: n, rowPtr, colIdx, values } = P;
+  bc.fill(0);
+  let k = rowPtr[0];
+  for (let i = 0; i < n; i++) {
+    const ri = r[i], end = rowPtr[i + 1];
+    for (; k < end; k++) bc[colIdx[k]] += values[k] * ri;
   }
 }
 

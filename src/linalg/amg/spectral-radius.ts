@@ -3,23 +3,24 @@
  *  (Lanczos 1950; Saad 2003, Iterative Methods for Sparse Linear Systems, §6.6). The largest Ritz value approaches
  *  λ_max from below, so the estimate is inflated slightly and capped by Gershgorin's bound. */
 import { mulberry32 } from '../random.ts';
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
 export function lanczosSpectralRadius(
-  A: Csr, strong: Uint8Array, dF: Float64Array, steps: number, gershgorin: number,
+  A: Csr, strong: Uint8Array, dF: Float64Array, steps: number, gershgorin: number, alloc: Allocator = heapAllocator,
 ): number {
   const n = A.nRows;
   const k = Math.min(steps, n);
   const { rowPtr, colIdx, values } = A;
   // B = D_F^{-1/2} A_F D_F^{-1/2} is applied as s ⊙ (A_F (s ⊙ v)), s = D_F^{-1/2}, with A_F read from A through the
   // strong mask: no copy of the matrix (on the finest level a copy would cost more than the four products).
-  const s = new Float64Array(n);
+  const s = alloc.f64(n, false);
   for (let i = 0; i < n; i++) s[i] = dF[i] > 0 ? 1 / Math.sqrt(dF[i]) : 0;
-  const u = new Float64Array(n);
+  const u = alloc.f64(n, false);
   const rand = mulberry32(0x5eed);
-  let v = new Float64Array(n);
-  let vPrev = new Float64Array(n);
-  const w = new Float64Array(n);
+  let v = alloc.f64(n, false);
+  let vPrev = alloc.f64(n); // zero: the first step subtracts β₋₁ v₋₁ = 0 · v₋₁
+  const w = alloc.f64(n, false);
   let nrm = 0;
   for (let i = 0; i < n; i++) { v[i] = rand() - 0.5; nrm += v[i] * v[i]; }
   nrm = Math.sqrt(nrm);
@@ -50,6 +51,7 @@ export function lanczosSpectralRadius(
     for (let i = 0; i < n; i++) { const vi = w[i] * inv; v[i] = vi; u[i] = s[i] * vi; }
     betaPrev = b;
   }
+  alloc.free(s); alloc.free(u); alloc.free(v); alloc.free(vPrev); alloc.free(w);
   const lmax = largestTridiagonalEigenvalue(alpha, beta, m);
   return Math.min(gershgorin, 1.05 * lmax);
 }

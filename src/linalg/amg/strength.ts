@@ -7,6 +7,7 @@
  *  P2 at 1M unknowns (operator complexity 1.13); left out, 8 dofs and 18 iterations (measured).
  *  The same sweep forms the diagonal of the filtered matrix A_F (weak couplings lumped into the diagonal, §4) and
  *  Gershgorin's bound on ρ(D_F⁻¹A_F), which the prolongator smoothing needs. */
+import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
 /** How a row takes part in the aggregation. */
@@ -35,11 +36,11 @@ export interface StrengthGraph {
 /** Smallest filtered diagonal accepted, as a fraction of a_ii. */
 const MIN_FILTERED_DIAGONAL = 0.1;
 
-export function strengthGraph(A: Csr, diag: Float64Array, theta: number): StrengthGraph {
+export function strengthGraph(A: Csr, diag: Float64Array, theta: number, alloc: Allocator = heapAllocator): StrengthGraph {
   const { nRows: n, rowPtr, colIdx, values } = A;
-  const strong = new Uint8Array(values.length);
-  const rowKind = new Uint8Array(n);
-  const filteredDiag = new Float64Array(n);
+  const strong = alloc.u8(values.length);
+  const rowKind = alloc.u8(n, false);
+  const filteredDiag = alloc.f64(n, false);
   const theta2 = theta * theta;
   let bound = 1;
   let dominant = true;

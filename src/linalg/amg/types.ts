@@ -41,8 +41,6 @@ export interface AmgLevel {
   /** Prolongator from this level to the next finer one (nCols = this level's size, nRows = the finer size);
    *  null on the finest level. */
   P: Csr | null;
-  /** R = Pᵀ (restriction to this level), null on the finest level. */
-  R: Csr | null;
   /** Right-hand side and iterate of this level inside a cycle (empty on the finest, which works on the caller's
    *  arrays), and the residual this level hands to the next coarser one. */
   b: Float64Array;

@@ -1,6 +1,6 @@
 /** The multigrid cycle as a preconditioner: z = B r with B one cycle from a zero initial guess.
  *  Pre-smoothing by forward and post-smoothing by backward Gauss–Seidel (symmetric B for symmetric A), restriction
- *  R = Pᵀ, prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2). A level with
+ *  Pᵀ (from the rows of P: no transpose is kept), prolongation P, direct solve on the coarsest level (Vaněk, Mandel & Brezina 1996, §2). A level with
  *  coarseVisits = 2 cycles its coarser level twice (the W-cycle, γ = 2 in Hackbusch 1985, Multi-Grid Methods and
  *  Applications, §2.4, from memory); the setup does that below the first coarse level only, where it is cheap.
  *  For symmetric A the last pre-smoothing sweep also yields the residual from one pass over the matrix, and on the
@@ -11,7 +11,7 @@ import { spmv as spmvInto } from '../csr.ts';
 import type { Preconditioner } from '../types.ts';
 import {
   backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual,
-  forwardSweepWithResidual, prolongAndAdd, residualInto, restrict,
+  forwardSweepWithResidual, prolongAndAdd, residualInto, restrictByTranspose,
 } from './smoother.ts';
 import type { AmgHierarchy, AmgLevel } from './types.ts';
 
@@ -51,7 +51,7 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
    *  iteration are again a symmetric operator, so B stays a valid CG preconditioner. */
   const coarseCorrection = (l: number, x: Float64Array): void => {
     const C = levels[l + 1];
-    restrict(C.R!, levels[l].r, C.b);
+    restrictByTranspose(C.P!, levels[l].r, C.b);
     cycle(l + 1, C.b, C.x);
     if (visits[l] > 1) {
       residualInto(C.A, C.b, C.x, C.rc);

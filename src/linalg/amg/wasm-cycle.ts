@@ -12,8 +12,8 @@ import type { PackedHierarchy } from './pack.ts';
 interface LevelPointers {
   n: number; rp: number; ci: number; va: number; dp: number; inv: number;
   b: number; x: number; r: number; rc: number; dx: number;
-  /** The transfer to the next finer level (P) and from it (R), 0 on the finest. */
-  P: CsrPointers | null; R: CsrPointers | null;
+  /** The prolongator to the next finer level (its transpose restricts), null on the finest. */
+  P: CsrPointers | null;
   sweeps: number; visits: number;
 }
 interface CsrPointers { n: number; rp: number; ci: number; va: number }
@@ -25,7 +25,7 @@ function levelPointers(L: AmgLevel): LevelPointers {
   return {
     ...csrPointers(L.A), dp: L.diagPos.byteOffset, inv: L.invDiag.byteOffset,
     b: L.b.byteOffset, x: L.x.byteOffset, r: L.r.byteOffset, rc: L.rc.byteOffset, dx: L.dx.byteOffset,
-    P: L.P && csrPointers(L.P), R: L.R && csrPointers(L.R), sweeps: L.sweeps, visits: L.coarseVisits,
+    P: L.P && csrPointers(L.P), sweeps: L.sweeps, visits: L.coarseVisits,
   };
 }
 
@@ -70,8 +70,8 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
 
   const coarseCorrection = (l: number, x: number): void => {
     const C = levels[l + 1];
-    const R = C.R!, P = C.P!;
-    k.spmv(R.n, R.rp, R.ci, R.va, levels[l].r, C.b);
+    const P = C.P!;
+    k.restrictByTranspose(P.n, P.rp, P.ci, P.va, levels[l].r, C.n, C.b);
     cycle(l + 1, C.b, C.x);
     if (levels[l].visits > 1) {
       k.residual(C.n, C.rp, C.ci, C.va, C.b, C.x, C.rc);
@@ -143,6 +143,7 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
       const v = n === levels[0].n ? spares.pop() : undefined;
       return v ?? new Float64Array(n);
     },
+    dispose(): void { arena.release(); },
     release(v: Float64Array): void {
       if (arena.owns(v) && v.length === levels[0].n && !spares.includes(v)) spares.push(v);
     },

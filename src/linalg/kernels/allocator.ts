@@ -7,8 +7,9 @@ export interface Allocator {
   /** n zeros, or n unspecified values with zeroed = false (for arrays the caller writes before it reads). */
   f64(n: number, zeroed?: boolean): Float64Array;
   i32(n: number, zeroed?: boolean): Int32Array;
+  u8(n: number, zeroed?: boolean): Uint8Array;
   /** Gives back an array this allocator handed out (no-op for the JavaScript heap, whose collector frees it). */
-  free(a: Float64Array | Int32Array): void;
+  free(a: Float64Array | Int32Array | Uint8Array): void;
   /** The first n entries of `a` (handed out by this allocator), the rest given back. */
   shrink<T extends Float64Array | Int32Array>(a: T, n: number): T;
   /** Present when the arrays live in WebAssembly memory: the kernels, and whether an array is in that memory (an
@@ -19,6 +20,7 @@ export interface Allocator {
 export const heapAllocator: Allocator = {
   f64: (n) => new Float64Array(n),
   i32: (n) => new Int32Array(n),
+  u8: (n) => new Uint8Array(n),
   free: () => {},
   shrink: (a, n) => a.subarray(0, n) as typeof a,
 };

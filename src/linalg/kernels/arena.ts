@@ -23,9 +23,14 @@ export interface Arena extends Allocator {
   remaining(): number;
   /** Whether an array of this many bytes would fit (at the end or in a freed block). */
   fits(byteLength: number): boolean;
+  /** Gives the memory back for the next arena (every view of this one becomes invalid: whoever called release must
+   *  hold none). One memory is kept, the largest given back. */
+  release(): void;
 }
 
 let compiled: WebAssembly.Module | null | undefined;
+/** The memory of the last arena released (see Arena.release), with its high-water mark. */
+let released: { memory: WebAssembly.Memory; touched: number } | null = null;
 
 /** The compiled kernel module, or null where WebAssembly is unavailable. */
 function kernelModule(): WebAssembly.Module | null {
@@ -53,17 +58,27 @@ export function arenaBytes(byteLengths: readonly number[]): number {
 export function createArena(bytes: number): Arena | null {
   const module = kernelModule();
   if (!module || bytes > MAX_ARENA_BYTES) return null;
-  const pages = Math.max(1, Math.ceil(bytes / PAGE));
   let memory: WebAssembly.Memory;
-  try {
-    memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
-  } catch {
-    return null; // the engine refused that much memory
+  /** End of the highest block ever handed out: memory above it has never been written (zero); below it, memory
+   *  given back (to the free list or to the top) holds old values. */
+  let touched = ALIGN;
+  if (released && released.memory.buffer.byteLength >= bytes) {
+    // The memory of an arena given back: its pages are resident already, so no first touches to pay for.
+    ({ memory, touched } = released);
+    released = null;
+  } else {
+    const pages = Math.max(1, Math.ceil(bytes / PAGE));
+    try {
+      memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
+    } catch {
+      return null; // the engine refused that much memory
+    }
   }
   const instance = new WebAssembly.Instance(module, { env: { memory } });
   const kernels = instance.exports as unknown as SparseKernels;
-  const size = pages * PAGE;
+  const size = memory.buffer.byteLength;
   let top = ALIGN;
+  let open = true;
   /** Freed blocks [offset, bytes], sorted by offset, never adjacent to each other or to `top`. */
   const holes: [number, number][] = [];
   const blockOf = new Map<number, number>(); // offset → bytes of every live block
@@ -77,18 +92,21 @@ export function createArena(bytes: number): Arena | null {
     if (i > 0 && holes[i - 1][0] + holes[i - 1][1] === holes[i][0]) { holes[i - 1][1] += holes[i][1]; holes.splice(i, 1); i--; }
     if (holes[i][0] + holes[i][1] === top) { top = holes[i][0]; holes.splice(i, 1); }
   };
-  /** Whether the block last taken came from the free list (fresh memory at the top is zero already). */
-  let reused = false;
-  const cleared = <T extends Float64Array | Int32Array>(a: T, zeroed: boolean): T => { if (zeroed && reused) a.fill(0); return a; };
+  /** Bytes at the start of the block last taken that may hold old values. */
+  let dirty = 0;
+  const cleared = <T extends Float64Array | Int32Array | Uint8Array>(a: T, zeroed: boolean): T => {
+    if (zeroed && dirty > 0) a.fill(0, 0, Math.min(a.length, Math.ceil(dirty / a.BYTES_PER_ELEMENT)));
+    return a;
+  };
   const take = (byteLength: number): number => {
-    reused = false;
+    dirty = 0;
     const bytes = rounded(byteLength);
     for (let i = 0; i < holes.length; i++) {
       const [at, free] = holes[i];
       if (free < bytes) continue;
       if (free === bytes) holes.splice(i, 1); else holes[i] = [at + bytes, free - bytes];
       blockOf.set(at, bytes);
-      reused = true;
+      dirty = bytes;
       return at;
     }
     if (top + bytes > size) {
@@ -96,10 +114,12 @@ export function createArena(bytes: number): Arena | null {
     }
     const at = top;
     top += bytes;
+    dirty = Math.max(0, Math.min(bytes, touched - at));
+    touched = Math.max(touched, top);
     blockOf.set(at, bytes);
     return at;
   };
-  const release = (a: Float64Array | Int32Array): void => {
+  const release = (a: Float64Array | Int32Array | Uint8Array): void => {
     const bytes = blockOf.get(a.byteOffset);
     if (a.buffer !== memory.buffer || bytes === undefined) throw new Error('arena: free of an array this arena did not hand out');
     blockOf.delete(a.byteOffset);
@@ -110,6 +130,7 @@ export function createArena(bytes: number): Arena | null {
     kernels,
     f64: (n, zeroed = true) => cleared(new Float64Array(memory.buffer, take(8 * n), n), zeroed),
     i32: (n, zeroed = true) => cleared(new Int32Array(memory.buffer, take(4 * n), n), zeroed),
+    u8: (n, zeroed = true) => cleared(new Uint8Array(memory.buffer, take(n), n), zeroed),
     free: release,
     shrink<T extends Float64Array | Int32Array>(a: T, n: number): T {
       const bytes = blockOf.get(a.byteOffset);
@@ -119,6 +140,11 @@ export function createArena(bytes: number): Arena | null {
       return a.subarray(0, n) as T;
     },
     owns: (a) => a.buffer === memory.buffer,
+    release(): void {
+      if (!open) return;
+      open = false;
+      if (!released || released.memory.buffer.byteLength <= size) released = { memory, touched };
+    },
     remaining: () => size - top,
     fits: (byteLength) => top + rounded(byteLength) <= size || holes.some(([, free]) => free >= rounded(byteLength)),
   };

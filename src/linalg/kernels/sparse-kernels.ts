@@ -25,4 +25,6 @@ export interface SparseKernels {
   transposeInto(n: number, rp: number, ci: number, va: number, fill: number, tCi: number, tVa: number): void;
   /** y = A x; returns x·y. */
   spmvDot(n: number, rp: number, ci: number, va: number, x: number, y: number): number;
+  /** b_c = Pᵀ r from the rows of P (P has n rows and nc columns). */
+  restrictByTranspose(n: number, rp: number, ci: number, va: number, r: number, nc: number, bc: number): void;
 }

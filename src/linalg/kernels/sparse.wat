@@ -528,4 +528,34 @@
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $rows)))
     (local.get $xy))
+
+  ;; b_c = Pᵀ r by scattering each fine row of P (restrictByTranspose in amg/smoother.ts): b_c is zeroed, then
+  ;; row i adds p_iI r_i to b_c[I]; every b_c[I] sums its terms in increasing i, as a row of R = Pᵀ would.
+  (func (export "restrictByTranspose") (param $n i32) (param $rp i32) (param $ci i32) (param $va i32) (param $r i32)
+    (param $nc i32) (param $bc i32)
+    (local $i i32) (local $pc i32) (local $pv i32) (local $pe i32) (local $ri f64) (local $a i32) (local $end i32)
+    (local.set $a (local.get $bc))
+    (local.set $end (i32.add (local.get $bc) (i32.shl (local.get $nc) (i32.const 3))))
+    (block $zd (loop $zero
+      (br_if $zd (i32.ge_u (local.get $a) (local.get $end)))
+      (f64.store (local.get $a) (f64.const 0))
+      (local.set $a (i32.add (local.get $a) (i32.const 8)))
+      (br $zero)))
+    (local.set $pc (i32.add (local.get $ci) (i32.shl (i32.load (local.get $rp)) (i32.const 2))))
+    (local.set $pv (i32.add (local.get $va) (i32.shl (i32.load (local.get $rp)) (i32.const 3))))
+    (block $done (loop $rows
+      (br_if $done (i32.ge_u (local.get $i) (local.get $n)))
+      (local.set $rp (i32.add (local.get $rp) (i32.const 4)))
+      (local.set $pe (i32.add (local.get $ci) (i32.shl (i32.load (local.get $rp)) (i32.const 2))))
+      (local.set $ri (f64.load (local.get $r)))
+      (block $rd (loop $row
+        (br_if $rd (i32.ge_u (local.get $pc) (local.get $pe)))
+        (local.set $a (i32.add (local.get $bc) (i32.shl (i32.load (local.get $pc)) (i32.const 3))))
+        (f64.store (local.get $a) (f64.add (f64.load (local.get $a)) (f64.mul (f64.load (local.get $pv)) (local.get $ri))))
+        (local.set $pc (i32.add (local.get $pc) (i32.const 4)))
+        (local.set $pv (i32.add (local.get $pv) (i32.const 8)))
+        (br $row)))
+      (local.set $r (i32.add (local.get $r) (i32.const 8)))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (br $rows))))
 )
