@@ -4,6 +4,9 @@ import {
   csrFromDense, csrFromTriplets, diagonal, isSymmetric, relativeResidualNorm, residualNorm, spmv, transpose,
 } from '../../src/linalg/csr.ts';
 import { spgemm } from '../../src/linalg/spgemm.ts';
+import { spillingAllocator } from '../../src/linalg/amg/pack.ts';
+import { heapAllocator, type Allocator } from '../../src/linalg/kernels/allocator.ts';
+import { createArena } from '../../src/linalg/kernels/arena.ts';
 import type { Csr } from '../../src/linalg/types.ts';
 import { lagrangeGridStiffness } from './helpers/lagrange-grid.ts';
 import { fivePointLaplacian } from './helpers/poisson.ts';
@@ -96,14 +99,36 @@ describe('CSR construction and kernels (reference: ml-matrix dense products)', (
     expect(relativeResidualNorm(A, x, b)).toBeCloseTo(Math.sqrt(r2 / b2), 13);
   });
 
-  it('spgemm equals the dense product, with short and long output rows', () => {
-    for (const [m, k, n, dens, seed] of [[30, 25, 20, 0.1, 8], [40, 40, 40, 0.5, 9]] as const) {
-      const Da = randomRect(m, k, dens, seed), Db = randomRect(k, n, dens, seed + 100);
-      const C = spgemm(csrFromDense(Da), csrFromDense(Db));
-      expect(rowsSorted(C)).toBe(true);
-      const ref = new Matrix(Da).mmul(new Matrix(Db)).to2DArray();
-      const got = toDense(C);
-      for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) expect(got[i][j]).toBeCloseTo(ref[i][j], 12);
-    }
-  });
+  // Twice: on the JavaScript heap, and in a WebAssembly arena where the kernels sparseProduct and transposeInto
+  // (src/linalg/kernels/sparse.wat) do the work; rows of more than 32 entries take the heap-sort path in both.
+  for (const where of ['heap', 'arena'] as const) {
+    const allocator = (): Allocator => (where === 'heap' ? heapAllocator : spillingAllocator(createArena(1 << 22)!));
+    const inArena = (A: Csr, alloc: Allocator): Csr => {
+      if (where === 'heap') return A;
+      const rowPtr = alloc.i32(A.rowPtr.length), colIdx = alloc.i32(A.colIdx.length), values = alloc.f64(A.values.length);
+      rowPtr.set(A.rowPtr); colIdx.set(A.colIdx); values.set(A.values);
+      return { ...A, rowPtr, colIdx, values };
+    };
+
+    it(`spgemm equals the dense product, with short and long output rows (${where})`, () => {
+      for (const [m, k, n, dens, seed] of [[30, 25, 20, 0.1, 8], [40, 40, 40, 0.5, 9]] as const) {
+        const Da = randomRect(m, k, dens, seed), Db = randomRect(k, n, dens, seed + 100);
+        const alloc = allocator();
+        const C = spgemm(inArena(csrFromDense(Da), alloc), inArena(csrFromDense(Db), alloc), alloc);
+        if (where === 'arena') expect(alloc.wasm!.owns(C.rowPtr, C.colIdx, C.values)).toBe(true);
+        expect(rowsSorted(C)).toBe(true);
+        const ref = new Matrix(Da).mmul(new Matrix(Db)).to2DArray();
+        const got = toDense(C);
+        for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) expect(got[i][j]).toBeCloseTo(ref[i][j], 12);
+      }
+    });
+
+    it(`transpose equals ml-matrix's (${where})`, () => {
+      const D = randomRect(35, 50, 0.3, 12);
+      const alloc = allocator();
+      const T = transpose(inArena(csrFromDense(D), alloc), alloc);
+      expect(rowsSorted(T)).toBe(true);
+      expect(toDense(T)).toEqual(new Matrix(D).transpose().to2DArray());
+    });
+  }
 });

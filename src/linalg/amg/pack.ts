@@ -32,9 +32,14 @@ export interface PackedHierarchy {
 
 const csrByteLengths = (A: Csr): number[] => [A.rowPtr.byteLength, A.colIdx.byteLength, A.values.byteLength];
 
+/** Above this estimate the whole addressable 4 GiB is reserved: the arena is then large enough for the next, larger
+ *  level of a ladder too, which reuses its memory (pages already resident) once solveSystem gives it back. */
+const RESERVE_ALL_ABOVE = 64 * 2 ** 20;
+
 /** Bytes to reserve for building the hierarchy of A in an arena. */
 export function arenaEstimate(A: Csr): number {
-  return Math.min(MAX_ARENA_BYTES, ARENA_PER_MATRIX_BYTE * csrByteLengths(A).reduce((a, b) => a + b, 0) + (1 << 20));
+  const estimate = ARENA_PER_MATRIX_BYTE * csrByteLengths(A).reduce((a, b) => a + b, 0) + (1 << 20);
+  return estimate > RESERVE_ALL_ABOVE ? MAX_ARENA_BYTES : Math.min(MAX_ARENA_BYTES, estimate);
 }
 
 /** Bytes of the staging and spare vectors for n finest unknowns. */
