@@ -14,6 +14,7 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
   const gref = new Float64Array(3);
   const local = new Float64Array(n);
   const affine = mesh.cellKind !== 'quadrilateral';
+  const linear = mesh.cellKind === 'triangle' && el.degree === 1 && n === 3;
   return {
     mesh,
     nDofs: space.nDofs,
@@ -33,6 +34,20 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
       if (dim === 2 && affine) {
         cellJacobian(mesh, c, refPoints, 0, J, invJ);
         const i00 = invJ[0], i01 = invJ[1], i10 = invJ[2], i11 = invJ[3];
+        if (linear) {
+          // P1 on a triangle: the gradient is one vector per cell (the tabulated reference gradients are the
+          // same at every point); only the value varies.
+          const u0 = u[0], u1 = u[1], u2 = u[2];
+          const g0 = u0 * tg[0] + u1 * tg[2] + u2 * tg[4], g1 = u0 * tg[1] + u1 * tg[3] + u2 * tg[5];
+          const d0 = i00 * g0 + i10 * g1, d1 = i01 * g0 + i11 * g1;
+          for (let p = 0; p < nPoints; p++) {
+            const vo = 3 * p;
+            values[p] = u0 * tv[vo] + u1 * tv[vo + 1] + u2 * tv[vo + 2];
+            grads[2 * p] = d0;
+            grads[2 * p + 1] = d1;
+          }
+          return;
+        }
         for (let p = 0; p < nPoints; p++) {
           let v = 0, g0 = 0, g1 = 0;
           const vo = p * n, go = vo * 2;
