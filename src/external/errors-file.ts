@@ -3,7 +3,7 @@
 // or the same as a one-row CSV, errors.csv, with columns dofs, h and one column per error or quantity name.
 import { z } from 'zod';
 import { RungsInputError } from '../errors.ts';
-import { parseCsvTable } from '../fit/csv.ts';
+import { parseCsvTable } from '../csv/read.ts';
 import { levelLabel, lineAt, placeOf, type LevelRef } from './where.ts';
 
 export interface ReportedErrors {

@@ -6,7 +6,7 @@ export {
 } from './command.ts';
 export { splitCommandWords } from './words.ts';
 export { substituteWord, substituteWords, levelEnvironment, PLACEHOLDERS, type LevelValues } from './placeholders.ts';
-export { runExternalLevel, externalLevelResult, type ExternalLevelInput, type ExternalResultOptions } from './level.ts';
+export { runExternalLevel, type ExternalLevelInput } from './level.ts';
 export { levelFolder, prepareLevelFolder, readLevelOutput, ERRORS_FILES, SOLUTION_FILES, type ReadOutputOptions } from './output.ts';
 export { parseErrorsJson, parseErrorsCsv, errorsFileSchema, type ReportedErrors, type ErrorsFileOptions } from './errors-file.ts';
 export { externalDiscretizationSchema, quantityNamesSchema } from './schema.ts';

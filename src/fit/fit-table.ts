@@ -8,7 +8,7 @@ import type { Verdict } from '../analysis/types.ts';
 import { RungsInputError } from '../errors.ts';
 import type { LevelResult, StudyResult } from '../study/result.ts';
 import { packageVersions } from '../study/versions.ts';
-import { parseCsvTable } from './csv.ts';
+import { parseCsvTable } from '../csv/read.ts';
 import { expectationFor, parseExpectations, type Expectations } from './expectations.ts';
 import { analyseQuantity, type QuantityReport } from '../analysis/quantities.ts';
 import { readFitData, type ColumnChoice } from './table.ts';

@@ -3,5 +3,5 @@ export { fitTable, fitTableFile, readTableFile, type FitOptions, type FitOutcome
 export { analyseQuantity, type QuantityReport, type QuantityOptions } from '../analysis/quantities.ts';
 export { formatQuantityReports, type QuantityTerminalOptions } from './quantity-terminal.ts';
 export { parseExpectations, expectationFor, type Expectations } from './expectations.ts';
-export { parseCsvRecords, parseCsvTable, type CsvRecord, type CsvTable } from './csv.ts';
+export { parseCsvRecords, parseCsvTable, type CsvRecord, type CsvTable } from '../csv/read.ts';
 export { readFitData, type ColumnChoice, type FitData, type SeriesColumn } from './table.ts';

@@ -1,6 +1,6 @@
 // Picks the size, error and quantity columns of a convergence table and checks every number it uses.
 import { RungsInputError } from '../errors.ts';
-import type { CsvRecord, CsvTable } from './csv.ts';
+import type { CsvRecord, CsvTable } from '../csv/read.ts';
 
 export interface ColumnChoice {
   /** Fit against 'h' or 'dofs' (default: h when the table has an h column, else dofs). */

@@ -1,7 +1,7 @@
 // CSV rules of RFC 4180 (Shafranovich 2005, §2): comma separators, CRLF record ends, double-quoted fields holding
 // commas, line breaks and doubled quotes.
 import { describe, expect, it } from 'vitest';
-import { parseCsvRecords, parseCsvTable } from '../../src/fit/csv.ts';
+import { parseCsvRecords, parseCsvTable } from '../../src/csv/read.ts';
 
 const fields = (text: string) => parseCsvRecords(text, 't.csv').map((r) => r.fields);
 
