@@ -7,7 +7,8 @@ import { readFileSync } from 'node:fs';
 import { Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { assembleKernels, kernelModuleText } from '../../scripts/assemble-kernels.ts';
-import { SPARE_VECTORS } from '../../src/linalg/amg/pack.ts';
+import { packHierarchy, SPARE_VECTORS } from '../../src/linalg/amg/pack.ts';
+import { wasmCyclePreconditioner } from '../../src/linalg/amg/wasm-cycle.ts';
 import { amgSetup } from '../../src/linalg/amg/setup.ts';
 import {
   backwardSweep, backwardSweepWithProduct, forwardSweep, forwardSweepFromZero, forwardSweepFromZeroWithResidual,
@@ -202,6 +203,18 @@ describe('the multigrid cycle in WebAssembly', () => {
     for (const v of got) preconditioner.release!(v);
     expect(preconditioner.vector!(A.nRows).buffer === arenaBuffer).toBe(true);
     expect(preconditioner.vector!(7).length).toBe(7);
+  });
+
+  it('a hierarchy built on the heap and copied into an arena (the fallback when the reserved arena is too small) cycles to the same bits', () => {
+    const A = lagrangeGridStiffness('triangle', 2, 20).A;
+    const { hierarchy } = amgSetup(A, { kernels: 'javascript' });
+    const packed = packHierarchy(hierarchy)!;
+    expect(packed.hierarchy.levels.every((L) => packed.arena.owns(L.A.values) && packed.arena.owns(L.invDiag))).toBe(true);
+    const r = randomVector(A.nRows, 6);
+    const zw = new Float64Array(A.nRows), zt = new Float64Array(A.nRows);
+    wasmCyclePreconditioner(packed).apply(r, zw);
+    vCyclePreconditioner(hierarchy).apply(r, zt);
+    same(zw, zt);
   });
 
   it('a disposed preconditioner hands its memory to the next setup, which still gives the same bits', () => {

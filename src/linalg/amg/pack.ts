@@ -54,6 +54,16 @@ export function arenaVectors(arena: Arena, n: number): Pick<PackedHierarchy, 'st
   };
 }
 
+/** CG's products with A run as a kernel when A has a copy in the arena; worth its memory only when the cycle's own
+ *  finest operator cannot stand in for A (see FinestOperator.exactProducts) and there is room. */
+export function operatorCopyFor(arena: Arena, A: Csr, wanted: boolean): { operatorCopy?: Csr } {
+  const bytes = A.rowPtr.byteLength + A.colIdx.byteLength + A.values.byteLength + 3 * 64;
+  if (!wanted || !arena.fits(bytes)) return {};
+  const rowPtr = arena.i32(A.rowPtr.length, false), colIdx = arena.i32(A.colIdx.length, false), values = arena.f64(A.values.length, false);
+  rowPtr.set(A.rowPtr); colIdx.set(A.colIdx); values.set(A.values);
+  return { operatorCopy: { nRows: A.nRows, nCols: A.nCols, rowPtr, colIdx, values } };
+}
+
 /** Arena arrays while they fit, JavaScript arrays after that; spilled() tells whether any had to go to the heap. */
 export function spillingAllocator(arena: Arena): Allocator & { spilled(): boolean } {
   let spilled = false;

@@ -5,7 +5,9 @@
  *  and round-off, see negligible-entries.ts); smoother and hierarchy work with that copy. Below the first coarse
  *  level the cycle is a W-cycle, and from the second one down it sweeps twice: there a sweep costs a few per cent
  *  of a finest-level one, and together they keep the PCG iteration counts flat from 16k to 1M unknowns (P2: 17–18)
- *  and within 1.7× of the constant-coefficient ones for a 1000:1 checkerboard (measured, test/bench/fe-solve). */
+ *  and within 1.7× of the constant-coefficient ones for a 1000:1 checkerboard (measured, test/bench/fe-solve).
+ *  Everything the setup creates comes from an allocator: by default a WebAssembly arena (pack.ts), so that the
+ *  hierarchy is built where the kernels of wasm-cycle.ts read it; `kernels: 'javascript'` keeps it on the heap. */
 import { RungsInputError } from '../../errors.ts';
 import { isSymmetric, transpose } from '../csr.ts';
 import type { Csr } from '../types.ts';
@@ -16,24 +18,14 @@ import { scanLevel } from './level-scan.ts';
 import { finestOperator } from './negligible-entries.ts';
 import { smoothedProlongator } from './prolongator.ts';
 import { strengthGraph } from './strength.ts';
-import { arenaEstimate, arenaVectorBytes, arenaVectors, packHierarchy, spillingAllocator } from './pack.ts';
-import { createArena, type Arena } from '../kernels/arena.ts';
+import { arenaEstimate, arenaVectorBytes, arenaVectors, operatorCopyFor, packHierarchy, spillingAllocator } from './pack.ts';
+import { createArena } from '../kernels/arena.ts';
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { AmgHierarchy, AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
 import { wasmCyclePreconditioner } from './wasm-cycle.ts';
 
 const WHERE = 'linalg/amg';
-
-/** CG's products with A run as a kernel when A has a copy in the arena; worth its memory only when the cycle's own
- *  finest operator cannot stand in for A (see FinestOperator.exactProducts) and there is room. */
-function operatorCopyFor(arena: Arena, A: Csr, wanted: boolean): { operatorCopy?: Csr } {
-  const bytes = A.rowPtr.byteLength + A.colIdx.byteLength + A.values.byteLength + 3 * 64;
-  if (!wanted || !arena.fits(bytes)) return {};
-  const rowPtr = arena.i32(A.rowPtr.length, false), colIdx = arena.i32(A.colIdx.length, false), values = arena.f64(A.values.length, false);
-  rowPtr.set(A.rowPtr); colIdx.set(A.colIdx); values.set(A.values);
-  return { operatorCopy: { nRows: A.nRows, nCols: A.nCols, rowPtr, colIdx, values } };
-}
 
 /** A level that keeps more than this fraction of its unknowns is not worth coarsening further. */
 const STALLED_COARSENING = 0.8;
@@ -128,6 +120,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const packed = arena && spill && !spill.spilled() && arena.fits(arenaVectorBytes(A.nRows))
     ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows), ...operatorCopyFor(arena, A, symmetric && !exactProducts) }
     : (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
+  if (spill?.spilled()) notes.push('the arena reserved for the setup was too small; the hierarchy was copied into a larger one');
   if (!packed && opts.kernels !== 'javascript') notes.push('no WebAssembly arena could hold the hierarchy; the cycle runs in JavaScript');
   const hierarchy = packed ? packed.hierarchy : built;
   // Complexities against the finest operator the cycle works with (the caller's matrix without negligible entries).
