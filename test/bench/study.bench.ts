@@ -27,6 +27,6 @@ const decl = validateStudy(defineStudy({
 const t0 = performance.now();
 const r = await runStudy({ file: 'bench.study.ts', declaration: decl }, {
   onLevel: (_p, l) => console.log(`  level ${l.index + 1}: ${l.dofs} dofs, ${l.solver?.method}+${l.solver?.preconditioner} ${l.solver?.iterations} it (${l.solver?.stoppedBy}), ` +
-    `mesh ${l.seconds.mesh.toFixed(2)} s, assemble ${l.seconds.assemble.toFixed(2)} s, solve ${l.seconds.solve.toFixed(2)} s, errors ${l.seconds.errors.toFixed(2)} s, peak RSS ${((l.peakRssBytes ?? 0) / 2 ** 20).toFixed(0)} MiB`),
+    `mesh ${l.seconds.mesh.toFixed(2)} s, assemble ${l.seconds.assemble.toFixed(2)} s, solve ${l.seconds.solve.toFixed(2)} s (multigrid setup ${(l.solver?.setupSeconds ?? 0).toFixed(2)} s + CG ${(l.solver?.solveSeconds ?? 0).toFixed(2)} s), errors ${l.seconds.errors.toFixed(2)} s, peak RSS ${((l.peakRssBytes ?? 0) / 2 ** 20).toFixed(0)} MiB`),
 });
 console.log(`${r.study}: ${((performance.now() - t0) / 1e3).toFixed(1)} s wall; ${r.analyses.map((a) => `${a.name} ${a.fit?.order.toFixed(2)} ${a.verdict}`).join(', ')}`);

@@ -49,8 +49,9 @@ export function arenaVectorBytes(n: number): number {
 
 export function arenaVectors(arena: Arena, n: number): Pick<PackedHierarchy, 'staging' | 'spares'> {
   return {
-    staging: { b: arena.f64(n), x: arena.f64(n), w: arena.f64(n) },
-    spares: Array.from({ length: SPARE_VECTORS }, () => arena.f64(n)),
+    // Contents unspecified (written before read): no zeroing of memory an earlier solve left dirty.
+    staging: { b: arena.f64(n, false), x: arena.f64(n, false), w: arena.f64(n, false) },
+    spares: Array.from({ length: SPARE_VECTORS }, () => arena.f64(n, false)),
   };
 }
 

@@ -77,7 +77,8 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
       A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P,
-      b: alloc.f64(l === 0 ? 0 : n), x: alloc.f64(l === 0 ? 0 : n), r: alloc.f64(onCoarsest ? 0 : n),
+      // Work vectors: every cycle writes them before reading them, so they need no zeroing.
+      b: alloc.f64(l === 0 ? 0 : n, false), x: alloc.f64(l === 0 ? 0 : n, false), r: alloc.f64(onCoarsest ? 0 : n, false),
       rc: alloc.f64(0), dx: alloc.f64(0),
     });
     if (onCoarsest) { alloc.free(diag); break; }
@@ -110,8 +111,8 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     levels[l].coarseVisits = 2;
     const m = levels[l + 1].A.nRows;
     alloc.free(levels[l + 1].rc); alloc.free(levels[l + 1].dx);
-    levels[l + 1].rc = alloc.f64(m);
-    levels[l + 1].dx = alloc.f64(m);
+    levels[l + 1].rc = alloc.f64(m, false);
+    levels[l + 1].dx = alloc.f64(m, false);
   }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
@@ -137,6 +138,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
       gridComplexity: rowSum / A.nRows,
       setupSeconds: (performance.now() - t0) / 1000,
       kernels: packed ? 'wasm' : 'javascript',
+      arenaBytes: packed ? packed.arena.touchedBytes() : 0,
       perLevel: levels.map((L) => ({ rows: L.A.nRows, nnz: L.A.rowPtr[L.A.nRows] })),
       coarseSolver: coarse.kind === 'gauss-seidel' ? `gauss-seidel sweeps (n = ${coarsest})` : `${coarse.kind} (n = ${coarsest})`,
       notes,

@@ -80,6 +80,9 @@ export interface AmgStats {
   /** Σ n_l / n_0. */
   gridComplexity: number;
   setupSeconds: number;
+  /** High-water mark of the WebAssembly arena after the setup, in bytes: an upper bound of the memory the hierarchy,
+   *  its work vectors and the setup's intermediate products wrote (0 for the JavaScript cycle). */
+  arenaBytes: number;
   /** Which kernels the cycle runs ('javascript' also when a WebAssembly arena was asked for but not available). */
   kernels: 'wasm' | 'javascript';
   perLevel: AmgLevelInfo[];

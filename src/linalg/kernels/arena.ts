@@ -21,6 +21,8 @@ export interface Arena extends Allocator {
   owns(a: ArrayBufferView): boolean;
   /** Bytes that can still be handed out in one piece at the end (the free list aside). */
   remaining(): number;
+  /** Bytes up to the highest block ever handed out: the memory this arena has (or may have) written. */
+  touchedBytes(): number;
   /** Whether an array of this many bytes would fit (at the end or in a freed block). */
   fits(byteLength: number): boolean;
   /** Gives the memory back for the next arena (every view of this one becomes invalid: whoever called release must
@@ -146,6 +148,7 @@ export function createArena(bytes: number): Arena | null {
       if (!released || released.memory.buffer.byteLength <= size) released = { memory, touched };
     },
     remaining: () => size - top,
+    touchedBytes: () => touched,
     fits: (byteLength) => top + rounded(byteLength) <= size || holes.some(([, free]) => free >= rounded(byteLength)),
   };
 }
