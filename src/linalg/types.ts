@@ -56,6 +56,7 @@ export interface SolveOptions {
 export interface StopInfo {
   iteration: number;
   relativeResidual: number;
+  /** The current iterate; valid only during the call (it may be the solver's own memory, reused afterwards). */
   x: Float64Array;
   /** CG only: estimate of the A-norm error ||x* − x||_A of the iterate (Hestenes–Stiefel sum over the last
    *  CG_ERROR_DELAY steps; Strakoš & Tichý 2002); Infinity until enough steps were taken. */

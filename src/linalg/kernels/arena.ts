@@ -121,7 +121,7 @@ export function createArena(bytes: number): Arena | null {
     blockOf.set(at, bytes);
     return at;
   };
-  const release = (a: Float64Array | Int32Array | Uint8Array): void => {
+  const freeBlock = (a: Float64Array | Int32Array | Uint8Array): void => {
     const bytes = blockOf.get(a.byteOffset);
     if (a.buffer !== memory.buffer || bytes === undefined) throw new Error('arena: free of an array this arena did not hand out');
     blockOf.delete(a.byteOffset);
@@ -133,7 +133,7 @@ export function createArena(bytes: number): Arena | null {
     f64: (n, zeroed = true) => cleared(new Float64Array(memory.buffer, take(8 * n), n), zeroed),
     i32: (n, zeroed = true) => cleared(new Int32Array(memory.buffer, take(4 * n), n), zeroed),
     u8: (n, zeroed = true) => cleared(new Uint8Array(memory.buffer, take(n), n), zeroed),
-    free: release,
+    free: freeBlock,
     shrink<T extends Float64Array | Int32Array>(a: T, n: number): T {
       const bytes = blockOf.get(a.byteOffset);
       if (a.buffer !== memory.buffer || bytes === undefined) throw new Error('arena: shrink of an array this arena did not hand out');
