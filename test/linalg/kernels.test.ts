@@ -192,6 +192,21 @@ describe('the multigrid cycle in WebAssembly', () => {
     });
   }
 
+  it('builds the same hierarchy, bit for bit, as the TypeScript setup (strength graph, prolongator, products)', () => {
+    for (const A of [lagrangeGridStiffness('triangle', 2, 24, checkerboard(1000)).A, lagrangeGridStiffness('square', 2, 20).A]) {
+      const w = amgSetup(A, { kernels: 'wasm' }).hierarchy, t = amgSetup(A, { kernels: 'javascript' }).hierarchy;
+      expect(w.levels.length).toBe(t.levels.length);
+      for (let l = 0; l < w.levels.length; l++) {
+        const [a, b] = [w.levels[l], t.levels[l]];
+        for (const key of ['rowPtr', 'colIdx', 'values'] as const) {
+          expect(Array.from(a.A[key]), `level ${l} A.${key}`).toEqual(Array.from(b.A[key]));
+          if (a.P && b.P) expect(Array.from(a.P[key]), `level ${l} P.${key}`).toEqual(Array.from(b.P[key]));
+        }
+        expect(Array.from(a.invDiag)).toEqual(Array.from(b.invDiag));
+      }
+    }
+  });
+
   it('hands a Krylov solver arena vectors, plain ones once they run out, and the same again once given back', () => {
     const A = lagrangeGridStiffness('triangle', 1, 20).A;
     const { preconditioner } = amgSetup(A);

@@ -3,6 +3,7 @@
  *  near-null space of a scalar diffusion operator). A_F is the filtered matrix (weak couplings dropped and added to
  *  the diagonal). ω = 4/(3ρ) with ρ ≥ ρ(D_F⁻¹A_F): Gershgorin's bound, or a Lanczos estimate when asked for. */
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
+import { sortLongRows } from '../spgemm.ts';
 import type { Csr } from '../types.ts';
 import type { Aggregation } from './aggregation.ts';
 import { lanczosSpectralRadius } from './spectral-radius.ts';
@@ -34,6 +35,16 @@ export function smoothedProlongator(
   const cap = n + graph.strongCount;
   const pCol = alloc.i32(cap, false);
   const pVal = alloc.f64(cap, false);
+  const wasm = alloc.wasm;
+  if (wasm && wasm.owns(rowPtr, colIdx, values, strong, aggregateOf, t, dF, owner, slot, pPtr, pCol, pVal)) {
+    // The same loop as below, as the kernel prolongatorRows (sparse.wat).
+    const nnz = wasm.kernels.prolongatorRows(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, strong.byteOffset,
+      aggregateOf.byteOffset, t.byteOffset, dF.byteOffset, omega, 1 - omega, owner.byteOffset, slot.byteOffset,
+      pPtr.byteOffset, pCol.byteOffset, pVal.byteOffset);
+    sortLongRows(pPtr, pCol, pVal, n);
+    alloc.free(size); alloc.free(t); alloc.free(owner); alloc.free(slot);
+    return { nRows: n, nCols: count, rowPtr: pPtr, colIdx: alloc.shrink(pCol, nnz), values: alloc.shrink(pVal, nnz) };
+  }
   let nnz = 0;
   for (let i = 0; i < n; i++) {
     const ai = aggregateOf[i];

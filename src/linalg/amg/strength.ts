@@ -35,6 +35,8 @@ export interface StrengthGraph {
 
 /** Smallest filtered diagonal accepted, as a fraction of a_ii. */
 const MIN_FILTERED_DIAGONAL = 0.1;
+/** A row counts as diagonally dominant when Σ_{j≠i} |a_ij| ≤ a_ii · DOMINANCE (room for round-off). */
+const DOMINANCE = 1 + 1e-12;
 
 export function strengthGraph(A: Csr, diag: Float64Array, theta: number, alloc: Allocator = heapAllocator): StrengthGraph {
   const { nRows: n, rowPtr, colIdx, values } = A;
@@ -42,6 +44,20 @@ export function strengthGraph(A: Csr, diag: Float64Array, theta: number, alloc: 
   const rowKind = alloc.u8(n, false);
   const filteredDiag = alloc.f64(n, false);
   const theta2 = theta * theta;
+  const wasm = alloc.wasm;
+  if (wasm && wasm.owns(rowPtr, colIdx, values, diag, strong, rowKind, filteredDiag)) {
+    const out = alloc.f64(2, false);
+    if (wasm.owns(out)) {
+      // The same loop as below, as the kernel strengthGraph (sparse.wat), with the same constants.
+      const strongCount = wasm.kernels.strengthGraph(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset,
+        diag.byteOffset, theta2, DOMINANCE, MIN_FILTERED_DIAGONAL, strong.byteOffset, rowKind.byteOffset,
+        filteredDiag.byteOffset, out.byteOffset);
+      const gershgorinBound = out[0], diagonallyDominant = out[1] === 1;
+      alloc.free(out);
+      return { strong, strongCount, rowKind, filteredDiag, gershgorinBound, diagonallyDominant };
+    }
+    alloc.free(out);
+  }
   let bound = 1;
   let dominant = true;
   let strongCount = 0;
@@ -62,7 +78,7 @@ export function strengthGraph(A: Csr, diag: Float64Array, theta: number, alloc: 
       dF += a;
     }
     rowKind[i] = anyStrong ? HAS_STRONG : coupled ? ONLY_WEAK : DECOUPLED;
-    if (offAll > Math.abs(di) * (1 + 1e-12)) dominant = false;
+    if (offAll > Math.abs(di) * DOMINANCE) dominant = false;
     // Safeguard (our choice): lumping many weak negative couplings could leave a^F_ii near zero and blow up
     // the prolongator smoothing; fall back to a_ii then.
     if (!(dF > MIN_FILTERED_DIAGONAL * di)) dF = di;

@@ -27,4 +27,11 @@ export interface SparseKernels {
   spmvDot(n: number, rp: number, ci: number, va: number, x: number, y: number): number;
   /** b_c = Pᵀ r from the rows of P (P has n rows and nc columns). */
   restrictByTranspose(n: number, rp: number, ci: number, va: number, r: number, nc: number, bc: number): void;
+  /** The strength graph of amg/strength.ts; out[0] = Gershgorin's bound, out[1] = 1 when diagonally dominant.
+   *  Returns the number of strong entries. */
+  strengthGraph(n: number, rp: number, ci: number, va: number, diag: number, theta2: number, dominance: number,
+    minDF: number, strong: number, rowKind: number, dF: number, out: number): number;
+  /** The rows of the smoothed prolongator of amg/prolongator.ts; returns nnz(P). */
+  prolongatorRows(n: number, rp: number, ci: number, va: number, strong: number, agg: number, t: number, dF: number,
+    omega: number, oneMinusOmega: number, owner: number, slot: number, pRp: number, pCi: number, pVa: number): number;
 }

@@ -558,4 +558,125 @@
       (local.set $r (i32.add (local.get $r) (i32.const 8)))
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $rows))))
+
+  ;; Strength of connection (strengthGraph in amg/strength.ts): strong[k] = 1 for −a_ij ≥ θ√(a_ii a_jj) (written for
+  ;; every entry), rowKind per row (0 strong, 1 coupled but weak only, 2 decoupled), the filtered diagonal dF, and
+  ;; in out[0] Gershgorin's bound, out[1] 1 when every row is diagonally dominant. Returns the number of strong
+  ;; entries. dominance = 1 + 1e-12 and minDF = the smallest filtered diagonal as a fraction of a_ii come from the
+  ;; caller, so both versions use the same constants.
+  (func (export "strengthGraph") (param $n i32) (param $rp i32) (param $ci i32) (param $va i32) (param $diag i32)
+    (param $theta2 f64) (param $dominance f64) (param $minDF f64) (param $strong i32) (param $rowKind i32)
+    (param $dF i32) (param $out i32) (result i32)
+    (local $i i32) (local $k i32) (local $kEnd i32) (local $j i32) (local $count i32) (local $kind i32)
+    (local $di f64) (local $cut f64) (local $f f64) (local $off f64) (local $offAll f64) (local $a f64) (local $g f64)
+    (local $bound f64) (local $dominant i32) (local $coupled i32) (local $anyStrong i32) (local $isStrong i32)
+    (local.set $bound (f64.const 1))
+    (local.set $dominant (i32.const 1))
+    (block $done (loop $rows
+      (br_if $done (i32.ge_u (local.get $i) (local.get $n)))
+      (local.set $di (f64.load (i32.add (local.get $diag) (i32.shl (local.get $i) (i32.const 3)))))
+      (local.set $cut (f64.mul (local.get $theta2) (f64.abs (local.get $di))))
+      (local.set $f (local.get $di))
+      (local.set $off (f64.const 0))
+      (local.set $offAll (f64.const 0))
+      (local.set $coupled (i32.const 0))
+      (local.set $anyStrong (i32.const 0))
+      (local.set $k (i32.load (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+      (local.set $kEnd (i32.load offset=4 (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+      (block $rd (loop $row
+        (br_if $rd (i32.ge_s (local.get $k) (local.get $kEnd)))
+        (local.set $isStrong (i32.const 0))
+        (local.set $j (i32.load (i32.add (local.get $ci) (i32.shl (local.get $k) (i32.const 2)))))
+        (if (i32.ne (local.get $j) (local.get $i))
+          (then
+            (local.set $a (f64.load (i32.add (local.get $va) (i32.shl (local.get $k) (i32.const 3)))))
+            (local.set $offAll (f64.add (local.get $offAll) (f64.abs (local.get $a))))
+            (if (i32.and
+                  (f64.ge (f64.mul (local.get $a) (local.get $a))
+                    (f64.mul (local.get $cut) (f64.abs (f64.load (i32.add (local.get $diag) (i32.shl (local.get $j) (i32.const 3)))))))
+                  (f64.ne (local.get $a) (f64.const 0)))
+              (then
+                (local.set $coupled (i32.const 1))
+                (if (f64.lt (local.get $a) (f64.const 0))
+                  (then
+                    (local.set $isStrong (i32.const 1))
+                    (local.set $anyStrong (i32.const 1))
+                    (local.set $count (i32.add (local.get $count) (i32.const 1)))
+                    (local.set $off (f64.sub (local.get $off) (local.get $a)))))))
+            (if (i32.eqz (local.get $isStrong)) (then (local.set $f (f64.add (local.get $f) (local.get $a)))))))
+        (i32.store8 (i32.add (local.get $strong) (local.get $k)) (local.get $isStrong))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $row)))
+      (local.set $kind (select (i32.const 0) (select (i32.const 1) (i32.const 2) (local.get $coupled)) (local.get $anyStrong)))
+      (i32.store8 (i32.add (local.get $rowKind) (local.get $i)) (local.get $kind))
+      (if (f64.gt (local.get $offAll) (f64.mul (f64.abs (local.get $di)) (local.get $dominance)))
+        (then (local.set $dominant (i32.const 0))))
+      (if (i32.eqz (f64.gt (local.get $f) (f64.mul (local.get $minDF) (local.get $di))))
+        (then (local.set $f (local.get $di))))
+      (f64.store (i32.add (local.get $dF) (i32.shl (local.get $i) (i32.const 3))) (local.get $f))
+      (if (f64.ne (local.get $f) (f64.const 0))
+        (then
+          (local.set $g (f64.div (f64.add (f64.abs (local.get $f)) (local.get $off)) (f64.abs (local.get $f))))
+          (if (f64.gt (local.get $g) (local.get $bound)) (then (local.set $bound (local.get $g))))))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (br $rows)))
+    (f64.store (local.get $out) (local.get $bound))
+    (f64.store offset=8 (local.get $out) (f64.convert_i32_u (local.get $dominant)))
+    (local.get $count))
+
+  ;; The smoothed prolongator's rows (smoothedProlongator in amg/prolongator.ts): row i of an aggregated node holds
+  ;; t_i(1 − ω) = tSelf[i] on its aggregate and −ω a_ij t_j / a^F_ii on the aggregates of its strong neighbours,
+  ;; summed per aggregate; owner (one i32 per aggregate) must hold −1, slot is scratch. Rows of up to 32 entries come
+  ;; out sorted. Returns nnz(P).
+  (func (export "prolongatorRows") (param $n i32) (param $rp i32) (param $ci i32) (param $va i32) (param $strong i32)
+    (param $agg i32) (param $t i32) (param $dF i32) (param $omega f64) (param $oneMinusOmega f64)
+    (param $owner i32) (param $slot i32) (param $pRp i32) (param $pCi i32) (param $pVa i32) (result i32)
+    (local $i i32) (local $k i32) (local $kEnd i32) (local $j i32) (local $ai i32) (local $aj i32) (local $nnz i32)
+    (local $rowStart i32) (local $scale f64) (local $v f64) (local $addr i32)
+    (i32.store (local.get $pRp) (i32.const 0))
+    (block $done (loop $rows
+      (br_if $done (i32.ge_u (local.get $i) (local.get $n)))
+      (local.set $ai (i32.load (i32.add (local.get $agg) (i32.shl (local.get $i) (i32.const 2)))))
+      (if (i32.ge_s (local.get $ai) (i32.const 0))
+        (then
+          (local.set $rowStart (local.get $nnz))
+          (local.set $scale (f64.div (f64.neg (local.get $omega))
+            (f64.load (i32.add (local.get $dF) (i32.shl (local.get $i) (i32.const 3))))))
+          (i32.store (i32.add (local.get $owner) (i32.shl (local.get $ai) (i32.const 2))) (local.get $i))
+          (i32.store (i32.add (local.get $slot) (i32.shl (local.get $ai) (i32.const 2))) (local.get $nnz))
+          (i32.store (i32.add (local.get $pCi) (i32.shl (local.get $nnz) (i32.const 2))) (local.get $ai))
+          (f64.store (i32.add (local.get $pVa) (i32.shl (local.get $nnz) (i32.const 3)))
+            (f64.mul (f64.load (i32.add (local.get $t) (i32.shl (local.get $i) (i32.const 3)))) (local.get $oneMinusOmega)))
+          (local.set $nnz (i32.add (local.get $nnz) (i32.const 1)))
+          (local.set $k (i32.load (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+          (local.set $kEnd (i32.load offset=4 (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+          (block $rd (loop $row
+            (br_if $rd (i32.ge_s (local.get $k) (local.get $kEnd)))
+            (if (i32.load8_u (i32.add (local.get $strong) (local.get $k)))
+              (then
+                (local.set $j (i32.load (i32.add (local.get $ci) (i32.shl (local.get $k) (i32.const 2)))))
+                (local.set $aj (i32.load (i32.add (local.get $agg) (i32.shl (local.get $j) (i32.const 2)))))
+                (if (i32.ge_s (local.get $aj) (i32.const 0))
+                  (then
+                    (local.set $v (f64.mul (f64.mul (local.get $scale)
+                      (f64.load (i32.add (local.get $va) (i32.shl (local.get $k) (i32.const 3)))))
+                      (f64.load (i32.add (local.get $t) (i32.shl (local.get $j) (i32.const 3))))))
+                    (if (i32.eq (i32.load (i32.add (local.get $owner) (i32.shl (local.get $aj) (i32.const 2)))) (local.get $i))
+                      (then
+                        (local.set $addr (i32.add (local.get $pVa) (i32.shl
+                          (i32.load (i32.add (local.get $slot) (i32.shl (local.get $aj) (i32.const 2)))) (i32.const 3))))
+                        (f64.store (local.get $addr) (f64.add (f64.load (local.get $addr)) (local.get $v))))
+                      (else
+                        (i32.store (i32.add (local.get $owner) (i32.shl (local.get $aj) (i32.const 2))) (local.get $i))
+                        (i32.store (i32.add (local.get $slot) (i32.shl (local.get $aj) (i32.const 2))) (local.get $nnz))
+                        (i32.store (i32.add (local.get $pCi) (i32.shl (local.get $nnz) (i32.const 2))) (local.get $aj))
+                        (f64.store (i32.add (local.get $pVa) (i32.shl (local.get $nnz) (i32.const 3))) (local.get $v))
+                        (local.set $nnz (i32.add (local.get $nnz) (i32.const 1)))))))))
+            (local.set $k (i32.add (local.get $k) (i32.const 1)))
+            (br $row)))
+          (call $sortRow (local.get $pCi) (local.get $pVa) (local.get $rowStart) (local.get $nnz))))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (i32.store (i32.add (local.get $pRp) (i32.shl (local.get $i) (i32.const 2))) (local.get $nnz))
+      (br $rows)))
+    (local.get $nnz))
 )
