@@ -160,11 +160,22 @@ function declareTemps(ctx: CodeContext): string {
   return `let ${Array.from({ length: ctx.temps }, (_, i) => `t${i}`).join(', ')};\n`;
 }
 
-/** JavaScript source of a function body computing `node` (exposed for tests and reports). */
+/** A fresh context that folds constants and computes each distinct function call once. */
+const sharedContext = (): CodeContext => ({ temps: 0, fold: true, shared: { names: new Map(), lines: [] } });
+
+/** The declarations of a context's temporaries and shared calls, in evaluation order. */
+function preamble(ctx: CodeContext): string {
+  const lines = ctx.shared?.lines ?? [];
+  return `${declareTemps(ctx)}${lines.length ? lines.join('\n') + '\n' : ''}`;
+}
+
+/** JavaScript source of a function body computing `node` (exposed for tests and reports). Each distinct function
+ *  call is computed once (a derived source term repeats sin(3y) and exp(−x) several times); the values are the bits
+ *  of the expression evaluated as written, since the calls are pure. */
 export function javaScriptOf(node: MathNode): string {
-  const ctx: CodeContext = { temps: 0, fold: true };
+  const ctx = sharedContext();
   const expression = expressionOf(node, ctx);
-  return `${declareTemps(ctx)}return ${expression};`;
+  return `${preamble(ctx)}return ${expression};`;
 }
 
 /** Compile a validated formula tree into a plain function of (x, y, z). */
@@ -174,30 +185,30 @@ export function compileScalar(node: MathNode): ScalarFn {
 
 /** Compile one tree per component into a function writing out[0 .. n-1]. */
 export function compileVector(nodes: readonly MathNode[]): VectorFn {
-  const ctx: CodeContext = { temps: 0, fold: true };
+  const ctx = sharedContext();
   const lines = nodes.map((node, i) => `out[${i}] = ${expressionOf(node, ctx)};`);
-  return new Function('x', 'y', 'z', 'out', `"use strict";\n${declareTemps(ctx)}${lines.join('\n')}`) as VectorFn;
+  return new Function('x', 'y', 'z', 'out', `"use strict";\n${preamble(ctx)}${lines.join('\n')}`) as VectorFn;
 }
 
 /** Compile u and its gradient into one function that writes ∇u to out and returns u, each distinct function call
  *  (sin, cos, exp, …) evaluated once. The operations on every value are those of compileScalar/compileVector, so
  *  the results are the same bits, for about two thirds of the transcendental calls on a product of sines. */
 export function compileValueAndGradient(u: MathNode, grad: readonly MathNode[]): ValueGradFn {
-  const ctx: CodeContext = { temps: 0, fold: true, shared: { names: new Map(), lines: [] } };
+  const ctx = sharedContext();
   const value = expressionOf(u, ctx);
   const components = grad.map((g) => expressionOf(g, ctx));
   // The shared calls come first; a temporary (t·) assigned inside a shared call is declared before them.
-  const body = `"use strict";\n${declareTemps(ctx)}${ctx.shared!.lines.join('\n')}\n` +
+  const body = `"use strict";\n${preamble(ctx)}` +
     `const v = ${value};\n${components.map((c, i) => `out[${i}] = ${c};`).join('\n')}\nreturn v;`;
   return new Function('x', 'y', 'z', 'out', body) as ValueGradFn;
 }
 
 /** Compile k ∇u·n from the trees of k and of the gradient components. */
 export function compileFlux(k: MathNode, grad: readonly MathNode[]): FluxFn {
-  const ctx: CodeContext = { temps: 0, fold: true };
+  const ctx = sharedContext();
   const normals = ['nx', 'ny', 'nz'];
   const kCode = expressionOf(k, ctx);
   const dot = grad.map((g, i) => `${expressionOf(g, ctx)} * ${normals[i]}`).join(' + ');
-  const body = `"use strict";\n${declareTemps(ctx)}return ${kCode} * (${dot});`;
+  const body = `"use strict";\n${preamble(ctx)}return ${kCode} * (${dot});`;
   return new Function('x', 'y', 'z', 'nx', 'ny', 'nz', body) as FluxFn;
 }

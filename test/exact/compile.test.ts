@@ -114,3 +114,16 @@ describe('compileValueAndGradient', () => {
     expect(source.match(/Math\.(sin|cos)\(/g)?.length).toBe(4);
   });
 });
+
+describe('shared calls in compiled formulas', () => {
+  it('a derived source term computes each distinct call once and still matches mathjs evaluate', () => {
+    // f = −∇·(k∇u) for u = exp(−x) sin(3y) + xy, k = 1 + xy/4 repeats sin(3y) and exp(−x) in its tree.
+    const tree = parse('-(1/4*y*(y - sin(3*y)*exp(-x)) + (1 + 1/4*x*y)*-(sin(3*y)*-1*exp(-x)) + 1/4*x*(3*exp(-x)*cos(3*y) + x) + 9*(1 + 1/4*x*y)*exp(-x)*-sin(3*y))');
+    const source = javaScriptOf(tree);
+    expect(source.match(/Math\.(sin|cos|exp)\(/g)?.length).toBe(3);
+    const f = compileScalar(tree);
+    for (const [x, y] of randomPoints(30, 11)) {
+      expect(relativeDifference(f(x, y, 0), tree.evaluate({ x, y }) as number)).toBeLessThanOrEqual(1e-14);
+    }
+  });
+});
