@@ -15,26 +15,10 @@ export function spgemm(A: Csr, B: Csr, alloc: Allocator = heapAllocator): Csr {
   const m = A.nRows, nc = B.nCols;
   const aPtr = A.rowPtr, aCol = A.colIdx, aVal = A.values;
   const bPtr = B.rowPtr, bCol = B.colIdx, bVal = B.values;
-  const rowPtr = alloc.i32(m + 1);
-  // Room for every contribution: pages the product never reaches are never touched (the operating system maps
-  // them on first write), so the bound costs address space, not time; the result is a view, not a copy.
-  let bound = 0;
-  for (let k = 0; k < aPtr[m]; k++) { const r = aCol[k]; bound += bPtr[r + 1] - bPtr[r]; }
-  const cols = alloc.i32(Math.max(1, bound), false);
-  const vals = alloc.f64(Math.max(1, bound), false);
-  const wasm = alloc.wasm;
-  if (wasm && wasm.owns(aPtr, aCol, aVal, bPtr, bCol, bVal, rowPtr, cols, vals)) {
-    const marker = alloc.i32(nc, false);
-    if (wasm.owns(marker)) {
-      marker.fill(-1);
-      const nnz = wasm.kernels.sparseProduct(m, aPtr.byteOffset, aCol.byteOffset, aVal.byteOffset, bPtr.byteOffset,
-        bCol.byteOffset, bVal.byteOffset, marker.byteOffset, rowPtr.byteOffset, cols.byteOffset, vals.byteOffset);
-      alloc.free(marker);
-      sortLongRows(rowPtr, cols, vals, m);
-      return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
-    }
-    alloc.free(marker);
-  }
+  const out = productBuffers(A, B, alloc);
+  const byKernel = productByKernel('sparseProduct', A, B, out, alloc);
+  if (byKernel) return byKernel;
+  const { rowPtr, cols, vals } = out;
   const marker = new Int32Array(nc).fill(-1);
   let nnz = 0;
   for (let i = 0; i < m; i++) {
@@ -53,7 +37,42 @@ export function spgemm(A: Csr, B: Csr, alloc: Allocator = heapAllocator): Csr {
     sortRowByColumn(cols, vals, rowStart, nnz);
     rowPtr[i + 1] = nnz;
   }
-  return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
+  return productResult(A, B, out, nnz, alloc);
+}
+
+/** Row pointers and room for every contribution of a product A·B (or of a part of it): each entry a_ik picks row k
+ *  of B. Pages the product never reaches are never touched (the operating system maps them on first write), so the
+ *  bound costs address space, not time; productResult gives the unused tail back. */
+export interface ProductBuffers { rowPtr: Int32Array; cols: Int32Array; vals: Float64Array }
+
+export function productBuffers(A: Csr, B: Csr, alloc: Allocator): ProductBuffers {
+  const m = A.nRows, aPtr = A.rowPtr, aCol = A.colIdx, bPtr = B.rowPtr;
+  let bound = 0;
+  for (let k = 0; k < aPtr[m]; k++) { const r = aCol[k]; bound += bPtr[r + 1] - bPtr[r]; }
+  return { rowPtr: alloc.i32(m + 1), cols: alloc.i32(Math.max(1, bound), false), vals: alloc.f64(Math.max(1, bound), false) };
+}
+
+/** The product with nnz entries in `out`, its unused room given back. */
+export function productResult(A: Csr, B: Csr, out: ProductBuffers, nnz: number, alloc: Allocator): Csr {
+  return { nRows: A.nRows, nCols: B.nCols, rowPtr: out.rowPtr, colIdx: alloc.shrink(out.cols, nnz), values: alloc.shrink(out.vals, nnz) };
+}
+
+/** A·B (sparseProduct) or the upper triangle of A·B (upperProduct) by the WebAssembly kernel of that name, when every
+ *  operand lives in the allocator's WebAssembly memory; null otherwise (the caller runs its TypeScript loop). */
+export function productByKernel(
+  kernel: 'sparseProduct' | 'upperProduct', A: Csr, B: Csr, out: ProductBuffers, alloc: Allocator,
+): Csr | null {
+  const wasm = alloc.wasm;
+  const { rowPtr, cols, vals } = out;
+  if (!wasm || !wasm.owns(A.rowPtr, A.colIdx, A.values, B.rowPtr, B.colIdx, B.values, rowPtr, cols, vals)) return null;
+  const marker = alloc.i32(B.nCols, false);
+  if (!wasm.owns(marker)) { alloc.free(marker); return null; }
+  marker.fill(-1);
+  const nnz = wasm.kernels[kernel](A.nRows, A.rowPtr.byteOffset, A.colIdx.byteOffset, A.values.byteOffset, B.rowPtr.byteOffset,
+    B.colIdx.byteOffset, B.values.byteOffset, marker.byteOffset, rowPtr.byteOffset, cols.byteOffset, vals.byteOffset);
+  alloc.free(marker);
+  sortLongRows(rowPtr, cols, vals, A.nRows);
+  return productResult(A, B, out, nnz, alloc);
 }
 
 /** The kernels sort rows of up to 32 entries (insertion sort); the longer ones are sorted here (heap sort). */

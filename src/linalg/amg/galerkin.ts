@@ -4,7 +4,7 @@
 import { sortRowByColumn } from '../csr.ts';
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
-import { sortLongRows, spgemm } from '../spgemm.ts';
+import { productBuffers, productByKernel, productResult, spgemm } from '../spgemm.ts';
 
 const freeCsr = (M: Csr, alloc: Allocator): void => { alloc.free(M.rowPtr); alloc.free(M.colIdx); alloc.free(M.values); };
 
@@ -30,25 +30,10 @@ function upperProduct(R: Csr, M: Csr, alloc: Allocator): Csr {
   const m = R.nRows, nc = M.nCols;
   const rPtr = R.rowPtr, rCol = R.colIdx, rVal = R.values;
   const mPtr = M.rowPtr, mCol = M.colIdx, mVal = M.values;
-  const rowPtr = alloc.i32(m + 1);
-  // Room for every contribution (see spgemm.ts: untouched pages cost address space only); the tail is given back.
-  let bound = 0;
-  for (let k = 0; k < rPtr[m]; k++) { const i = rCol[k]; bound += mPtr[i + 1] - mPtr[i]; }
-  const cols = alloc.i32(Math.max(1, bound), false);
-  const vals = alloc.f64(Math.max(1, bound), false);
-  const wasm = alloc.wasm;
-  if (wasm && wasm.owns(rPtr, rCol, rVal, mPtr, mCol, mVal, rowPtr, cols, vals)) {
-    const marker = alloc.i32(nc, false);
-    if (wasm.owns(marker)) {
-      marker.fill(-1);
-      const nnz = wasm.kernels.upperProduct(m, rPtr.byteOffset, rCol.byteOffset, rVal.byteOffset, mPtr.byteOffset,
-        mCol.byteOffset, mVal.byteOffset, marker.byteOffset, rowPtr.byteOffset, cols.byteOffset, vals.byteOffset);
-      alloc.free(marker);
-      sortLongRows(rowPtr, cols, vals, m);
-      return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
-    }
-    alloc.free(marker);
-  }
+  const out = productBuffers(R, M, alloc);
+  const byKernel = productByKernel('upperProduct', R, M, out, alloc);
+  if (byKernel) return byKernel;
+  const { rowPtr, cols, vals } = out;
   const marker = new Int32Array(nc).fill(-1);
   let nnz = 0;
   for (let I = 0; I < m; I++) {
@@ -68,7 +53,7 @@ function upperProduct(R: Csr, M: Csr, alloc: Allocator): Csr {
     sortRowByColumn(cols, vals, rowStart, nnz);
     rowPtr[I + 1] = nnz;
   }
-  return { nRows: m, nCols: nc, rowPtr, colIdx: alloc.shrink(cols, nnz), values: alloc.shrink(vals, nnz) };
+  return productResult(R, M, out, nnz, alloc);
 }
 
 /** Full symmetric matrix from its upper triangle U: row I = (strict upper part of U)ᵀ row I, then U row I.
