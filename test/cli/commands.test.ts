@@ -25,7 +25,7 @@ describe('rungs check', () => {
     const xml = new XMLParser({ ignoreAttributes: false }).parse(readFileSync(junit, 'utf8'));
     expect(xml.testsuites['@_tests']).toBe('3');
     expect(xml.testsuites['@_failures']).toBe('0');
-  }, 60_000);
+  });
   it('flags a seeded 10% regression at one level and exits 1', () => {
     const b = JSON.parse(readFileSync(base, 'utf8'));
     const lvl = b.studies['tile-p1'].norms.L2[3];
@@ -35,7 +35,7 @@ describe('rungs check', () => {
     const r = rungs('check', STUDY, '--baseline', seeded, '--out', out);
     expect(r.status).toBe(1);
     expect(r.out).toMatch(/regression: tile-p1  L2  level 4  .* vs baseline .* \(\+10%\)/);
-  }, 60_000);
+  });
   it('a corrupt baseline, a missing one and one from another ladder are bad input (exit 2), results still written', () => {
     const corrupt = join(dir, 'corrupt.json');
     writeFileSync(corrupt, '{ "studies": ');
@@ -49,13 +49,13 @@ describe('rungs check', () => {
     const shorter = rungs('check', STUDY, '--baseline', base, '--levels', '3', '--out', out);
     expect(shorter.status).toBe(2);
     expect(shorter.err).toMatch(/tile-p1  ladder  3 levels vs baseline 5 levels/);
-  }, 90_000);
+  });
   it('--quick runs only the coarsest levels that still give a fit (3 unless the study says)', () => {
     const q = join(dir, 'quick');
     const r = rungs('check', STUDY, '--quick', '--out', q);
     expect(r.status).toBe(0);
     expect(readFileSync(join(q, 'tile-p1.csv'), 'utf8').trim().split('\n')).toHaveLength(4);
-  }, 60_000);
+  });
   it('an unwritable output folder is bad input (exit 2)', () => {
     const ro = join(dir, 'ro');
     mkdirSync(ro);
@@ -64,7 +64,7 @@ describe('rungs check', () => {
     expect(r.status).toBe(2);
     expect(r.err).toMatch(/blocker/);
     chmodSync(ro, 0o755);
-  }, 60_000);
+  });
 });
 
 describe('rungs fit', () => {
@@ -83,5 +83,5 @@ describe('rungs fit', () => {
     expect(wrong.status).toBe(1);
     const bad = rungs('fit', join(dir, 'missing.csv'));
     expect(bad.status).toBe(2);
-  }, 60_000);
+  });
 });

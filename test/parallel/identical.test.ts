@@ -29,5 +29,5 @@ describe('parallel levels', () => {
       expect(stableCsv(join(parallelOut, `${r.study}.csv`))).toBe(stableCsv(join(serialOut, `${r.study}.csv`)));
     }
     expect(parallel.results.map((r) => r.analyses)).toEqual(serial.results.map((r) => r.analyses));
-  }, 120_000);
+  });
 });

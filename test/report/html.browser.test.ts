@@ -1,5 +1,6 @@
-import { existsSync, mkdirSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -8,9 +9,6 @@ import { demoResults } from './fixture.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const hasChromium = existsSync(CHROMIUM);
-const REPORTS = resolve('reports');
-const OUT = join(REPORTS, 'demo');
-
 describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' : ` (skipped: ${CHROMIUM} not found; install chromium to run it)`}`, () => {
   const results = demoResults();
   let browser: Browser;
@@ -18,7 +16,13 @@ describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' :
   const consoleErrors: string[] = [];
   const requests: string[] = [];
 
+  // Tests write only into temporary folders, never into the user's reports/.
+  let REPORTS = '';
+  let OUT = '';
+
   beforeAll(async () => {
+    REPORTS = mkdtempSync(join(tmpdir(), 'rungs-browser-'));
+    OUT = join(REPORTS, 'demo');
     const outcome = writeReportFiles(OUT, results, {
       meta: { generatedAt: '2025-03-14T09:30:00Z' },
       inputProblems: [{ study: 'tile-p3', file: 'studies/tile-p3.study.ts', message: 'ladder.n must be increasing; got [8, 4, 16]' }],
@@ -35,10 +39,11 @@ describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' :
     page.on('pageerror', (e) => consoleErrors.push(e.message));
     page.on('request', (r) => requests.push(r.url()));
     await page.goto(pathToFileURL(join(OUT, 'index.html')).href, { waitUntil: 'load' });
-  }, 60_000);
+  });
 
   afterAll(async () => {
     await browser?.close();
+    if (REPORTS) rmSync(REPORTS, { recursive: true, force: true });
   });
 
   it('loads without console errors and without fetching anything but the page itself', () => {
@@ -96,8 +101,7 @@ describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' :
     await page.emulateMedia({ media: 'screen' });
   });
 
-  it('saves a screenshot to reports/index.png', async () => {
-    mkdirSync(REPORTS, { recursive: true });
+  it('saves a screenshot of the page', async () => {
     const path = join(REPORTS, 'index.png');
     await page.screenshot({ path, fullPage: true });
     expect(existsSync(path)).toBe(true);
