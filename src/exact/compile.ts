@@ -38,8 +38,12 @@ const FUNCTION_JS: Readonly<Record<string, (args: string[]) => string>> = {
   pow: (a) => `Math.pow(${a[0]}, ${a[1]})`,
 };
 
-const SYMBOL_JS: Readonly<Record<string, string>> = { x: 'x', y: 'y', z: 'z', pi: 'Math.PI', e: 'Math.E' };
-const COORDINATES: ReadonlySet<string> = new Set(['x', 'y', 'z']);
+const SYMBOL_JS: Readonly<Record<string, string>> = { x: 'x', y: 'y', z: 'z', t: 't', pi: 'Math.PI', e: 'Math.E' };
+/** The variables of a formula: the coordinates, the time and (boundary data) the normal; a tree free of them is a
+ *  constant and is folded. */
+const COORDINATES: ReadonlySet<string> = new Set(['x', 'y', 'z', 't', 'nx', 'ny', 'nz']);
+/** Variables that are not in SYMBOL_JS, emitted as themselves where a function takes them as arguments. */
+const NORMAL_SYMBOLS: ReadonlySet<string> = new Set(['nx', 'ny', 'nz']);
 
 const BINARY_JS: Readonly<Record<string, string>> = { add: '+', subtract: '-', multiply: '*', divide: '/' };
 
@@ -55,7 +59,7 @@ interface CodeContext {
 
 const coordinateFreeCache = new WeakMap<MathNode, boolean>();
 
-/** True when the tree does not depend on x, y or z (memoised: trees are immutable once built). */
+/** True when the tree does not depend on x, y, z or t (memoised: trees are immutable once built). */
 export function isCoordinateFree(node: MathNode): boolean {
   const known = coordinateFreeCache.get(node);
   if (known !== undefined) return known;
@@ -103,7 +107,7 @@ function expressionOf(node: MathNode, ctx: CodeContext): string {
     }
     case 'SymbolNode': {
       const name = (node as unknown as { name: string }).name;
-      const js = Object.hasOwn(SYMBOL_JS, name) ? SYMBOL_JS[name] : undefined;
+      const js = Object.hasOwn(SYMBOL_JS, name) ? SYMBOL_JS[name] : NORMAL_SYMBOLS.has(name) ? name : undefined;
       if (js === undefined) throw new Error(`compile: unknown symbol ${name}`);
       return js;
     }
@@ -178,9 +182,10 @@ export function javaScriptOf(node: MathNode): string {
   return `${preamble(ctx)}return ${expression};`;
 }
 
-/** Compile a validated formula tree into a plain function of (x, y, z). */
+/** Compile a validated formula tree into a plain function of (x, y, z, t) (t is undefined for steady callers, which
+ *  never pass a tree holding t). */
 export function compileScalar(node: MathNode): ScalarFn {
-  return new Function('x', 'y', 'z', `"use strict";\n${javaScriptOf(node)}`) as ScalarFn;
+  return new Function('x', 'y', 'z', 't', `"use strict";\n${javaScriptOf(node)}`) as ScalarFn;
 }
 
 /** Compile one tree per component into a function writing out[0 .. n-1]. */
@@ -211,4 +216,17 @@ export function compileFlux(k: MathNode, grad: readonly MathNode[]): FluxFn {
   const dot = grad.map((g, i) => `${expressionOf(g, ctx)} * ${normals[i]}`).join(' + ');
   const body = `"use strict";\n${preamble(ctx)}return ${kCode} * (${dot});`;
   return new Function('x', 'y', 'z', 'nx', 'ny', 'nz', body) as FluxFn;
+}
+
+/** A compiled function of named arguments (x, y, z, t and, for boundary data, nx, ny, nz) with one or more outputs: it
+ *  writes output i to out[i] and returns output 0. Each distinct function call is computed once. */
+export type ArgumentsFn = (args: Float64Array, out: Float64Array) => number;
+
+/** Compile trees over the symbols `args` (read from args[i] in that order) into one ArgumentsFn. */
+export function compileOutputs(args: readonly string[], outputs: readonly MathNode[]): ArgumentsFn {
+  const ctx = sharedContext();
+  const lines = outputs.map((node, i) => `out[${i}] = ${expressionOf(node, ctx)};`);
+  const unpack = args.map((a, i) => `const ${a} = args[${i}];`).join('\n');
+  const body = `"use strict";\n${unpack}\n${preamble(ctx)}${lines.join('\n')}\nreturn out[0];`;
+  return new Function('args', 'out', body) as ArgumentsFn;
 }

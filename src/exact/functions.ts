@@ -1,7 +1,7 @@
 import { RungsInputError } from '../errors.ts';
 import { checkConsistency, type ConsistencyOptions } from './consistency.ts';
 import { fieldPath, type FieldNames, type QuantityName } from './field-names.ts';
-import { checkDim } from './manufactured.ts';
+import { checkDim } from './formula.ts';
 import type { Dim, FluxFn, ManufacturedSolution, ScalarFn, VectorFn } from './types.ts';
 
 /** A vector field given by the user: fills `out`, or returns its components (then they are copied into out). */

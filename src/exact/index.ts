@@ -1,11 +1,10 @@
 export type { BoundingBox, Dim, FluxFn, ManufacturedFormulas, ManufacturedSolution, ScalarFn, VectorFn } from './types.ts';
 export type { FieldNames, QuantityName } from './field-names.ts';
-export { CONSTANTS, FUNCTION_ARITY, VARIABLES, parseFormula, validVocabulary } from './formula.ts';
+export { CONSTANTS, FUNCTION_ARITY, VARIABLES, checkDim, compileFormula, parseFormula, validVocabulary, variablesOf } from './formula.ts';
 export { compileFlux, compileScalar, compileVector, isCoordinateFree, javaScriptOf } from './compile.ts';
 export { AUTO_FULL_SIMPLIFY_NODES, simplifyDerived, type SimplifyMode } from './simplify.ts';
-export { gradientTrees, sourceTree } from './source-term.ts';
+export { differentiate } from './differentiate.ts';
 export { polynomialDegree } from './polynomial.ts';
-export { manufacture, type FormulaInput, type ManufactureOptions } from './manufactured.ts';
 export { fromFunctions, type FunctionInput, type UserVectorFn } from './functions.ts';
 export { checkConsistency, type ConsistencyInput, type ConsistencyOptions } from './consistency.ts';
 export { assertFinite } from './finite.ts';

@@ -19,6 +19,8 @@ export interface ExternalLevelInput {
   norms?: readonly string[];
   /** Quantities the study analyses; the solver must report each. */
   quantities?: readonly string[];
+  /** The study's generated manufactured data ({data}, RUNGS_DATA), when written. */
+  data?: string;
   signal?: AbortSignal;
 }
 
@@ -26,7 +28,7 @@ export interface ExternalLevelInput {
 export async function runExternalLevel(spec: ExternalDiscretization, level: ExternalLevelInput): Promise<ExternalLevelRun> {
   const ref: LevelRef = { study: level.study, index: level.index, n: level.n };
   prepareLevelFolder(level.outDir, ref);
-  const values = { study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: level.outDir };
+  const values = { study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: level.outDir, data: level.data };
   const run = await runLevelCommand({ command: spec.command, timeoutSeconds: spec.timeoutSeconds, cwd: spec.cwd, env: spec.env }, values, {
     level: ref, signal: level.signal,
   });

@@ -13,9 +13,11 @@ export interface LevelValues {
   degree?: number;
   /** Folder the solver writes its output into (created by rungs). */
   out: string;
+  /** Folder holding the study's manufactured data as code (rungs_data.h, .f90, .py, …) and problem.json. */
+  data?: string;
 }
 
-export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study'] as const;
+export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study', 'data'] as const;
 export type PlaceholderName = (typeof PLACEHOLDERS)[number];
 
 /** Numbers as JavaScript prints them (shortest form that reads back to the same double). */
@@ -26,10 +28,16 @@ function valueOf(values: LevelValues, name: PlaceholderName, where: string): str
     }
     return String(values.degree);
   }
+  if (name === 'data') {
+    if (values.data === undefined) {
+      throw new RungsInputError(`${where}: the command uses {data}, but this study has no manufactured data to hand over (its exact solution is not given as formulas)`, where);
+    }
+    return values.data;
+  }
   return String(values[name]);
 }
 
-/** Replaces {n} {h} {level} {degree} {out} {study} inside one argv word; {{ and }} stand for literal braces. */
+/** Replaces {n} {h} {level} {degree} {out} {study} {data} inside one argv word; {{ and }} stand for literal braces. */
 export function substituteWord(word: string, values: LevelValues, where = 'command'): string {
   let out = '';
   let i = 0;
@@ -72,5 +80,6 @@ export function levelEnvironment(values: LevelValues): Record<string, string> {
     RUNGS_OUT: values.out,
   };
   if (values.degree !== undefined) env.RUNGS_DEGREE = String(values.degree);
+  if (values.data !== undefined) env.RUNGS_DATA = values.data;
   return env;
 }

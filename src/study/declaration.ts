@@ -6,6 +6,7 @@ import type { SolveStats } from '../linalg/types.ts';
 import type { Verdict } from '../analysis/types.ts';
 import type { LevelContext } from './context.ts';
 import type { ExternalDiscretization } from '../external/types.ts';
+import type { PdeDeclaration } from '../equation/types.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 export const NORM_NAMES: NormName[] = ['L2', 'H1semi', 'H1', 'energy', 'maxNodal'];
@@ -87,8 +88,12 @@ export interface StudyDeclaration {
   name: string;
   description?: string;
   domain: DomainSpec;
-  /** The manufactured solution; may be left out only by an external study that declares quantities instead. */
-  exact?: string | ExactFunctions;
+  /** The PDE as data: its fields, coefficients and equations (a preset such as linearElasticity({ lambda, mu }) or
+   *  your own). Without it the study solves −∇·(k∇u) + b·∇u + c·u = f with the `coefficients` below. */
+  pde?: PdeDeclaration;
+  /** The manufactured solution: a formula (one scalar field), formulas per field ({ u: [...], p: '...' }) with a
+   *  pde, or functions; may be left out only by an external study that declares quantities instead. */
+  exact?: string | Record<string, string | string[]> | ExactFunctions;
   coefficients?: { k?: Coefficient; b?: Coefficient[]; c?: Coefficient };
   boundary?: BoundaryDeclaration;
   discretization: Discretization;

@@ -30,12 +30,13 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
   let interpolationErrors: Record<string, number> | undefined;
   let quasiOptimality: number | null = null;
   let cells: number;
-  if (!opts.exact) {
-    errors = {};
-    cells = out.kind === 'errors' ? out.cells ?? Number.NaN : out.mesh.nCells;
-  } else if (out.kind === 'errors') {
+  if (out.kind === 'errors') {
+    // The code's own errors, under the norm names the study declares (built-in names or its own).
     errors = pick(out.errors);
     cells = out.cells ?? Number.NaN;
+  } else if (!opts.exact) {
+    errors = {};
+    cells = out.mesh.nCells;
   } else {
     const exact = opts.exact;
     const errs: NormValues = errorNorms(out.field, exact, opts.errorOptions);

@@ -35,6 +35,8 @@ const peakRss = () => process.resourceUsage().maxRSS * 1024;
 /** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
 export interface LevelEnvironment {
   out: string;
+  /** The folder holding the study's generated manufactured data ({data}, RUNGS_DATA), when written. */
+  data?: string;
 }
 
 /** Runs one level: mesh, solve, errors; returns its row. Any failure is re-thrown naming the study and level. */
@@ -80,12 +82,12 @@ async function runLevelUnguarded(
     t = performance.now();
     const run = await runExternalLevel(disc, {
       study: decl.name, index, n, h: mesh.h, outDir: levelFolder(join(env.out, fileStem(decl.name)), index),
-      norms: exact ? norms : [], quantities: decl.quantities,
+      norms, quantities: decl.quantities, data: env.data,
     });
     const tSolve = seconds(t);
     t = performance.now();
     const { level, quantities } = externalLevelResult(run, {
-      index, n, exact: exact ?? undefined, norms: exact ? norms : [], errorOptions: errOpts, symmetric: problem.symmetric,
+      index, n, exact: exact ?? undefined, norms, errorOptions: errOpts, symmetric: problem.symmetric,
     });
     return {
       ...level,

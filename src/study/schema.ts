@@ -31,6 +31,16 @@ const discretization = z.discriminatedUnion('kind', [
   externalDiscretizationSchema,
 ], { message: 'expected lagrange({ degree }), custom({ label, solve }) or external({ command, output })' });
 
+const formulaList = z.array(z.union([z.string().min(1), z.number().finite()]));
+const pde = z.object({
+  label: z.string().optional(),
+  fields: z.record(z.string(), z.enum(['scalar', 'vector'])),
+  coefficients: z.record(z.string(), z.union([z.string().min(1), z.number().finite(), formulaList, z.array(formulaList)])).optional(),
+  equations: z.record(z.string(), z.object({ flux: z.string().optional(), rest: z.string().optional(), field: z.string().optional() }).strict()),
+  meanFree: z.array(z.string()).optional(),
+  preset: z.object({ name: z.string(), args: z.record(z.string(), z.unknown()) }).optional(),
+}, { message: 'expected a pde: { fields, equations, coefficients? } or a preset such as linearElasticity({ lambda, mu })' }).strict();
+
 const exactFunctions = z.object({ u: fn('u(x, y, z)'), grad: fn('grad(x, y, z, out)'), f: fn('f(x, y, z)') }).strict();
 
 const ladder = z.object({
@@ -49,7 +59,9 @@ export const studySchema = z.object({
   name: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected a name of letters, digits, ".", "_" or "-" (it names the report files)'),
   description: z.string().optional(),
   domain,
-  exact: z.union([z.string().min(1), exactFunctions], { message: 'expected a formula string in x, y, z or { u, grad, f } functions' }).optional(),
+  pde: pde.optional(),
+  exact: z.union([z.string().min(1), exactFunctions, z.record(z.string(), z.union([z.string().min(1), z.array(z.string().min(1))]))],
+    { message: 'expected a formula string in x, y, z, formulas per field ({ u: [...], p: \'...\' }) or { u, grad, f } functions' }).optional(),
   coefficients: z.object({ k: coefficient.optional(), b: z.array(coefficient).optional(), c: coefficient.optional() }).strict().optional(),
   boundary: z.object({
     dirichlet: z.array(z.string()).optional(),
@@ -58,7 +70,8 @@ export const studySchema = z.object({
   }).strict().optional(),
   discretization,
   ladder,
-  norms: z.array(z.enum(NORM_NAMES as [string, ...string[]])).min(1).optional(),
+  // Built-in norms, or (an external code's own errors) any name with the expected order the study declares.
+  norms: z.array(z.string().regex(/^[A-Za-z][A-Za-z0-9_.-]*$/, 'expected a norm name of letters, digits, "_", "." or "-"')).min(1).optional(),
   quantities: quantityNamesSchema.optional(),
   expected: z.record(z.string(), z.number().finite()).optional(),
   tolerance: z.number().positive().optional(),
@@ -76,6 +89,14 @@ export const studySchema = z.object({
   if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
     ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });
   }
+  (s.norms ?? []).forEach((nm, i) => {
+    if ((NORM_NAMES as string[]).includes(nm)) return;
+    if (s.discretization.kind !== 'external') {
+      ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures (${NORM_NAMES.join(', ')}); other names are for errors an external code reports itself` });
+    } else if (s.expected?.[nm] === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: '${nm}' is the external code's own error norm, so give its expected order (expected: { ${nm}: 2 })` });
+    }
+  });
   const names = [...(s.norms ?? []), ...(s.quantities ?? []), ...NORM_NAMES];
   for (const k of Object.keys(s.expected ?? {})) {
     if (!names.includes(k)) ctx.addIssue({ code: 'custom', path: ['expected', k], message: `'${k}' is neither a norm (${NORM_NAMES.join(', ')}) nor a declared quantity` });

@@ -3,7 +3,7 @@
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { assembleSystem, expandSolution } from '../../src/fem/assemble/system.ts';
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import { solveSystem } from '../../src/linalg/index.ts';
 import { lagrangeField } from '../../src/fem/field/lagrange-field.ts';
 import { errorNorms } from '../../src/norms/errors.ts';

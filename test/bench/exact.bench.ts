@@ -2,7 +2,7 @@
 // Run: npx tsx test/bench/exact.bench.ts   (RUNGS_BENCH_POINTS overrides the 1e6 points per pass)
 import { Bench } from 'tinybench';
 import { parse } from 'mathjs';
-import { manufacture } from '../../src/exact/manufactured.ts';
+import { manufacture } from '../../src/equation/manufactured.ts';
 import { mulberry32 } from '../../src/mesh/random.ts';
 
 const N = Number(process.env.RUNGS_BENCH_POINTS ?? 1_000_000);

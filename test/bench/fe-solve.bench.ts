@@ -12,7 +12,7 @@
  *  Targets (issue): P1 at 1M unknowns under 1.5 s in total and at most 25 iterations; iteration counts flat within
  *  ±3 from 16k to 1M unknowns for every degree; the checkerboard at most twice the iterations of k = 1.
  *  Run: npx tsx test/bench/fe-solve.bench.ts [P1 P2 P3 P1-checkerboard P2-checkerboard] [--max-unknowns N] */
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import { assembleSystem } from '../../src/fem/assemble/system.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { solveSystem } from '../../src/linalg/index.ts';

@@ -4,7 +4,7 @@
  *  multigrid setup. Both versions give the same bits (test/linalg/kernels.test.ts); this measures their speed, as
  *  ratios (the machine is shared and noisy). Run: npx tsx test/bench/kernels.bench.ts [m] */
 import { Bench } from 'tinybench';
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import { assembleSystem } from '../../src/fem/assemble/system.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { amgSetup } from '../../src/linalg/amg/setup.ts';

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { RungsInputError } from '../../src/errors.ts';
 import { assertFinite } from '../../src/exact/finite.ts';
-import { manufacture } from '../../src/exact/manufactured.ts';
+import { manufacture } from '../../src/equation/manufactured.ts';
 
 describe('assertFinite', () => {
   it('names a point where log(x − 0.5) is NaN (log of a negative number is NaN, IEEE 754)', () => {

@@ -1,4 +1,4 @@
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
 import { solveLagrange } from '../../src/fem/discretizations/lagrange.ts';
 import { errorNorms } from '../../src/norms/errors.ts';

@@ -11,7 +11,7 @@ import { spmv } from '../../src/linalg/csr.ts';
 import { finestOperator, ROUND_OFF_ENTRY } from '../../src/linalg/amg/negligible-entries.ts';
 import { scanLevel } from '../../src/linalg/amg/level-scan.ts';
 import { strengthGraph } from '../../src/linalg/amg/strength.ts';
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import { assembleSystem } from '../../src/fem/assemble/system.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';

@@ -3,7 +3,7 @@ import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { lagrangeField, interpolate } from '../../src/fem/field/lagrange-field.ts';
 import { errorNorms } from '../../src/norms/errors.ts';
-import { manufacture } from '../../src/exact/index.ts';
+import { manufacture } from '../../src/equation/index.ts';
 import { mapReferencePoint } from '../../src/fem/geometry/map.ts';
 
 describe('error integrals', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { derivative, parse } from 'mathjs';
 import { RungsInputError } from '../../src/errors.ts';
-import { manufacture } from '../../src/exact/manufactured.ts';
+import { manufacture } from '../../src/equation/manufactured.ts';
 import { mulberry32 } from '../../src/mesh/random.ts';
 
 const PI = Math.PI;
