@@ -8,7 +8,7 @@ export default defineStudy({
   domain: rectangle([0, 1], [0, 1]),
   exact: 'sin(pi*x) * sinh(pi*y) / sinh(pi) + x*(1 - x)/2',
   discretization: external({
-    command: 'python3 examples/external/tile_solver.py --n {n} --out {out} --write errors',
+    command: 'python3 examples/external/tile_solver.py --n {n} --data {data} --out {out} --write errors',
     output: 'errors',
     degree: 1,
     timeoutSeconds: 60,

@@ -10,7 +10,7 @@ export default defineStudy({
   exact: 'sin(pi*x) * sinh(pi*y) / sinh(pi) + x*(1 - x)/2',
   boundary: { dirichlet: ['left', 'bottom', 'right', 'top'] },
   discretization: external({
-    command: 'python3 examples/external/tile_solver.py --n {n} --out {out} --write vtk --quantities',
+    command: 'python3 examples/external/tile_solver.py --n {n} --data {data} --out {out} --write vtk --quantities',
     output: 'vtk',
     degree: 1,
     timeoutSeconds: 60,

@@ -1,12 +1,13 @@
 #!/usr/bin/env python3
 """Heat in a square ceramic tile, solved by a small P1 finite element code (Python 3 standard library only).
 
-The tile is the unit square. Its top edge is held at a sinusoidal firing profile, the other edges follow the same
-manufactured temperature, and the glaze releases heat uniformly (source f = 1). The exact temperature is
+The tile is the unit square with Dirichlet data on its whole boundary. Nothing about the manufactured temperature is
+typed here: the exact temperature, its gradient and the source come from rungs_data.py, the code rungs generates
+for the study (folder --data, or RUNGS_DATA, which rungs sets for every level). For the bundled studies
 
-    u(x, y) = sin(pi x) sinh(pi y) / sinh(pi) + x (1 - x) / 2,   with  -Laplace(u) = 1,
+    u(x, y) = sin(pi x) sinh(pi y) / sinh(pi) + x (1 - x) / 2,   with  -Laplace(u) = 1.
 
-so the discrete solution can be checked against it. The mesh is an n x n grid of squares, each cut into two
+rungs_data.py uses NumPy when it is installed and the math module otherwise; this solver calls it with plain floats. The mesh is an n x n grid of squares, each cut into two
 triangles by the diagonal from its lower-left to its upper-right corner; the linear system is solved by a banded
 Cholesky factorization.
 
@@ -25,20 +26,33 @@ import os
 import sys
 from operator import mul
 
-SINH_PI = math.sinh(math.pi)
+DATA = None  # the generated module rungs_data, loaded by load_data()
+
+
+def load_data(folder):
+    """Import rungs_data.py from the folder rungs wrote it into."""
+    global DATA
+    path = os.path.join(folder, "rungs_data.py")
+    if not os.path.isfile(path):
+        raise SystemExit(f"tile_solver.py: no {path}; run through rungs (which sets RUNGS_DATA) or give --data")
+    sys.path.insert(0, folder)
+    # This solver works point by point on plain floats: the math-module path of rungs_data is far faster there.
+    os.environ["RUNGS_DATA_SCALAR"] = "1"
+    import rungs_data
+    DATA = rungs_data
 
 
 def exact(x, y):
-    return math.sin(math.pi * x) * math.sinh(math.pi * y) / SINH_PI + 0.5 * x * (1.0 - x)
+    return float(DATA.exact_u(x, y, 0.0, 0.0))
 
 
 def exact_grad(x, y):
-    gx = math.pi * math.cos(math.pi * x) * math.sinh(math.pi * y) / SINH_PI + 0.5 - x
-    gy = math.pi * math.sin(math.pi * x) * math.cosh(math.pi * y) / SINH_PI
-    return gx, gy
+    gx, gy = DATA.grad_u(x, y, 0.0, 0.0)
+    return float(gx), float(gy)
 
 
-SOURCE = 1.0
+def source(x, y):
+    return float(DATA.source_balance(x, y, 0.0, 0.0))
 
 # Stroud (1971), T2:5-1 (Radon's 7-point rule, degree 5; label from memory): barycentric points and weights
 # summing to 1. It integrates every x^a y^b with a + b <= 5 exactly (check_rule, run with --check-rule).
@@ -106,7 +120,11 @@ def solve(n):
             ka = unknown[tri[a]]
             if ka < 0:
                 continue
-            rhs[ka] += SOURCE * area / 3.0
+            # Load with the 7-point rule (degree 5), so a variable source is integrated well beyond P1's order.
+            for lam, w in RULE:
+                xq = lam[0] * p[0][0] + lam[1] * p[1][0] + lam[2] * p[2][0]
+                yq = lam[0] * p[0][1] + lam[1] * p[1][1] + lam[2] * p[2][1]
+                rhs[ka] += w * area * source(xq, yq) * lam[a]
             for b in range(3):
                 kab = area * (bx[a] * bx[b] + by[a] * by[b])
                 kb = unknown[tri[b]]
@@ -205,6 +223,7 @@ def main(argv):
     parser.add_argument("--out", default=os.environ.get("RUNGS_OUT"), help="output folder")
     parser.add_argument("--write", choices=["errors", "vtk", "vtu"], default="errors")
     parser.add_argument("--quantities", action="store_true", help="with vtk/vtu, also write the quantities to errors.json")
+    parser.add_argument("--data", default=os.environ.get("RUNGS_DATA"), help="folder holding rungs_data.py (default RUNGS_DATA)")
     parser.add_argument("--check-rule", action="store_true", help="only check the quadrature rule's exactness and exit")
     args = parser.parse_args(argv)
     if args.check_rule:
@@ -217,6 +236,9 @@ def main(argv):
         parser.error(f"only degree 1 (P1) is implemented, got --degree {args.degree}")
     if not args.out:
         parser.error("--out is required (or set RUNGS_OUT)")
+    if not args.data:
+        parser.error("--data is required (or set RUNGS_DATA): the folder of the generated rungs_data.py")
+    load_data(args.data)
     os.makedirs(args.out, exist_ok=True)
 
     points, tris, values = solve(args.n)

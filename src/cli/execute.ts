@@ -2,7 +2,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { findStudyFiles, loadStudy } from '../study/load.ts';
-import { addLevel, completeStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
+import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
 import type { StudyResult } from '../study/result.ts';
 import { levelsCsv } from '../report/csv.ts';
@@ -72,7 +72,9 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
       name = loaded.declaration.name;
       const decl = loaded.declaration;
       const levels = opts.quick ? Math.min(decl.ladder.quick ?? 3, decl.ladder.n.length) : opts.levels;
-      prepared.push(prepareStudy(loaded, { levels, out: opts.out }));
+      const p = prepareStudy(loaded, { levels, out: opts.out });
+      await preflightStudy(p);
+      prepared.push(p);
     } catch (err) {
       problem(asProblem(err, name, shown));
     }
@@ -158,7 +160,7 @@ async function runParallel(prepared: PreparedStudy[], jobs: number, progress: Pr
   try {
     await Promise.all(tasks.map(async ({ p, index }) => {
       try {
-        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out });
+        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data });
         if (failed(p)) return;
         addLevel(p, level);
         progress.levelDone(p.result.study, level, p.total);

@@ -5,6 +5,8 @@ import { listCommand } from './list-command.ts';
 import { checkCommand } from './check-command.ts';
 import { defaultJobs } from '../parallel/pool.ts';
 import { fitCommand } from './fit-command.ts';
+import { dataCommand } from './data-command.ts';
+import { LANGUAGES } from '../codegen/index.ts';
 
 function jobCount(v: string): number {
   const n = Number(v);
@@ -72,6 +74,17 @@ program
   .option('--json', 'print the result as JSON')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
   .action(async (table: string, o) => { process.exitCode = await fitCommand(table, o); });
+
+program
+  .command('data')
+  .description('hand a study\'s manufactured data to your solver: exact solution, gradient, sources, boundary data and coefficients as code (with a self-test per language) and problem.json; or their values at your points')
+  .argument('[paths...]', 'study files or folders', ['studies'])
+  .option('--lang <names>', `languages, comma-separated (default all: ${LANGUAGES.join(', ')})`)
+  .option('--out <dir>', 'folder: the files go to <dir>/<study>/data', 'reports')
+  .option('--at <points.csv>', 'print the values at these points instead (CSV with columns x, y, z, t, nx, ny, nz; one study)')
+  .option('--values <file>', 'with --at: write the values to this CSV file instead of standard output')
+  .option('--quiet', 'do not print the formulas')
+  .action(async (paths: string[], o) => { process.exitCode = await dataCommand(paths, o); });
 
 program
   .command('list')

@@ -145,7 +145,7 @@ export function derive(input: DeriveInput): DerivedProblem {
   const equationNames = Object.keys(pde.equations ?? {});
   if (equationNames.length === 0) throw new RungsInputError(`${pdePath}.equations: declare at least one equation, e.g. { balance: { flux: 'k*grad(u)' } }`, pdePath);
   const unknownCount = fields.reduce((n, f) => n + (f.kind === 'vector' ? dim : 1), 0);
-  const equations = equationNames.map((name, position): DerivedEquation => {
+  const equations = equationNames.map((name): DerivedEquation => {
     const path = `${pdePath}.equations.${name}`;
     checkName(name, path);
     const decl = pde.equations[name];
@@ -161,12 +161,8 @@ export function derive(input: DeriveInput): DerivedProblem {
     if (flux && flux.rank !== rank + 1) {
       throw new RungsInputError(`${path}.flux: is ${RANK_WORDS[flux.rank]} but the equation is ${RANK_WORDS[rank]}${rest ? ' (its rest)' : ''}; a ${rank === 0 ? 'scalar equation needs a vector flux' : 'vector equation needs a matrix flux'}`, path);
     }
-    const fieldName = decl.field ?? fieldNames[position];
-    if (fieldName === undefined || !fieldNames.includes(fieldName)) {
-      throw new RungsInputError(`${path}.field: ${fieldName === undefined ? 'no field in the same position' : `'${fieldName}' is not a declared field`}; the fields are ${fieldNames.join(', ')}`, path);
-    }
     const source = sourceOf(flux, rest, rank as 0 | 1, dim, mode);
-    return { name, rank: rank as 0 | 1, field: fieldName, flux, rest: rest ?? zeroTensor(rank as 0 | 1, dim), source, normalFlux: flux ? normalFluxOf(flux, dim) : null };
+    return { name, rank: rank as 0 | 1, field: decl.field ?? '', flux, rest: rest ?? zeroTensor(rank as 0 | 1, dim), source, normalFlux: flux ? normalFluxOf(flux, dim) : null };
   });
   const equationCount = equations.reduce((n, e) => n + (e.rank === 1 ? dim : 1), 0);
   if (equationCount !== unknownCount) {
@@ -174,11 +170,36 @@ export function derive(input: DeriveInput): DerivedProblem {
       `${pdePath}.equations: ${equationCount} scalar equation(s) (${equations.map((e) => `${e.name}: ${RANK_WORDS[e.rank]}`).join(', ')}) for ${unknownCount} unknown component(s) (${fields.map((f) => `${f.name}: ${f.kind}`).join(', ')}); ` +
       'each unknown component needs one equation', pdePath);
   }
+  // Each equation pairs with one field of its own shape (its Dirichlet and Robin data): the one named, else the first
+  // unpaired field of that shape in declaration order.
+  const paired = new Map<string, string>();
+  for (const e of equations) {
+    const path = `${pdePath}.equations.${e.name}`;
+    const rank = e.rank;
+    const name = e.name;
+    const fieldName = e.field || fields.find((f) => FIELD_RANK[f.kind] === rank && !paired.has(f.name) && !equations.some((o) => o.field === f.name))?.name;
+    if (fieldName === undefined || !fieldNames.includes(fieldName)) {
+      throw new RungsInputError(`${path}.field: ${fieldName === undefined ? `no unpaired ${rank === 0 ? 'scalar' : 'vector'} field is left for this ${RANK_WORDS[rank].replace(/^an? /, '')} equation` : `'${fieldName}' is not a declared field`}; the fields are ${fields.map((f) => `${f.name} (${f.kind})`).join(', ')}`, path);
+    }
+    const kind = pde.fields[fieldName];
+    if (FIELD_RANK[kind] !== rank) {
+      throw new RungsInputError(`${path}.field: '${fieldName}' is a ${kind} field but the equation is ${RANK_WORDS[rank]}; pair it with a field of its own shape`, path);
+    }
+    if (paired.has(fieldName)) {
+      throw new RungsInputError(`${path}.field: '${fieldName}' is already paired with equation '${paired.get(fieldName)}'; each field pairs with one equation`, path);
+    }
+    paired.set(fieldName, name);
+    e.field = fieldName;
+  }
   const meanFree = pde.meanFree ?? [];
   for (const name of meanFree) {
     if (!fieldNames.includes(name)) throw new RungsInputError(`${pdePath}.meanFree: '${name}' is not a declared field; the fields are ${fieldNames.join(', ')}`, pdePath);
   }
-  const trees = [...fields.flatMap((f) => components(f.exact)), ...[...coefficients.values()].flatMap(components)];
+  // Time enters through the exact fields, the coefficients, the equations themselves (t*u, exp(-t)*grad(u)) or dt().
+  const trees = [
+    ...fields.flatMap((f) => components(f.exact)), ...[...coefficients.values()].flatMap(components),
+    ...equations.flatMap((e) => [...components(e.source), ...(e.normalFlux ? components(e.normalFlux) : [])]),
+  ];
   const hasTime = trees.some(usesTime) || Object.values(pde.equations).some((e) => /\bdt\s*\(/.test(`${e.flux ?? ''} ${e.rest ?? ''}`));
   return { dim, hasTime, fields, coefficients, equations, meanFree };
 }

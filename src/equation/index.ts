@@ -4,3 +4,4 @@ export { diffusionConvectionReaction, linearElasticity, nonlinearDiffusion, stok
 export { manufacture, manufactureDerived, type FormulaInput, type ManufactureOptions } from './manufactured.ts';
 export { TENSOR_FUNCTIONS, evaluateExpression, languageVocabulary } from './language.ts';
 export { compileBundle, dataBundle, type CompiledData, type RobinData } from './bundle.ts';
+export { checkManufactured, type ManufacturedCheckOptions, type NeumannSamples } from './checks.ts';

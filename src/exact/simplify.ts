@@ -78,12 +78,15 @@ function agreesAtSamples(reference: MathNode, candidate: MathNode, dim: Dim): bo
   const random = mulberry32(20240611);
   const refValues: number[] = [];
   const candValues: number[] = [];
+  // The time is sampled too: a formula in t compared at undefined t would be NaN everywhere and pass unchecked.
+  const withTime = (f: typeof refFn) => f as unknown as (x: number, y: number, z: number, t: number) => number;
   for (let i = 0; i < 16; i++) {
     const [lo, width] = i < 8 ? [0, 1] : [-2, 4];
-    const p = [0, 0, 0];
+    const p = [0, 0, 0, 0];
     for (let d = 0; d < dim; d++) p[d] = lo + width * random();
-    refValues.push(refFn(p[0], p[1], p[2]));
-    candValues.push(candFn(p[0], p[1], p[2]));
+    p[3] = lo + width * random();
+    refValues.push(withTime(refFn)(p[0], p[1], p[2], p[3]));
+    candValues.push(withTime(candFn)(p[0], p[1], p[2], p[3]));
   }
   let scale = 0;
   for (const v of refValues) if (Number.isFinite(v)) scale = Math.max(scale, Math.abs(v));

@@ -14,6 +14,7 @@ export const externalDiscretizationSchema = z.object({
   field: z.string().min(1).optional(),
   cwd: z.string().min(1).optional(),
   env: z.record(z.string(), z.string()).optional(),
+  preflight: z.union([z.string().min(1), z.array(z.string()).min(1)], { message: 'expected a command string or argv words that writes {out}/preflight.csv' }).optional(),
 }).strict();
 
 /** Quantity names for the study's `quantities` field (GCI of each from the three finest levels). */

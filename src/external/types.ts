@@ -24,6 +24,9 @@ export interface ExternalDiscretization {
   cwd?: string;
   /** Extra environment variables for the solver. */
   env?: Record<string, string>;
+  /** A command run once before the ladder (same placeholders; RUNGS_PREFLIGHT=1): it writes its own source and
+   *  boundary data at points of its choosing to {out}/preflight.csv, which rungs compares with the derived data. */
+  preflight?: string | string[];
 }
 
 /** Declares an external solver, for a study's `discretization` field. */

@@ -2,7 +2,8 @@
 import { loadStudy, type LoadedStudy } from '../study/load.ts';
 import { buildProblem, type StudyProblem } from '../study/problem.ts';
 import { runLevel } from '../study/level.ts';
-import { DEFAULT_NORMS, solverSettings } from '../study/runner.ts';
+import { solverSettings } from '../study/runner.ts';
+import type { NormName } from '../study/declaration.ts';
 import type { LevelResult } from '../study/result.ts';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 
@@ -10,6 +11,10 @@ export interface LevelTask {
   file: string;
   index: number;
   out: string;
+  /** The norms the main thread settled for the study (built-in, or an external code's own). */
+  norms: string[];
+  /** The study's generated manufactured data folder, when written by the main thread. */
+  data?: string;
 }
 
 export type LevelReply =
@@ -31,7 +36,7 @@ export default async function runLevelTask(task: LevelTask): Promise<LevelReply>
   try {
     const { loaded, problem } = await prepared(task.file);
     const decl = loaded.declaration;
-    const level = await runLevel(decl, loaded.file, problem, task.index, decl.norms ?? DEFAULT_NORMS, solverSettings(decl), { out: task.out });
+    const level = await runLevel(decl, loaded.file, problem, task.index, task.norms as NormName[], solverSettings(decl), { out: task.out, data: task.data });
     return { ok: true, level };
   } catch (err) {
     const e = err as Error;

@@ -98,7 +98,9 @@ export interface StudyDeclaration {
   boundary?: BoundaryDeclaration;
   discretization: Discretization;
   ladder: LadderDeclaration;
-  norms?: NormName[];
+  /** Norms rungs measures (NormName), or for an external code the names of the errors it reports itself (each with
+   *  its expected order in `expected`). */
+  norms?: (NormName | (string & {}))[];
   /** Quantities of interest reported per level (external solvers); analysed by Richardson extrapolation and the
    *  grid convergence index from the three finest levels (Celik et al. 2008). */
   quantities?: string[];

@@ -12,6 +12,13 @@ import type { LevelContext } from './context.ts';
 import { analyseQuantity } from '../analysis/quantities.ts';
 import type { QuantityReport } from '../analysis/quantities.ts';
 import type { LevelEnvironment } from './level.ts';
+import { join } from 'node:path';
+import { studyBundle, writeStudyData } from './data-files.ts';
+import { runPreflight } from './preflight.ts';
+import { boundarySamples } from './boundary-samples.ts';
+import { checkManufactured } from '../equation/index.ts';
+import { RungsInputError } from '../errors.ts';
+import { fileStem } from './names.ts';
 
 export const DEFAULT_NORMS: NormName[] = ['L2', 'H1semi'];
 export const DEFAULT_TOLERANCE = 0.1;
@@ -69,9 +76,40 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     startedAt: new Date().toISOString(),
     seconds: 0,
   };
+  // Checks of the manufactured solution itself (Salari & Knupp 2000): terms it leaves unexercised and the like.
+  if (problem.derived) result.warnings.push(...manufacturedWarnings(decl, problem));
+  const out = opts.out ?? 'reports';
+  // An external solver receives the manufactured data as code in its own language ({data}, RUNGS_DATA).
+  const data = decl.discretization.kind === 'external' && problem.derived
+    ? writeStudyData(join(out, fileStem(decl.name), 'data'), decl, problem)
+    : undefined;
   const prepareSeconds = (performance.now() - t0) / 1e3;
   result.seconds = prepareSeconds;
-  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out: opts.out ?? 'reports' } };
+  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out, data } };
+}
+
+function manufacturedWarnings(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): string[] {
+  const d = decl.discretization;
+  const neumann = problem.parts.neumann;
+  return checkManufactured(problem.derived!, {
+    box: decl.domain.bbox,
+    degree: d.degree,
+    pde: problem.pde,
+    neumann: neumann.length ? boundarySamples(decl.domain.mesh(decl.ladder.n[0]!), neumann) : undefined,
+  });
+}
+
+/** The external solver's preflight check, when the study declares one: its own source and boundary data at a few
+ *  points against the derived ones, before any level runs (throws RungsInputError at the first disagreement). */
+export async function preflightStudy(p: PreparedStudy): Promise<void> {
+  const decl = p.loaded.declaration;
+  const d = decl.discretization;
+  if (d.kind !== 'external' || !d.preflight) return;
+  const bundle = studyBundle(decl, p.problem);
+  if (!bundle) throw new RungsInputError(`${p.loaded.file} (study '${decl.name}'): discretization.preflight: needs the exact solution as formulas`, p.loaded.file);
+  const n = decl.ladder.n[0]!;
+  const outcome = await runPreflight(d, bundle, join(p.env.out, fileStem(decl.name)), { study: decl.name, n, h: decl.domain.mesh(n).h, data: p.env.data });
+  if (outcome) p.result.inputs.preflight = { file: outcome.file, compared: outcome.compared, seconds: outcome.seconds };
 }
 
 /** The solver settings a level receives (method, preconditioner, tolerances) from the study's declaration. */
@@ -103,6 +141,7 @@ export function completeStudy(p: PreparedStudy): StudyResult {
 /** Runs a loaded study in this thread: every level, then the analysis of every norm, then the expectation check. */
 export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Promise<StudyResult> {
   const p = prepareStudy(loaded, opts);
+  await preflightStudy(p);
   const decl = loaded.declaration;
   for (let i = 0; i < p.total; i++) {
     opts.onLevelStart?.(decl.name, i, p.total);

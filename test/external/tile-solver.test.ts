@@ -10,6 +10,9 @@ import { externalLevelResult } from '../../src/study/external-level.ts';
 import { levelFolder } from '../../src/external/output.ts';
 import { external, type ExternalLevelRun } from '../../src/external/types.ts';
 import { analyseQuantity } from '../../src/analysis/quantities.ts';
+import { loadStudy } from '../../src/study/load.ts';
+import { buildProblem } from '../../src/study/problem.ts';
+import { writeStudyData } from '../../src/study/data-files.ts';
 import type { ExactSolution } from '../../src/norms/types.ts';
 
 const solver = join(import.meta.dirname, '..', '..', 'examples', 'external', 'tile_solver.py');
@@ -38,8 +41,14 @@ if (!hasPython) {
 describe.skipIf(!hasPython)('examples/external/tile_solver.py through both output protocols', () => {
   const root = mkdtempSync(join(tmpdir(), 'rungs-tile-'));
   afterAll(() => rmSync(root, { recursive: true, force: true }));
+  // The solver types nothing of the manufactured solution: it imports the rungs_data.py generated for the study.
+  let data = '';
+  beforeAll(async () => {
+    const { declaration } = await loadStudy('studies/tile-python.study.ts');
+    data = writeStudyData(join(root, 'data'), declaration, buildProblem(declaration, 'studies/tile-python.study.ts'), ['python']);
+  });
   const runAll = (write: string, extra = '') => {
-    const spec = external({ command: `python3 '${solver}' --n {n} --out {out} --write ${write}${extra}`, output: write === 'errors' ? 'errors' : 'vtk', degree: 1, timeoutSeconds: 60 });
+    const spec = external({ command: `python3 '${solver}' --n {n} --data '${data}' --out {out} --write ${write}${extra}`, output: write === 'errors' ? 'errors' : 'vtk', degree: 1, timeoutSeconds: 60 });
     return runLevelsInParallel(ladder.map((n, index) => () => runExternalLevel(spec, {
       study: `tile-${write}`, index, n, h: Math.SQRT2 / n, outDir: levelFolder(join(root, write), index),
       norms: write === 'errors' ? ['L2', 'H1semi'] : undefined,
@@ -93,7 +102,7 @@ describe.skipIf(!hasPython)('examples/external/tile_solver.py through both outpu
   });
 
   it('the .vtu writer gives the same field as the legacy one', async () => {
-    const spec = external({ command: `python3 '${solver}' --n {n} --out {out} --write vtu`, output: 'vtk', degree: 1 });
+    const spec = external({ command: `python3 '${solver}' --n {n} --data '${data}' --out {out} --write vtu`, output: 'vtk', degree: 1 });
     const r = await runExternalLevel(spec, { study: 'tile-vtu', index: 1, n: 8, h: Math.SQRT2 / 8, outDir: levelFolder(join(root, 'vtu'), 1) });
     expect(r.output.file.endsWith('solution.vtu')).toBe(true);
     const a = externalLevelResult(r, { index: 1, n: 8, exact: tile, norms: ['L2'] }).level.errors.L2!;
