@@ -164,6 +164,15 @@ export function derive(input: DeriveInput): DerivedProblem {
     const source = sourceOf(flux, rest, rank as 0 | 1, dim, mode);
     return { name, rank: rank as 0 | 1, field: decl.field ?? '', flux, rest: rest ?? zeroTensor(rank as 0 | 1, dim), source, normalFlux: flux ? normalFluxOf(flux, dim) : null };
   });
+  // An equation of a shape no field has: its flux (or rest) does not match the unknowns.
+  for (const e of equations) {
+    if (fields.some((f) => FIELD_RANK[f.kind] === e.rank)) continue;
+    const what = e.flux ? `flux is ${RANK_WORDS[e.flux.rank]}` : `rest is ${RANK_WORDS[e.rank]}`;
+    throw new RungsInputError(
+      `${pdePath}.equations.${e.name}.${e.flux ? 'flux' : 'rest'}: the ${what}, which makes a ${e.rank === 0 ? 'scalar' : 'vector'} equation, ` +
+      `but no field is ${e.rank === 0 ? 'scalar' : 'a vector'} (${fields.map((f) => `${f.name}: ${f.kind}`).join(', ')}); ` +
+      'a scalar field\'s equation has a vector flux (e.g. k*grad(u)), a vector field\'s a matrix flux (e.g. mu*grad(u))', pdePath);
+  }
   const equationCount = equations.reduce((n, e) => n + (e.rank === 1 ? dim : 1), 0);
   if (equationCount !== unknownCount) {
     throw new RungsInputError(

@@ -70,7 +70,9 @@ export function problemJson(decl: StudyDeclaration, problem: StudyProblem, deriv
       mean_free: derived.meanFree,
     },
     boundary: {
-      ...problem.parts,
+      dirichlet: problem.byName.dirichlet,
+      neumann: problem.byName.neumann,
+      robin: problem.byName.robin,
       robin_alpha: decl.boundary?.robin ? String(decl.boundary.robin.alpha) : null,
     },
     domain: { label: decl.domain.label, bounding_box: decl.domain.bbox, tags: decl.domain.tags },

@@ -34,10 +34,13 @@ export interface ExactFunctions {
 
 export type Coefficient = string | number;
 
+/** Boundary tags per kind of condition. With a pde, a list applies to every field that takes boundary data (those
+ *  whose equation has a flux) or every equation with a flux; a record gives them per field (dirichlet: { u: [...] })
+ *  or per equation (neumann: { momentum: [...] }). */
 export interface BoundaryDeclaration {
-  dirichlet?: string[];
-  neumann?: string[];
-  robin?: { tags: string[]; alpha: Coefficient };
+  dirichlet?: string[] | Record<string, string[]>;
+  neumann?: string[] | Record<string, string[]>;
+  robin?: { tags: string[] | Record<string, string[]>; alpha: Coefficient };
 }
 
 export interface SolverDeclaration {

@@ -4,6 +4,10 @@ import type { ManufacturedSolution } from '../exact/types.ts';
 import { derive, diffusionConvectionReaction, manufacture, manufactureDerived, type DerivedProblem, type PdeDeclaration } from '../equation/index.ts';
 import type { BoundarySpec, FormCoefficients } from '../fem/assemble/types.ts';
 import type { Coefficient, StudyDeclaration } from './declaration.ts';
+import { resolveBoundary, type BoundaryByName, type BoundaryParts } from './boundary-parts.ts';
+import { constantDependence } from '../equation/mean-free.ts';
+import { compileOutputs } from '../exact/compile.ts';
+import { domainMean } from './domain-mean.ts';
 
 /** The PDE data of a study, derived once from its exact solution and coefficients. */
 export interface StudyProblem {
@@ -12,7 +16,11 @@ export interface StudyProblem {
   coefficients: FormCoefficients;
   boundary: BoundarySpec;
   /** Tags of each boundary part, as resolved (Dirichlet defaults to every tag not given another condition). */
-  parts: { dirichlet: string[]; neumann: string[]; robin: string[] };
+  parts: BoundaryParts;
+  /** The same per field (Dirichlet) and per equation (Neumann, Robin). */
+  byName: BoundaryByName;
+  /** Things the user should hear before the run (a mean-free field that something else already fixes). */
+  warnings: string[];
   symmetric: boolean;
   /** The PDE as data with every source and boundary datum derived from the exact solution (formula studies; null
    *  when the exact solution is given as functions or left out). Handed to external solvers as generated code. */
@@ -27,7 +35,10 @@ const asFormula = (c: Coefficient | undefined): string | undefined => (c === und
 export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem {
   const where = `${file} (study '${decl.name}')`;
   const dim = decl.domain.dim;
-  const coef = decl.coefficients ?? {};
+  // Today's equation: its coefficients, given directly or as the arguments of its preset.
+  const coef: NonNullable<StudyDeclaration['coefficients']> = decl.pde
+    ? (decl.pde.preset?.name === 'diffusion-convection-reaction' ? decl.pde.preset.args as NonNullable<StudyDeclaration['coefficients']> : {})
+    : decl.coefficients ?? {};
   if (coef.b && coef.b.length !== dim) {
     throw new RungsInputError(`${where}: coefficients.b has ${coef.b.length} components; the domain is ${dim}-dimensional, give ${dim}`, file);
   }
@@ -62,19 +73,15 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
     throw err;
   }
 
-  const tags = decl.domain.tags;
   const bd = decl.boundary ?? {};
-  const neumann = bd.neumann ?? [];
-  const robin = bd.robin?.tags ?? [];
-  const dirichlet = bd.dirichlet ?? tags.filter((t) => !neumann.includes(t) && !robin.includes(t));
-  const all = [...dirichlet.map((t) => ['dirichlet', t]), ...neumann.map((t) => ['neumann', t]), ...robin.map((t) => ['robin.tags', t])];
-  const seen = new Map<string, string>();
-  for (const [part, t] of all) {
-    if (!tags.includes(t)) {
-      throw new RungsInputError(`${where}: boundary.${part}: unknown boundary tag '${t}'; the domain ${decl.domain.label} has tags ${tags.map((x) => `'${x}'`).join(', ')}`, file);
-    }
-    if (seen.has(t)) throw new RungsInputError(`${where}: boundary: tag '${t}' is given two conditions (${seen.get(t)} and ${part})`, file);
-    seen.set(t, part);
+  const { parts, byName } = resolveBoundary(decl, derived, where, file);
+  const { dirichlet, neumann, robin } = parts;
+  const warnings = derived && decl.pde ? meanFreeChecks(decl, pde, derived, byName, where, file) : [];
+  if (decl.pde && !exact && decl.discretization.kind !== 'external') {
+    throw new RungsInputError(
+      `${where}: discretization: ${decl.discretization.kind === 'lagrange' ? 'rungs\'s own Lagrange discretization solves' : 'a custom discretization (whose field rungs measures) takes'} ` +
+      `only the steady diffusionConvectionReaction preset; for ${pde.label ?? 'this pde'} use external({ command, output: 'errors' }) ` +
+      'and let the code report its own norms', file);
   }
 
   if (decl.discretization.kind === 'lagrange' && dirichlet.length === 0 && robin.length === 0 && coef.c === undefined) {
@@ -85,7 +92,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   let alpha: ((x: number, y: number, z: number) => number) | undefined;
   if (bd.robin) alpha = compileFormula(String(bd.robin.alpha), 'boundary.robin.alpha', dim);
   const symmetric = decl.pde ? pde.preset?.name === 'diffusion-convection-reaction' && pde.preset.args.b === undefined : !coef.b;
-  if (!exact) return { exact, coefficients: {}, boundary: {}, parts: { dirichlet, neumann, robin }, symmetric, derived, pde };
+  if (!exact) return { exact, coefficients: {}, boundary: {}, parts, byName, warnings, symmetric, derived, pde };
   const ex = exact;
   const coefficients: FormCoefficients = {
     k: coef.k === undefined ? undefined : ex.k,
@@ -107,7 +114,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
       ? { tags: robin, alpha, g: (x, y, z, nx, ny, nz) => ex.flux(x, y, z, nx, ny, nz) + alpha!(x, y, z) * u(x, y, z) }
       : undefined,
   };
-  return { exact, coefficients, boundary, parts: { dirichlet, neumann, robin }, symmetric, derived, pde };
+  return { exact, coefficients, boundary, parts, byName, warnings, symmetric, derived, pde };
 }
 
 function isFieldRecord(v: unknown): v is Record<string, string | string[]> {
@@ -148,4 +155,48 @@ function scalarPresetSolution(
     dim: decl.domain.dim, u,
     k: args.k === undefined ? undefined : String(args.k), b: args.b?.map(String), c: args.c === undefined ? undefined : String(args.c),
   }, fields, { box });
+}
+
+/** A scalar field fixed only up to a constant must be declared mean-free, and a mean-free field's exact solution must
+ *  have mean zero over the domain (else the solver, which fixes the mean, is compared with another function). */
+function meanFreeChecks(
+  decl: StudyDeclaration, pde: PdeDeclaration, derived: DerivedProblem, byName: BoundaryByName, where: string, file: string,
+): string[] {
+  const warnings: string[] = [];
+  const meanFree = pde.meanFree ?? [];
+  for (const f of derived.fields) {
+    if (f.kind !== 'scalar') continue;
+    const dep = constantDependence(derived, pde, f.name, decl.domain.bbox);
+    const natural = dep.natural.filter((e) => (byName.neumann[e]?.length ?? 0) + (byName.robin[e]?.length ?? 0) > 0);
+    const fixedBy = [
+      ...((byName.dirichlet[f.name]?.length ?? 0) > 0 ? [`Dirichlet data on ${byName.dirichlet[f.name]!.map((t) => `'${t}'`).join(', ')}`] : []),
+      ...dep.sources.map((e) => `the source of ${e}`),
+      ...natural.map((e) => `the natural data of ${e}`),
+    ];
+    if (fixedBy.length === 0 && !meanFree.includes(f.name)) {
+      throw new RungsInputError(
+        `${where}: pde.meanFree: the field '${f.name}' is fixed only up to a constant (no Dirichlet data on it, and no source or ` +
+        `natural boundary datum changes when a constant is added), so the discrete problem is singular; declare meanFree: ['${f.name}'] ` +
+        `(the solver fixes its mean) or give it Dirichlet data (boundary.dirichlet: { ${f.name}: [...] })`, file);
+    }
+    if (fixedBy.length > 0 && meanFree.includes(f.name)) {
+      warnings.push(`pde.meanFree: '${f.name}' is declared mean-free but ${fixedBy.join(' and ')} already fix${fixedBy.length > 1 ? '' : 'es'} its constant; a solver that also fixes the mean solves another problem`);
+    }
+  }
+  const fine = decl.domain.mesh(Math.max(32, decl.ladder.n[0]!));
+  for (const name of meanFree) {
+    const field = derived.fields.find((f) => f.name === name)!;
+    if (field.kind !== 'scalar') throw new RungsInputError(`${where}: pde.meanFree: '${name}' is a vector field; only scalar fields can be mean-free`, file);
+    const fn = compileOutputs(['x', 'y', 'z', 't'], [field.exact.c as import('mathjs').MathNode]);
+    const args = new Float64Array(4), out = new Float64Array(1);
+    for (const t of derived.hasTime ? [0, 0.5, 1] : [0]) {
+      const { mean, scale } = domainMean(fine, (x, y, z) => { args[0] = x; args[1] = y; args[2] = z; args[3] = t; return fn(args, out); });
+      if (Math.abs(mean) > 1e-8 * Math.max(scale, 1e-300)) {
+        throw new RungsInputError(
+          `${where}: exact.${name}: the field is mean-free but its exact solution has mean ${mean} over the domain${derived.hasTime ? ` at t = ${t}` : ''} ` +
+          `(quadrature of degree 10 on the level-n = ${Math.max(32, decl.ladder.n[0]!)} mesh); subtract it (exact: { ${name}: '(...) - (${mean})' }) so that it matches what the solver computes`, file);
+      }
+    }
+  }
+  return warnings;
 }

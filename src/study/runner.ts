@@ -15,8 +15,10 @@ import type { LevelEnvironment } from './level.ts';
 import { join } from 'node:path';
 import { studyBundle, writeStudyData } from './data-files.ts';
 import { runPreflight } from './preflight.ts';
+import { outputColumns } from './values-at.ts';
+import { formulaText } from '../codegen/index.ts';
 import { boundarySamples } from './boundary-samples.ts';
-import { checkManufactured } from '../equation/index.ts';
+import { checkManufactured, type NeumannSamples } from '../equation/index.ts';
 import { RungsInputError } from '../errors.ts';
 import { fileStem } from './names.ts';
 
@@ -77,6 +79,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     seconds: 0,
   };
   // Checks of the manufactured solution itself (Salari & Knupp 2000): terms it leaves unexercised and the like.
+  result.warnings.push(...problem.warnings);
   if (problem.derived) result.warnings.push(...manufacturedWarnings(decl, problem));
   const out = opts.out ?? 'reports';
   // An external solver receives the manufactured data as code in its own language ({data}, RUNGS_DATA).
@@ -90,13 +93,16 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
 
 function manufacturedWarnings(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): string[] {
   const d = decl.discretization;
-  const neumann = problem.parts.neumann;
-  return checkManufactured(problem.derived!, {
-    box: decl.domain.bbox,
-    degree: d.degree,
-    pde: problem.pde,
-    neumann: neumann.length ? boundarySamples(decl.domain.mesh(decl.ladder.n[0]!), neumann) : undefined,
-  });
+  const byEquation = problem.byName.neumann;
+  const tags = [...new Set(Object.values(byEquation).flat())];
+  let neumann: Record<string, NeumannSamples> | undefined;
+  if (tags.length) {
+    const samples = boundarySamples(decl.domain.mesh(decl.ladder.n[0]!), tags);
+    // Each tag with the equations whose natural data hold there (scalar study: the one equation).
+    const eqs = (t: string) => Object.entries(byEquation).filter(([, list]) => list.includes(t)).map(([e]) => e);
+    neumann = Object.fromEntries(tags.map((t) => [t, { ...samples[t]!, equations: decl.pde ? eqs(t) : undefined }]));
+  }
+  return checkManufactured(problem.derived!, { box: decl.domain.bbox, degree: d.degree, pde: problem.pde, neumann });
 }
 
 /** The external solver's preflight check, when the study declares one: its own source and boundary data at a few
@@ -227,6 +233,8 @@ function describeInputs(decl: StudyDeclaration, problem: ReturnType<typeof build
   return {
     domain: decl.domain.label,
     exact: problem.exact?.formulas ?? null,
+    // Every derived datum in plain infix (** for powers), as handed to external codes.
+    manufactured: manufacturedFormulas(decl, problem),
     quantities: decl.quantities ?? [],
     boundary: problem.parts,
     discretization: d.kind === 'lagrange'
@@ -241,6 +249,12 @@ function describeInputs(decl: StudyDeclaration, problem: ReturnType<typeof build
     fitWindow: decl.fitWindow ?? DEFAULT_FIT_WINDOW,
     solver: decl.solver ?? {},
   };
+}
+
+function manufacturedFormulas(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): Record<string, string> | null {
+  const bundle = studyBundle(decl, problem);
+  if (!bundle) return null;
+  return Object.fromEntries(bundle.functions.flatMap((f) => outputColumns(f.name, f.outputs.length).map((c, i) => [c, formulaText(f.outputs[i]!, 'starstar')])));
 }
 
 /** Exit status of a run: 0 when every study's verdicts are the ones it expects, 1 otherwise. */

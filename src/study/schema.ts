@@ -31,6 +31,8 @@ const discretization = z.discriminatedUnion('kind', [
   externalDiscretizationSchema,
 ], { message: 'expected lagrange({ degree }), custom({ label, solve }) or external({ command, output })' });
 
+const tagList = z.union([z.array(z.string()), z.record(z.string(), z.array(z.string()))],
+  { message: "expected a list of boundary tags, or (with a pde) tags per field or equation such as { u: ['left'] }" });
 const formulaList = z.array(z.union([z.string().min(1), z.number().finite()]));
 const pde = z.object({
   label: z.string().optional(),
@@ -64,9 +66,9 @@ export const studySchema = z.object({
     { message: 'expected a formula string in x, y, z, formulas per field ({ u: [...], p: \'...\' }) or { u, grad, f } functions' }).optional(),
   coefficients: z.object({ k: coefficient.optional(), b: z.array(coefficient).optional(), c: coefficient.optional() }).strict().optional(),
   boundary: z.object({
-    dirichlet: z.array(z.string()).optional(),
-    neumann: z.array(z.string()).optional(),
-    robin: z.object({ tags: z.array(z.string()), alpha: coefficient }).strict().optional(),
+    dirichlet: tagList.optional(),
+    neumann: tagList.optional(),
+    robin: z.object({ tags: tagList, alpha: coefficient }).strict().optional(),
   }).strict().optional(),
   discretization,
   ladder,

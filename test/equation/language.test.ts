@@ -303,11 +303,11 @@ describe('equation language: bad input is a RungsInputError naming the field pat
     const momentumOnly: PdeDeclaration = { ...pde, equations: { momentum: pde.equations.momentum } };
     const err = inputError(() => derive({ dim: 2, pde: momentumOnly, exact: { u: ['y', 'x'], p: 'x' } }));
     expect(err.message).toMatch(/^pde\.equations: 2 scalar equation\(s\) \(momentum: a vector\) for 3 unknown component\(s\) \(u: vector, p: scalar\); each unknown component needs one equation/);
-    // A vector field with a vector flux and no rest reads as one scalar equation: 1 for 2 components.
+    // A vector field with a vector flux and no rest reads as a scalar equation, and no field is scalar.
     const scalarForVector = inputError(() => derive({
       dim: 2, pde: { fields: { u: 'vector' }, equations: { momentum: { flux: 'grad(div(u))' } } }, exact: { u: ['x*y', 'y'] },
     }));
-    expect(scalarForVector.message).toMatch(/^pde\.equations: 1 scalar equation\(s\) \(momentum: a scalar\) for 2 unknown component\(s\) \(u: vector\)/);
+    expect(scalarForVector.message).toMatch(/^pde\.equations\.momentum\.flux: the flux is a vector, which makes a scalar equation, but no field is scalar \(u: vector\)/);
   });
 
   it('exact for an undeclared field, a missing exact field, a vector field given one formula', () => {

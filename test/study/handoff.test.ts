@@ -52,7 +52,8 @@ describe('external studies receive their manufactured data', async () => {
     for (const lang of LANGUAGES) expect(names).toContain(FILE_NAMES[lang].data);
     const json = JSON.parse(readFileSync(join(dir, 'problem.json'), 'utf8'));
     expect(json.pde.fields).toEqual({ u: 'vector' });
-    expect(json.boundary.neumann).toEqual(['right', 'top']);
+    expect(json.boundary.neumann).toEqual({ momentum: ['right', 'top'] });
+    expect(json.boundary.dirichlet).toEqual({ u: ['left', 'bottom'] });
     const formulas = json.functions.flatMap((f: { outputs: { formula: string }[] }) => f.outputs.map((o) => o.formula)).join(' ');
     expect(formulas).not.toContain('^');
     expect(formulas).toContain('**');
