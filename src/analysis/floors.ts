@@ -1,7 +1,9 @@
 // Floors: levels whose error no longer measures the discretization because it sits at what the arithmetic
 // (round-off) or the algebraic solver can resolve. The thresholds are common practice, no source.
 
-export type FloorKind = 'round-off' | 'solver';
+/** 'solver': the floor of rungs's own solver (its algebraic error tied to the discretization error); 'setup': the
+ *  floor a code under test reported about its own solve (its residual), which its setup must remove. */
+export type FloorKind = 'round-off' | 'solver' | 'setup';
 
 export interface FloorOptions {
   /** Round-off threshold is roundOffFactor · eps · sqrt(dofs) relative to the scale (default 1e3). */
@@ -45,6 +47,7 @@ export function detectFloor(
   scale?: readonly number[],
   floorHint?: readonly (number | null)[],
   options: FloorOptions = {},
+  setupFloor?: readonly (number | null)[],
 ): FloorDetection {
   const o = { ...DEFAULTS, ...options };
   const levels: (FloorKind | null)[] = errors.map((e, i) => {
@@ -53,10 +56,11 @@ export function detectFloor(
     const rate = rates[i];
     const stalled = rate !== null && rate !== undefined && rate <= o.stallRate;
     if (relative <= roundOff || (stalled && relative <= o.stallFactor * roundOff)) return 'round-off';
-    const hint = floorHint?.[i];
-    if (hint !== null && hint !== undefined && hint > 0) {
-      if (e <= o.hintFactor * hint || (stalled && e <= o.stallFactor * hint)) return 'solver';
-    }
+    const near = (hint: number | null | undefined) =>
+      hint !== null && hint !== undefined && hint > 0 && (e <= o.hintFactor * hint || (stalled && e <= o.stallFactor * hint));
+    // rungs's own solver floor explains a level before the code under test is blamed for it.
+    if (near(floorHint?.[i])) return 'solver';
+    if (near(setupFloor?.[i])) return 'setup';
     return null;
   });
   let from: number | null = null;

@@ -1,13 +1,23 @@
 // Public API of the analysis folder: rates, fits with confidence intervals, floors, verdicts, Richardson
 // extrapolation and the GCI.
-export type { OrderFit, SeriesAnalysis, SeriesInput, Verdict } from './types.ts';
+export type { NormKind, OrderFit, SeriesAnalysis, SeriesInput, Verdict } from './types.ts';
 export { rateInH, rateInDofs, pairwiseRates } from './rates.ts';
 export { tQuantileTwoSided, studentTTwoSidedTail, studentTDensity } from './tquantile.ts';
 export { normalUpperQuantile, normalUpperTail } from './normal-quantile.ts';
 export { fitLine, fitOrderInH, fitOrderInDofs, type LineFit } from './fit.ts';
 export { detectFloor, roundOffThreshold, type FloorDetection, type FloorKind, type FloorOptions } from './floors.ts';
 export { asymptoticRange, type AsymptoticRange } from './asymptotic-range.ts';
-export { analyseSeries, DEFAULT_TOLERANCE, DEFAULT_FIT_WINDOW, CI_WIDTH_FACTOR } from './verdict.ts';
+export { analyseSeries, DEFAULT_TOLERANCE, DEFAULT_FIT_WINDOW, CI_WIDTH_FACTOR, MIN_FIT_LEVELS } from './verdict.ts';
+export { rateShape, approachDirection, fallingAway, STALL_RATE, APPROACH_CLOSURE, type RateShape } from './rate-patterns.ts';
+export {
+  assessQuasiOptimality,
+  applyQuasiOptimality,
+  QUASI_OPTIMALITY_SLACK,
+  CEA_SHRINK,
+  type CeaAssessment,
+  type CeaLevel,
+} from './cea.ts';
+export { crossNormReasons, addCrossNormReasons, type CrossNormReason } from './diagnosis.ts';
 export {
   richardsonExtrapolate,
   observedOrderThreeLevels,

@@ -1,11 +1,39 @@
 // Solution verification of a quantity of interest without an exact solution: the grid convergence index of
 // Celik, Ghia, Roache, Freitas, Coleman & Raad (2008), J. Fluids Eng. 130(7) 078001, from the three finest levels,
-// with Roache's safety factors (1998: 1.25 for three or more grids; 3 for two grids with an assumed order).
+// with Roache's safety factors (1998: 1.25 for three or more grids; 3 for two grids with an assumed order); with four
+// or more levels the least-squares uncertainty of Eça & Hoekstra (2014) for every level, and from three levels Roy's
+// (2003) mixed first/second-order fit.
 import { RungsInputError } from '../errors.ts';
 import {
   gciTwoGrids, gridConvergenceIndex, MIN_REFINEMENT_RATIO, SAFETY_FACTOR_THREE_GRIDS, SAFETY_FACTOR_TWO_GRIDS, type ConvergenceKind,
 } from './gci.ts';
+import { leastSquaresUncertainty, MIN_LEVELS_LEAST_SQUARES, type LeastSquaresUncertainty } from './least-squares-uncertainty.ts';
+import { mixedOrderFit, MIN_LEVELS_MIXED_ORDER, type MixedOrderFit } from './mixed-order.ts';
 import { richardsonExtrapolate } from './richardson.ts';
+
+/** The solution-verification procedures for a quantity, and how many levels each needs. */
+export type QuantityProcedure = 'gci' | 'least-squares' | 'mixed-order';
+export const QUANTITY_PROCEDURES: readonly QuantityProcedure[] = ['gci', 'least-squares', 'mixed-order'];
+export const MIN_LEVELS: Readonly<Record<QuantityProcedure, number>> = {
+  gci: 2, 'least-squares': MIN_LEVELS_LEAST_SQUARES, 'mixed-order': MIN_LEVELS_MIXED_ORDER,
+};
+export const PROCEDURE_TITLES: Readonly<Record<QuantityProcedure, string>> = {
+  gci: 'the grid convergence index (Celik et al. 2008)',
+  'least-squares': 'the least-squares uncertainty (Eça & Hoekstra 2014)',
+  'mixed-order': 'the mixed-order fit (Roy 2003)',
+};
+
+/** "--uncertainty" text: "gci,least-squares" → the procedures; unknown names are a RungsInputError naming the valid ones. */
+export function parseProcedures(text: string, option = '--uncertainty'): QuantityProcedure[] {
+  const names = text.split(',').map((s) => s.trim()).filter(Boolean);
+  if (names.length === 0) throw new RungsInputError(`${option}: name one or more of ${QUANTITY_PROCEDURES.join(', ')}`, option);
+  for (const n of names) {
+    if (!(QUANTITY_PROCEDURES as readonly string[]).includes(n)) {
+      throw new RungsInputError(`${option}: unknown procedure '${n}'; valid: ${QUANTITY_PROCEDURES.join(', ')}`, option);
+    }
+  }
+  return [...new Set(names)] as QuantityProcedure[];
+}
 
 export interface QuantityReport {
   name: string;
@@ -38,6 +66,12 @@ export interface QuantityReport {
   oscillatory: boolean;
   /** A refinement ratio is below 1.3 (Celik et al. 2008 recommend more). */
   smallRatio: boolean;
+  /** Eça & Hoekstra (2014) over every level (four or more), or null when not applied (see notApplied). */
+  leastSquares?: LeastSquaresUncertainty | null;
+  /** Roy (2003) through the three finest levels, or null when not applied. */
+  mixedOrder?: MixedOrderFit | null;
+  /** Procedures left out, each with the reason ("least squares: needs 4 levels, 3 given"). */
+  notApplied?: string[];
   warnings: string[];
 }
 
@@ -47,10 +81,35 @@ export interface QuantityOptions {
   /** Allowed |observed − expected| before a warning (default 0.1). */
   tolerance?: number;
   sizeKind?: 'h' | 'representative';
+  /** Procedures asked for: each one must have the levels it needs (else RungsInputError). Default: every procedure
+   *  the number of levels allows. */
+  procedures?: readonly QuantityProcedure[];
 }
 
 /** GCI of one quantity over levels ordered coarse to fine (h decreasing). */
 export function analyseQuantity(name: string, h: readonly number[], values: readonly number[], opts: QuantityOptions = {}): QuantityReport {
+  const report = gciReport(name, h, values, opts);
+  const n = values.length;
+  const asked = opts.procedures;
+  for (const p of asked ?? []) {
+    if (n < MIN_LEVELS[p]) {
+      throw new RungsInputError(`quantity '${name}': ${PROCEDURE_TITLES[p]} needs at least ${MIN_LEVELS[p]} levels; ${n} given`, name);
+    }
+  }
+  const wants = (p: QuantityProcedure) => (asked ? asked.includes(p) : n >= MIN_LEVELS[p]);
+  const notApplied: string[] = [];
+  for (const p of ['least-squares', 'mixed-order'] as const) {
+    if (!asked && n < MIN_LEVELS[p]) notApplied.push(`${PROCEDURE_TITLES[p]} needs at least ${MIN_LEVELS[p]} levels; ${n} given`);
+  }
+  report.leastSquares = wants('least-squares') ? leastSquaresUncertainty(h, values, { name }) : null;
+  report.mixedOrder = wants('mixed-order') ? mixedOrderFit(h, values, name) : null;
+  report.notApplied = notApplied;
+  for (const w of report.leastSquares?.warnings ?? []) report.warnings.push(`least squares: ${w}`);
+  for (const w of report.mixedOrder?.warnings ?? []) report.warnings.push(`mixed order: ${w}`);
+  return report;
+}
+
+function gciReport(name: string, h: readonly number[], values: readonly number[], opts: QuantityOptions): QuantityReport {
   const n = values.length;
   if (n < 2 || h.length !== n) {
     throw new RungsInputError(`quantity '${name}': the grid convergence index needs at least 2 levels with one size each (got ${n} values, ${h.length} sizes)`, name);

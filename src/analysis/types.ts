@@ -34,7 +34,20 @@ export interface SeriesInput {
   floorHint?: (number | null)[];
   /** Per level: the magnitude of the exact solution in this norm, for round-off detection. */
   scale?: number[];
+  /** Per level: the error floor implied by what the code under test reported about its own solve (its relative
+   *  residual times the size of u). A level on it is a failure of the setup, named as such, not a quiet floor. */
+  setupFloor?: (number | null)[];
+  /** What the norm measures, which decides what an order above the expected one means: 'global' (L2, H1
+   *  seminorm, H1, energy: bounded by the best approximation), 'pointwise' (nodal values), 'other' (default). */
+  normKind?: NormKind;
+  /** The study accepts an order above the expected one in this series; the text is the study's reason. */
+  allowAboveOrder?: string;
+  /** The study accepts a verdict from a fit over fewer than three levels (or a window floors cut short); the text
+   *  is the study's reason. */
+  allowFewLevels?: string;
 }
+
+export type NormKind = 'global' | 'pointwise' | 'other';
 
 export interface SeriesAnalysis {
   name: string;
@@ -45,11 +58,15 @@ export interface SeriesAnalysis {
   fit: OrderFit | null;
   /** First level index from which errors sit on a floor, or null. */
   floorFrom: number | null;
-  floorKind: 'round-off' | 'solver' | null;
+  /** 'solver': the built-in solver's own floor; 'setup': a floor the code under test reported (its residual). */
+  floorKind: 'round-off' | 'solver' | 'setup' | null;
   /** Coarsest level of the asymptotic range (finest levels whose rates agree within the tolerance), or null.
    *  Optional so that hand-built analyses (fixtures, older JSON) stay valid; analyseSeries always sets it. */
   asymptoticFrom?: number | null;
   verdict: Verdict;
+  /** Departures from the default rules the study declared for this series, with the study's reasons; an
+   *  above-order verdict passes a plain study only when `aboveOrder` is set. */
+  allowed?: { aboveOrder?: string; fewLevels?: string };
   /** Reasons in words, most important first. */
   reasons: string[];
   warnings: string[];

@@ -1,13 +1,15 @@
 // The verdict on one error series: pairwise rates, floors left out, a least-squares order over the finest
-// usable levels with its 95% confidence interval, and reasons in words. Thresholds are common practice, no
-// source; they are exported so callers and tests can name them.
+// usable levels with its 95% confidence interval, and reasons in words. The rules are listed on analyseSeries and
+// in the README ("How the verdict is reached"); thresholds are common practice, no source, unless named, and are
+// exported so callers and tests can name them.
 import type { OrderFit, SeriesAnalysis, SeriesInput, Verdict } from './types.ts';
 import { RungsInputError } from '../errors.ts';
 import { asymptoticRange } from './asymptotic-range.ts';
 import { fitOrderInDofs, fitOrderInH } from './fit.ts';
 import { detectFloor, roundOffThreshold, type FloorKind } from './floors.ts';
 import { pairwiseRates } from './rates.ts';
-import { fallingAway, preAsymptoticDirection, rateList } from './rate-patterns.ts';
+import { rateList, rateShape, type RateShape } from './rate-patterns.ts';
+import { rateInDofs, rateInH } from './rates.ts';
 
 export const DEFAULT_TOLERANCE = 0.1;
 export const DEFAULT_FIT_WINDOW = 3;
@@ -19,7 +21,10 @@ const fixed2 = (x: number): string => x.toFixed(2);
 /** Expected orders and tolerances are echoed as the user wrote them (2, 0.1), not padded. */
 const plain = (x: number): string => String(Number(x.toPrecision(6)));
 const sci = (x: number): string => x.toExponential(1);
-const floorName = (kind: FloorKind): string => (kind === 'solver' ? 'solver tolerance' : 'round-off');
+const floorName = (kind: FloorKind): string =>
+  kind === 'solver' ? 'solver tolerance' : kind === 'setup' ? "your solver's own residual" : 'round-off';
+/** A verdict needs a fit over at least this many levels (two levels give one rate and no interval). */
+export const MIN_FIT_LEVELS = 3;
 
 function fail(input: SeriesInput, field: string, message: string): never {
   throw new RungsInputError(`series "${input.name}": ${field} ${message}`, `${input.name}.${field}`);
@@ -57,6 +62,12 @@ function validate(input: SeriesInput): void {
       if (v !== null && !(v >= 0 && Number.isFinite(v))) fail(input, 'floorHint', `[${i}] = ${v}; give a finite number ≥ 0 or null`);
     });
   }
+  if (input.setupFloor) {
+    if (input.setupFloor.length !== n) fail(input, 'setupFloor', `has ${input.setupFloor.length} entries for ${n} errors`);
+    input.setupFloor.forEach((v, i) => {
+      if (v !== null && !(v >= 0 && Number.isFinite(v))) fail(input, 'setupFloor', `[${i}] = ${v}; give a finite number ≥ 0 or null`);
+    });
+  }
   if (input.scale) {
     if (input.scale.length !== n) fail(input, 'scale', `has ${input.scale.length} entries for ${n} errors`);
     input.scale.forEach((s, i) => {
@@ -64,6 +75,7 @@ function validate(input: SeriesInput): void {
     });
   }
 }
+
 
 function classify(order: number, expected: number, tolerance: number): Verdict {
   if (Math.abs(order - expected) <= tolerance) return 'on-order';
@@ -75,53 +87,91 @@ function fitText(fit: OrderFit): string {
   return `fitted order ${fixed2(fit.order)} (95% CI ${fixed2(fit.ciLow)}–${fixed2(fit.ciHigh)})`;
 }
 
-/** Reasons read off the shape of the usable rates; `verdict` selects the wording. */
-function patternReasons(
-  usableRates: number[],
-  range: number[],
-  expected: number,
-  tolerance: number,
-  verdict: Verdict,
-): string[] {
-  const direction = preAsymptoticDirection(usableRates, expected, tolerance);
-  if (direction) {
-    const advice = verdict === 'on-order' ? '' : ' — add finer levels';
-    return [
-      `pre-asymptotic: pairwise rates still ${direction} toward the expected order (${rateList(usableRates)}); ` +
-        `the coarsest levels are outside the asymptotic range${advice}`,
-    ];
+const span = (from: number, to: number): string => (from === to ? `level ${from + 1}` : `levels ${from + 1}–${to + 1}`);
+
+/** Rates between consecutive levels of the fit (they may skip an isolated floor-like level). */
+function windowRates(input: SeriesInput, levels: readonly number[]): number[] {
+  const { errors: e, dofs, h } = input;
+  const out: number[] = [];
+  for (let j = 1; j < levels.length; j++) {
+    const a = levels[j - 1]!;
+    const b = levels[j]!;
+    const r = h ? rateInH(e[a]!, e[b]!, h[a]!, h[b]!) : rateInDofs(e[a]!, e[b]!, dofs[a]!, dofs[b]!, input.dim);
+    if (Number.isFinite(r)) out.push(r);
   }
-  const fallen = fallingAway(usableRates, expected, tolerance);
-  if (fallen) {
-    return [
-      `rates fall away on the finest levels (${rateList(fallen)}): the error stalls — look for a consistency ` +
-        'error (quadrature, boundary data) or a solver floor',
-    ];
+  return out;
+}
+
+/** What an order above the expected one means for this series: accepted where the study declares it; in a global
+ *  norm a sign of a wrongly measured error (the best-approximation lower bound); elsewhere possibly superconvergence. */
+function aboveReason(input: SeriesInput, expected: number): string {
+  if (input.allowAboveOrder !== undefined) {
+    return `above the expected order, accepted: the study declares it for ${input.name} (${input.allowAboveOrder})`;
   }
-  if (range.length >= 2 && (verdict === 'below-order' || verdict === 'above-order')) {
-    const mean = range.reduce((a, b) => a + b, 0) / range.length;
-    if (Math.abs(mean - expected) > tolerance) {
-      return [
-        verdict === 'below-order'
-          ? `rates are stable at ${fixed2(mean)} instead of ${plain(expected)}: a consistent loss of order — typical ` +
-            'of an inconsistent term (under-integration, wrong boundary data, wrong sign)'
-          : `rates are stable at ${fixed2(mean)} instead of ${plain(expected)}: higher than expected — ` +
-            'superconvergence (symmetric meshes, special points) or an expected order set too low',
-      ];
+  if (input.normKind === 'global') {
+    // For u outside the discrete space the error of degree-k elements is bounded below by c·h^(k+1−m) in H^m
+    // (Lin, Xie & Xu 2014, Math. Comp. 83; from memory), so a global norm cannot converge faster than expected.
+    return `an order above ${plain(expected)} in a global norm is not a pass: for a solution outside the discrete space ` +
+      'the error cannot fall faster than the best approximation, so it is likely measured wrongly (for example the H1 ' +
+      "error taken against the interpolant's gradient instead of ∇u, or against I_h u instead of u) or the expected " +
+      'order is wrong';
+  }
+  return `higher than expected — superconvergence at special points (nodes, symmetric meshes), a functional, or an ` +
+    `expected order set too low; if the study means it, declare allow.aboveOrder for ${input.name} with the reason`;
+}
+
+/** What the rates do, in words; `verdict` selects the advice. */
+function shapeReasons(shape: RateShape, input: SeriesInput, expected: number, tolerance: number, verdict: Verdict): string[] {
+  const list = rateList(shape.rates);
+  switch (shape.kind) {
+    case 'flat':
+      return [`rates stay near zero (${list}): the error does not decrease with h — the discrete problem converges to ` +
+        'something other than u (a wrong sign or missing term, data that do not match u)'];
+    case 'stopped':
+      return [`the errors stop at a constant (rates ${list}): something that does not shrink with h limits them — a ` +
+        'fixed solver tolerance, data or constants given to limited digits, or an inconsistent term'];
+    case 'approaching':
+      return [`pre-asymptotic: pairwise rates still ${shape.direction} toward the expected order (${list}); ` +
+        `the coarsest levels are outside the asymptotic range${verdict === 'on-order' ? '' : ' — add finer levels'}`];
+    case 'falling-away':
+      return [`rates fall away from ${plain(expected)} on the finest levels (${list}): the error stalls — look for a ` +
+        'consistency error (quadrature, boundary data) or a solver floor'];
+    case 'stable':
+      if (shape.rates.length < 2 || Math.abs(shape.mean - expected) <= tolerance) return [];
+      if (shape.mean < expected) {
+        return [`rates are stable at ${fixed2(shape.mean)} instead of ${plain(expected)}: a consistent loss of order — ` +
+          'typical of an inconsistent term (under-integration, wrong boundary data, wrong sign)'];
+      }
+      return [`rates are stable at ${fixed2(shape.mean)} instead of ${plain(expected)}: ${aboveReason(input, expected)}`];
+    case 'drifting': {
+      const last = shape.rates[shape.rates.length - 1]!;
+      return [`rates ${shape.direction === 'rising' ? 'rise' : 'fall'} (${list}) but stay ${fixed2(Math.abs(last - expected))} ` +
+        `from ${plain(expected)}: not a pre-asymptotic approach`];
     }
+    case 'scattered':
+      return [`rates scatter without a trend (${list})`];
+    default:
+      return [];
   }
-  return [];
 }
 
 /**
- * Analyse one error series. Decisions (documented here because the verdict depends on them):
+ * Analyse one error series. The rules, in the order they apply (README, "How the verdict is reached"):
  * - `exact` when every level is at round-off relative to its scale (scale 1 when none is given).
- * - Floor levels (the trailing run found by detectFloor) and isolated floor-like levels are left out.
+ * - Floors: the trailing run of round-off or rungs's own solver floors, and isolated floor-like levels, are left out
+ *   with a warning. A floor of the code under test (`setupFloor`) is a failure of the setup: named first, and an
+ *   on-order or above-order verdict becomes `inconclusive`.
  * - Fewer than 2 usable levels, or no expected order: `inconclusive`.
- * - Exactly 2 levels in the fit: the verdict follows the single rate, with a "too few levels" reason; there is
- *   no confidence interval, so the width rule cannot apply.
- * - 3 or more levels: `inconclusive` when the CI half-width exceeds CI_WIDTH_FACTOR × tolerance and the CI
- *   still meets the band expected ± tolerance; otherwise on/below/above-order by |fitted - expected| ≤ tolerance.
+ * - A fit over fewer than MIN_FIT_LEVELS levels (two levels, however they came about): `inconclusive`, unless the
+ *   study declares `allowFewLevels` (then the rules below apply and the reason says so). A window that floors cut
+ *   below `fitWindow` but that still holds three levels decides, with a reason saying so.
+ * - Every pairwise rate in the fit window below expected − tolerance, or rates that fall away or stop at a constant:
+ *   `below-order`, whatever the interval's width. Every rate above expected + tolerance: `above-order`.
+ * - A half-width above CI_WIDTH_FACTOR × tolerance with rates on both sides of the expected order: `inconclusive`.
+ * - Fitted order within the tolerance: `on-order`. Outside it with rates approaching the expected order
+ *   (pre-asymptotic): below/above-order by the fitted order. Otherwise, with three or more levels, an interval that
+ *   meets the band means the departure is jitter: `on-order`; else below/above-order by the fitted order.
+ * - `above-order` carries the reason for its kind of norm (aboveReason); whether it passes is the caller's rule.
  * Levels are named 1-based in messages (people count from 1); indices in data stay 0-based.
  */
 export function analyseSeries(input: SeriesInput): SeriesAnalysis {
@@ -129,7 +179,13 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
   const { errors, dofs, expected, tolerance } = input;
   const n = errors.length;
   const rates = pairwiseRates(errors, input.h, dofs, input.dim);
-  const floor = detectFloor(errors, dofs, rates, input.scale, input.floorHint);
+  const floor = detectFloor(errors, dofs, rates, input.scale, input.floorHint, {}, input.setupFloor);
+  const allowed = input.allowAboveOrder !== undefined || input.allowFewLevels !== undefined
+    ? {
+      ...(input.allowAboveOrder !== undefined ? { aboveOrder: input.allowAboveOrder } : {}),
+      ...(input.allowFewLevels !== undefined ? { fewLevels: input.allowFewLevels } : {}),
+    }
+    : undefined;
   const base = {
     name: input.name,
     expected,
@@ -137,6 +193,7 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
     rates,
     floorFrom: floor.from,
     floorKind: floor.kind,
+    ...(allowed ? { allowed } : {}),
   };
 
   if (floor.levels.every((k) => k === 'round-off')) {
@@ -161,18 +218,25 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
 
   const warnings: string[] = [];
   const trailing: string[] = [];
+  let setupReason: string | null = null;
   const end = floor.from ?? n;
   if (floor.from !== null) {
     const note = `floor: ${floorName(floor.kind!)} from level ${floor.from + 1}`;
     warnings.push(note);
-    const span = floor.from === n - 1 ? `level ${n}` : `levels ${floor.from + 1}–${n}`;
-    trailing.push(`${note} (${span} left out of the fit)`);
+    const left = `${span(floor.from, n - 1)} left out of the fit`;
+    if (floor.levels.slice(floor.from).includes('setup')) {
+      // The code under test says its own solve limits the error: its setup must change, not the verdict's data.
+      const at = floor.from + floor.levels.slice(floor.from).indexOf('setup');
+      setupReason = `setup failure: your solver's own residual limits the error from level ${at + 1}: tighten it ` +
+        `(${left}; the levels it spoils say nothing about the discretization)`;
+    }
+    if (!setupReason || floor.kind !== 'setup') trailing.push(`${note} (${left})`);
   }
   const usable: number[] = [];
   for (let i = 0; i < end; i++) {
     const kind = floor.levels[i];
     if (kind === null) usable.push(i);
-    else warnings.push(`level ${i + 1} looks like a ${floorName(kind!)} floor but finer levels do not; left out of the fit`);
+    else warnings.push(`level ${i + 1} looks like ${kind === 'setup' ? '' : 'a '}${floorName(kind!)} floor but finer levels do not; left out of the fit`);
   }
   const usableSet = new Set(usable);
   const usableRates: number[] = [];
@@ -186,14 +250,15 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
     lastUsable,
     tolerance,
   );
+  const lead = setupReason ? [setupReason] : [];
 
   if (usable.length < 2) {
     return {
       ...base,
       fit: null,
       asymptoticFrom: range.from,
-      verdict: 'inconclusive',
-      reasons: [`too few levels: ${usable.length} usable, need at least 2 to estimate an order`, ...trailing],
+      verdict: setupReason ? setupVerdict(rates, floor.levels, input.expected, tolerance) : 'inconclusive',
+      reasons: [...lead, `too few levels: ${usable.length} usable, need at least 2 to estimate an order`, ...trailing],
       warnings,
     };
   }
@@ -203,39 +268,87 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
     ? fitOrderInH(errors, input.h, fitLevels, CONFIDENCE)
     : fitOrderInDofs(errors, dofs, input.dim, fitLevels, CONFIDENCE);
 
-  let verdict: Verdict;
-  const reasons: string[] = [];
   if (expected === null) {
-    verdict = 'inconclusive';
-    reasons.push(`no expected order to compare with: ${fitText(fit)}`);
-  } else {
-    const headline = `${fitText(fit)} vs expected ${plain(expected)} ± ${plain(tolerance)}`;
-    if (fitLevels.length === 2) {
-      verdict = classify(fit.order, expected, tolerance);
-      reasons.push(
-        headline,
-        usable.length === 2
-          ? 'too few levels: 2 usable, need 3 for a confidence interval'
-          : `too few levels in the fit window: 2, need 3 for a confidence interval (raise fitWindow)`,
-      );
-    } else {
-      const halfWidth = (fit.ciHigh - fit.ciLow) / 2;
-      // A wide interval that lies wholly outside the tolerance band still decides the verdict.
-      const meetsBand = fit.ciLow <= expected + tolerance && fit.ciHigh >= expected - tolerance;
-      if (halfWidth > CI_WIDTH_FACTOR * tolerance && meetsBand) {
-        verdict = 'inconclusive';
-        reasons.push(
-          `confidence interval wider than the tolerance: half-width ${fixed2(halfWidth)} > ${CI_WIDTH_FACTOR} × ` +
-            `${plain(tolerance)}, the data cannot decide — add levels or reduce the noise`,
-          headline,
-        );
-      } else {
-        verdict = classify(fit.order, expected, tolerance);
-        reasons.push(headline);
-      }
-    }
-    reasons.push(...patternReasons(usableRates, range.rates, expected, tolerance, verdict));
+    return {
+      ...base, fit, asymptoticFrom: range.from, verdict: 'inconclusive',
+      reasons: [...lead, `no expected order to compare with: ${fitText(fit)}`, ...trailing], warnings,
+    };
   }
-  reasons.push(...trailing);
+
+  const headline = `${fitText(fit)} vs expected ${plain(expected)} ± ${plain(tolerance)}`;
+  const W = windowRates(input, fitLevels);
+  const shape = rateShape(usableRates, expected, tolerance);
+  const after: string[] = [];
+  let verdict: Verdict;
+  const short = fitLevels.length < MIN_FIT_LEVELS;
+  const optIn = `add levels, or declare allow.fewLevels for ${input.name} with the reason`;
+  if (!short && fitLevels.length < Math.min(input.fitWindow, n)) {
+    // Still a verdict (three levels give an interval), but the reader should know the window was cut.
+    after.push(`the fit window holds ${fitLevels.length} of the ${input.fitWindow} levels the study asks for: the rest are left out as floors`);
+  }
+  if (short && input.allowFewLevels === undefined) {
+    verdict = 'inconclusive';
+    const m = fitLevels.length;
+    lead.push(
+      usable.length > m
+          ? `too few levels in the fit window: ${m}, need ${MIN_FIT_LEVELS} for a verdict (raise fitWindow)`
+          : floor.from !== null
+            ? `too few levels: the floor from level ${floor.from + 1} leaves ${m} usable, and ${m} levels give one rate and ` +
+              `no confidence interval — a verdict needs ${MIN_FIT_LEVELS}; ${optIn}`
+            : `too few levels: ${m} usable, need ${MIN_FIT_LEVELS} for a verdict (two levels give one rate and no ` +
+              `confidence interval); ${optIn}`,
+    );
+  } else {
+    if (short) after.push(`a verdict on ${fitLevels.length} levels, accepted: the study declares it for ${input.name} (${input.allowFewLevels})`);
+    const allBelow = W.length > 0 && W.every((r) => r < expected - tolerance);
+    const allAbove = W.length > 0 && W.every((r) => r > expected + tolerance);
+    const stalls = shape.kind === 'falling-away' || shape.kind === 'stopped' || shape.kind === 'flat';
+    const hasInterval = fit.levels.length >= MIN_FIT_LEVELS;
+    const halfWidth = hasInterval ? (fit.ciHigh - fit.ciLow) / 2 : Number.NaN;
+    const straddle = W.length >= 2 && Math.min(...W) < expected && Math.max(...W) > expected;
+    const meetsBand = hasInterval && fit.ciLow <= expected + tolerance && fit.ciHigh >= expected - tolerance;
+    if (allBelow || stalls) {
+      verdict = 'below-order';
+      if (allBelow && W.length > 1) after.push(`every pairwise rate in the fit window (${rateList(W)}) is below ${plain(expected)} − ${plain(tolerance)}`);
+    } else if (allAbove) {
+      verdict = 'above-order';
+      if (W.length > 1) after.push(`every pairwise rate in the fit window (${rateList(W)}) is above ${plain(expected)} + ${plain(tolerance)}`);
+    } else if (halfWidth > CI_WIDTH_FACTOR * tolerance && straddle) {
+      verdict = 'inconclusive';
+      lead.push(
+        `confidence interval wider than the tolerance: half-width ${fixed2(halfWidth)} > ${CI_WIDTH_FACTOR} × ` +
+          `${plain(tolerance)} and the rates in the fit window (${rateList(W)}) lie on both sides of ${plain(expected)}, ` +
+          'the data cannot decide — add levels or reduce the noise',
+      );
+    } else if (Math.abs(fit.order - expected) <= tolerance) {
+      verdict = 'on-order';
+    } else if (shape.kind === 'approaching' || !meetsBand) {
+      verdict = classify(fit.order, expected, tolerance);
+    } else {
+      verdict = 'on-order';
+      after.push(
+        `on order within the scatter: the fitted order lies outside ${plain(expected)} ± ${plain(tolerance)}, but the ` +
+          `rates in the fit window (${rateList(W)}) do not all depart on one side and the 95% interval meets the band — ` +
+          'jitter (perturbed meshes, noisy errors), not a change of order',
+      );
+    }
+    if (verdict === 'above-order' && !(shape.kind === 'stable' && shape.rates.length >= 2 && shape.mean > expected + tolerance)) {
+      after.push(aboveReason(input, expected));
+    }
+  }
+  if (setupReason && verdict !== 'below-order') verdict = setupVerdict(rates, floor.levels, expected, tolerance);
+  const reasons = [...lead, headline, ...after, ...shapeReasons(shape, input, expected, tolerance, verdict), ...trailing];
   return { ...base, fit, asymptoticFrom: range.from, verdict, reasons, warnings };
+}
+
+/** The verdict on a code whose own solver spoils its finest levels: the error it delivers there is what it computes, so
+ *  a rate into a spoiled level below expected − tolerance is a loss of order (below-order); otherwise the data cannot
+ *  decide (inconclusive). Common practice, no source. */
+function setupVerdict(rates: readonly (number | null)[], levels: readonly (FloorKind | null)[], expected: number | null, tolerance: number): Verdict {
+  if (expected === null) return 'inconclusive';
+  for (let i = 1; i < rates.length; i++) {
+    const r = rates[i];
+    if (levels[i] === 'setup' && r !== null && r !== undefined && r < expected - tolerance) return 'below-order';
+  }
+  return 'inconclusive';
 }

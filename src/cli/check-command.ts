@@ -3,8 +3,9 @@ import { executeStudies } from './execute.ts';
 import { formatStudyTable } from '../report/terminal.ts';
 import { writeReports } from '../report/write.ts';
 import { junitXml } from '../report/junit.ts';
-import { compareAll, makeBaseline, readBaseline, writeBaseline, type Baseline } from '../gate/baseline.ts';
-import { runStatus } from '../study/runner.ts';
+import { compareAll, makeBaseline, readBaseline, writeBaseline, type Baseline, type BaselineFinding } from '../gate/baseline.ts';
+import { studyFacts } from '../gate/facts.ts';
+import { failureLines, gateStatus, statusLine, type GateOutcome, type RunError } from '../gate/status.ts';
 import { RungsInputError } from '../errors.ts';
 import { problemLine, useColor } from './output.ts';
 
@@ -19,62 +20,99 @@ export interface CheckFlags {
   quiet?: boolean;
 }
 
-/** `rungs check`: the nightly gate. Runs the studies, compares fitted orders with the expected ones and, with a
- *  baseline, each level's errors within a relative tolerance. Exit 0 pass, 1 departure or regression, 2 bad input. */
+const say = (line: string) => process.stdout.write(line + '\n');
+const complain = (line: string) => process.stderr.write(line + '\n');
+
+/**
+ * `rungs check`: the nightly gate. Runs the studies, compares fitted orders with the expected ones and, with a
+ * baseline, each level's errors within a relative tolerance. Exit 0 pass, 1 departure or regression, 2 bad input
+ * (a study, the baseline or the reports); the JUnit file, when asked for, is written from the same outcome, so its
+ * errors and failures always say what the exit status says.
+ */
 export async function checkCommand(paths: string[], flags: CheckFlags): Promise<number> {
   const color = useColor(process.stdout);
-  const errors: string[] = [];
-  let baseline: Baseline | undefined;
-  if (flags.baseline && !(flags.updateBaseline && !existsSync(flags.baseline))) {
-    try { baseline = readBaseline(flags.baseline); } catch (err) {
-      if (!(err instanceof RungsInputError)) throw err;
-      errors.push(err.message);
-      process.stderr.write(`error: ${err.message}\n`);
-    }
-  }
+  const runErrors: RunError[] = [];
+  const runError = (name: string, message: string) => { runErrors.push({ name, message }); complain(`error: ${message}`); };
+
   if (flags.updateBaseline && !flags.baseline) {
-    process.stderr.write('error: --update-baseline needs --baseline FILE, the file to write\n');
-    return 2;
+    runError('command line', '--update-baseline needs --baseline FILE, the file to write');
+    return finish({ results: [], problems: [], findings: [], runErrors }, flags, runError);
+  }
+  let baseline: Baseline | undefined;
+  // When recording, an absent file is the normal start and an empty one may be filled; when comparing, neither is.
+  if (flags.baseline && !(flags.updateBaseline && !existsSync(flags.baseline))) {
+    try { baseline = readBaseline(flags.baseline, { allowEmpty: flags.updateBaseline }); } catch (err) {
+      if (!(err instanceof RungsInputError)) throw err;
+      runError('baseline file', err.message);
+    }
   }
   const { results, problems } = await executeStudies(paths, {
     out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true,
-    onProblem: (p) => process.stderr.write(problemLine(p.file, p.message) + '\n'),
+    onProblem: (p) => complain(problemLine(p.file, p.message)),
   });
   let writeProblems: string[];
   try { writeProblems = writeReports(flags.out, results, { inputProblems: problems }); } catch (err) { writeProblems = [(err as Error).message]; }
-  for (const w of writeProblems) process.stderr.write(`error: ${w}\n`);
+  for (const w of writeProblems) runError('reports', w);
 
-  if (!flags.quiet && results.length) process.stdout.write(formatStudyTable(results, { color, summaryOnly: true }) + '\n');
-  let regressions = 0;
+  if (!flags.quiet && results.length) say(formatStudyTable(results, { color, summaryOnly: true }));
+  for (const line of failureLines(results)) say(line);
+
+  const facts = flags.baseline ? await studyFacts(results) : {};
+  let findings: BaselineFinding[] = [];
   if (baseline && !flags.updateBaseline) {
-    const findings = compareAll(results, baseline);
-    for (const f of findings) {
-      if (f.kind === 'ladder-mismatch') {
-        // A baseline recorded on another ladder cannot be compared: that is bad input, not a regression.
-        errors.push(f.line);
-        process.stderr.write(`error: ${flags.baseline}: ${f.line}\n`);
-      } else if (f.severity === 'failure') { regressions++; process.stdout.write(`regression: ${f.line}\n`); }
-      else if (!flags.quiet) process.stdout.write(`note: ${f.line}\n`);
-    }
-    process.stdout.write(regressions ? `${regressions} baseline failure${regressions > 1 ? 's' : ''}\n` : 'baseline: no regressions\n');
+    // A study that could not run is an error already; "in the baseline but not run" would only repeat it.
+    const failed = new Set(problems.map((p) => p.study));
+    findings = compareAll(results, baseline, { partial: flags.quick, facts })
+      .filter((f) => !(f.kind === 'study-not-run' && failed.has(f.study)));
+    printFindings(findings, flags);
   }
   if (flags.updateBaseline && flags.baseline) {
     try {
-      writeBaseline(flags.baseline, makeBaseline(results, baseline));
-      process.stdout.write(`baseline written: ${flags.baseline} (${results.length} stud${results.length === 1 ? 'y' : 'ies'})\n`);
+      writeBaseline(flags.baseline, makeBaseline(results, baseline, facts));
+      say(`baseline written: ${flags.baseline} (${results.length} stud${results.length === 1 ? 'y' : 'ies'})`);
+      if (flags.quick || flags.levels) {
+        say(`warning: recorded from ${flags.quick ? 'the quick ladders (--quick)' : `the first ${flags.levels} levels (--levels)`}: a full run will find levels missing from this baseline`);
+      }
     } catch (err) {
-      errors.push((err as Error).message);
-      process.stderr.write(`error: ${(err as Error).message}\n`);
+      runError('baseline file', (err as Error).message);
     }
   }
+  return finish({ results, problems, findings, runErrors }, flags, runError);
+}
+
+/** Writes the JUnit file (when asked for) and the status line from one outcome, and returns the exit status. */
+function finish(outcome: GateOutcome, flags: CheckFlags, runError: (name: string, message: string) => void): number {
   if (flags.junit) {
+    const xml = junitXml(outcome.results, { suiteName: 'rungs', inputErrors: outcome.problems, baseline: outcome.findings, runErrors: outcome.runErrors });
     try {
-      writeFileSync(flags.junit, junitXml(results, { suiteName: 'rungs', inputErrors: problems }));
+      writeFileSync(flags.junit, xml);
     } catch (err) {
-      errors.push(`cannot write the JUnit file ${flags.junit}: ${(err as Error).message}`);
-      process.stderr.write(`error: cannot write the JUnit file ${flags.junit}: ${(err as Error).message}\n`);
+      // The file cannot say so itself; the status and this line must.
+      runError('junit', `cannot write the JUnit file ${flags.junit}: ${(err as Error).message}`);
     }
   }
-  if (errors.length || problems.length || writeProblems.length) return 2;
-  return regressions > 0 ? 1 : runStatus(results);
+  say(statusLine(outcome));
+  return gateStatus(outcome);
+}
+
+/** Errors on standard error, failures, warnings and (unless --quiet) notes on standard output, then one summary. */
+function printFindings(findings: readonly BaselineFinding[], flags: CheckFlags): void {
+  for (const f of findings) {
+    if (f.severity === 'error') complain(`error: ${flags.baseline}: ${f.line}`);
+    else if (f.severity === 'failure') say(`${f.kind === 'regression' ? 'regression' : 'failure'}: ${f.line}`);
+    else if (f.severity === 'warning') say(`warning: ${f.line}`);
+    else if (!flags.quiet) say(`note: ${f.line}`);
+  }
+  const errors = findings.filter((f) => f.severity === 'error').length;
+  const failures = findings.filter((f) => f.severity === 'failure').length;
+  const partial = findings.filter((f) => f.kind === 'partial');
+  const spans = new Set(partial.map((f) => `${f.level} of ${f.baseline}`));
+  const quick = partial.length === 0 ? ''
+    : spans.size === 1 ? `; --quick: the first ${[...spans][0]} recorded levels compared`
+      : `; --quick: fewer levels than recorded compared in ${partial.length} stud${partial.length === 1 ? 'y' : 'ies'} (see the notes)`;
+  if (errors === 0 && failures === 0) say(`baseline: no regressions${quick}`);
+  else {
+    const parts = [errors ? `${errors} error${errors > 1 ? 's' : ''} (the baseline cannot vouch for the run)` : '', failures ? `${failures} failure${failures > 1 ? 's' : ''}` : ''];
+    say(`baseline: ${parts.filter(Boolean).join(', ')}${quick}`);
+  }
 }

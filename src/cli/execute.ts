@@ -1,7 +1,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
-import { findStudyFiles, loadStudy } from '../study/load.ts';
+import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
 import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
 import type { StudyResult } from '../study/result.ts';
@@ -63,20 +63,25 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   }
 
   // Load and validate every study first: bad input is reported before any level runs.
-  const prepared: PreparedStudy[] = [];
+  const loadedStudies: LoadedStudy[] = [];
   for (const file of files) {
     const shown = relative(process.cwd(), file) || file;
-    let name = '';
+    try { loadedStudies.push(await loadStudy(file)); } catch (err) { problem(asProblem(err, '', shown)); }
+  }
+  // One name in two files would write the same report files and baseline entry: neither runs, the others do.
+  const clashes = nameClashes(loadedStudies);
+  const prepared: PreparedStudy[] = [];
+  for (const loaded of loadedStudies) {
+    const decl = loaded.declaration;
+    const clash = clashes.get(loaded);
+    if (clash) { problem({ study: decl.name, file: loaded.file, message: clash }); continue; }
     try {
-      const loaded = await loadStudy(file);
-      name = loaded.declaration.name;
-      const decl = loaded.declaration;
       const levels = opts.quick ? Math.min(decl.ladder.quick ?? 3, decl.ladder.n.length) : opts.levels;
       const p = prepareStudy(loaded, { levels, out: opts.out });
       await preflightStudy(p);
       prepared.push(p);
     } catch (err) {
-      problem(asProblem(err, name, shown));
+      problem(asProblem(err, decl.name, loaded.file));
     }
   }
   const progress = makeProgress(process.stderr, !!opts.quiet);
@@ -100,6 +105,26 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     }
   }
   return { results, problems };
+}
+
+/** The message for each study whose name another file of the run also declares (names equal up to case count too:
+ *  they write the same report files on case-insensitive file systems). */
+function nameClashes(loaded: readonly LoadedStudy[]): Map<LoadedStudy, string> {
+  const byName = new Map<string, LoadedStudy[]>();
+  for (const l of loaded) {
+    const key = l.declaration.name.toLowerCase();
+    byName.set(key, [...(byName.get(key) ?? []), l]);
+  }
+  const out = new Map<LoadedStudy, string>();
+  for (const group of byName.values()) {
+    if (group.length < 2) continue;
+    for (const l of group) {
+      const others = group.filter((o) => o !== l).map((o) => `${o.file} (study '${o.declaration.name}')`).join(' and ');
+      out.set(l, `${l.file} (study '${l.declaration.name}'): name: also declared by ${others}; study names must be unique in a run ` +
+        '(they name the report files and the baseline entry, whatever their case): rename one; neither runs until then');
+    }
+  }
+  return out;
 }
 
 type Fail = (p: PreparedStudy, err: unknown) => void;

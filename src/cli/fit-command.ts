@@ -11,6 +11,7 @@ import { useColor } from './output.ts';
 export interface FitFlags {
   errors?: string;
   quantity?: string[];
+  uncertainty?: string;
   expect?: string;
   by?: 'h' | 'dofs';
   hColumn?: string;
@@ -32,7 +33,7 @@ export async function fitCommand(table: string, flags: FitFlags): Promise<number
     const { result, quantities } = fitTableFile(table, {
       errors: list(flags.errors), quantities: flags.quantity?.flatMap((q) => list(q) ?? []),
       expect: flags.expect, by: flags.by, hColumn: flags.hColumn, dofsColumn: flags.dofsColumn, dim: flags.dim,
-      tolerance: flags.tolerance, fitWindow: flags.fitWindow,
+      tolerance: flags.tolerance, fitWindow: flags.fitWindow, procedures: flags.uncertainty,
     });
     result.quantities = quantities.length ? quantities : undefined;
     if (!flags.expect && result.analyses.every((a) => a.expected === null)) {

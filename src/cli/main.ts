@@ -59,6 +59,7 @@ program
   .argument('<table>', 'CSV file with a header row: h or dofs, and error or quantity columns')
   .option('--errors <names>', 'error columns, comma-separated (default: columns ending in _error, else every numeric column)')
   .option('--quantity <names...>', 'quantity columns for Richardson extrapolation and the GCI')
+  .option('--uncertainty <procedures>', 'procedures for the quantities, comma-separated: gci, least-squares (4+ levels), mixed-order (3+ levels); default: every one the levels allow')
   .option('--expect <orders>', 'expected order for every error column (e.g. 2) or per column (L2=2,H1semi=1)')
   .addOption(new Option('--by <size>', 'fit against h or dofs').choices(['h', 'dofs']))
   .option('--h-column <name>', 'column holding h (default h)')

@@ -1,7 +1,29 @@
 // A small CSV reader after RFC 4180 (Shafranovich 2005): comma-separated fields, records ended by CRLF or LF,
 // fields in double quotes may hold commas, line breaks and doubled quotes (""). A leading byte-order mark is
-// dropped, blank lines are skipped, and every record keeps the line it starts on for messages.
+// dropped, blank lines are skipped, and every record keeps the line it starts on for messages. A table must end
+// with a line break (RFC 4180 makes the last one optional; rungs requires it, because without it a file cut inside
+// its last number — "0.12345" cut to "0.12" — reads as a valid, different number).
 import { RungsInputError } from '../errors.ts';
+
+/** A plain decimal number as people and every numerical code write it: optional sign, digits with at most one
+ *  point, optional exponent. Not JavaScript's other forms (0x1f, 0b1, 0o7, Infinity, NaN, 1_000, empty text). */
+const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/** What a valid number looks like, for messages. */
+export const DECIMAL_FORMS = 'a decimal number such as 0.125, -3, 2.5e-4';
+
+/** The value of a plain decimal number, or null when the text is not one or its value is not finite (1e999). */
+export function parseDecimal(text: string): number | null {
+  if (!DECIMAL.test(text)) return null;
+  const v = Number(text);
+  return Number.isFinite(v) ? v : null;
+}
+
+/** The value of a non-negative integer written with digits only ("12", not "12.0", "1e1" or "+12"), or null. Values
+ *  beyond 2^53 are returned as read (callers compare them with their limits). */
+export function parseDigits(text: string): number | null {
+  return /^\d+$/.test(text) ? Number(text) : null;
+}
 
 export interface CsvRecord {
   fields: string[];
@@ -76,10 +98,27 @@ export function parseCsvRecords(text: string, file: string): CsvRecord[] {
   return records;
 }
 
-/** A table: the first record is the header (trimmed names, unique, non-empty); rows must have its width. */
-export function parseCsvTable(text: string, file: string): CsvTable {
+export interface CsvTableOptions {
+  /** Refuse a file whose last record has no line break after it (default true: it may be cut off). */
+  finalLineBreak?: boolean;
+}
+
+/** A table: the first record is the header (trimmed names, unique, non-empty); rows must have its width, and the
+ *  file must end with a line break (see the top of this file). */
+export function parseCsvTable(text: string, file: string, opts: CsvTableOptions = {}): CsvTable {
   const records = parseCsvRecords(text, file);
-  if (records.length === 0) throw new RungsInputError(`${file}: the file is empty; expected a header row such as "h,L2,H1semi" and one row per level`, file);
+  if (records.length === 0) throw new RungsInputError(`${file} line ${lineCount(text)}: the file is empty; expected a header row such as "h,L2,H1semi" and one row per level`, file);
+  if (opts.finalLineBreak !== false) {
+    const end = text.replace(/[ \t]+$/, '');
+    if (!end.endsWith('\n') && !end.endsWith('\r')) {
+      const last = records[records.length - 1]!;
+      throw new RungsInputError(
+        `${file} line ${lineCount(text)}: the file does not end with a line break, so its last record (line ${last.line}) may be cut off ` +
+          '(a truncated file?); end every record, the last one too, with a line break',
+        file,
+      );
+    }
+  }
   const head = records[0]!;
   const header = head.fields.map((f) => f.trim());
   const seen = new Map<string, number>();
@@ -95,4 +134,14 @@ export function parseCsvTable(text: string, file: string): CsvTable {
     }
   }
   return { header, headerLine: head.line, rows };
+}
+
+/** Number of the line the end of the text is on. */
+function lineCount(text: string): number {
+  let line = 1;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) line++;
+  }
+  return line;
 }

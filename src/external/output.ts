@@ -42,8 +42,15 @@ export interface ReadOutputOptions {
   context?: string;
 }
 
+/** A reported h may differ from the largest cell diameter of the solver's own mesh by this fraction before rungs
+ *  warns (round-off of a printed h is far smaller; a different definition of h, such as 1/n on triangles, is larger). */
+export const H_MISMATCH_FRACTION = 0.01;
+
+/** What a level's solver wrote, with warnings about it that do not stop the level (shown to the user by the caller). */
+export type LevelOutput = ExternalLevelOutput & { warnings: string[] };
+
 /** Reads what the solver wrote into `dir` for the given protocol. */
-export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: ReadOutputOptions): ExternalLevelOutput {
+export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: ReadOutputOptions): LevelOutput {
   const ref = opts.level;
   const errorsFile = firstExisting(dir, ERRORS_FILES);
   const readErrors = (file: string, required: boolean): ReportedErrors => {
@@ -59,7 +66,7 @@ export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: Rea
   if (protocol === 'errors') {
     if (!errorsFile) throw nothingWritten(dir, ERRORS_FILES, ref, opts.context);
     const e = readErrors(errorsFile, true);
-    return { kind: 'errors', file: errorsFile, dofs: e.dofs, h: e.h ?? opts.h, cells: e.cells, errors: e.errors, quantities: e.quantities };
+    return { kind: 'errors', file: errorsFile, dofs: e.dofs, h: e.h ?? opts.h, cells: e.cells, errors: e.errors, quantities: e.quantities, warnings: [] };
   }
   const solutionFile = firstExisting(dir, SOLUTION_FILES);
   if (!solutionFile) throw nothingWritten(dir, SOLUTION_FILES, ref, opts.context);
@@ -73,9 +80,20 @@ export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: Rea
       dir,
     );
   }
+  // The h the solver reports next to its mesh must be that mesh's h (its largest cell diameter).
+  const warnings: string[] = [];
+  if (extra && extra.h !== null) {
+    const gap = Math.abs(extra.h - vtk.mesh.h) / vtk.mesh.h;
+    if (gap > H_MISMATCH_FRACTION) {
+      warnings.push(
+        `${placeOf(ref, extra.file)}: h is ${extra.h}, but the largest cell diameter of the mesh in ${solutionFile} is ` +
+          `${Number(vtk.mesh.h.toPrecision(6))} (${(100 * gap).toFixed(1)}% apart); rungs uses the mesh's h — report the largest cell diameter, or leave h out`,
+      );
+    }
+  }
   return {
     kind: 'field', file: solutionFile, mesh: vtk.mesh, field: vtk.field, degree: vtk.degree,
-    dofs: extra?.dofs ?? vtk.dofs, h: vtk.mesh.h, fieldName: vtk.fieldName, space: vtk.space, quantities: extra?.quantities ?? {},
+    dofs: extra?.dofs ?? vtk.dofs, h: vtk.mesh.h, fieldName: vtk.fieldName, space: vtk.space, quantities: extra?.quantities ?? {}, warnings,
   };
 }
 

@@ -1,34 +1,36 @@
 import type { QuantityReport } from '../analysis/quantities.ts';
+import { QUANTITY_CAUTION, quantityStatements, quantityTables, type TextTable } from '../report/quantity-tables.ts';
 
 export interface QuantityTerminalOptions {
   /** ANSI colour (the CLI passes false when NO_COLOR is set or stdout is not a TTY). */
   color: boolean;
 }
 
-const num = (x: number | null, digits = 7): string => (x === null || !Number.isFinite(x) ? '—' : Number(x.toPrecision(digits)).toString());
-const pct = (x: number | null): string => (x === null || !Number.isFinite(x) ? '—' : `${(100 * x).toPrecision(3)}%`);
-const order = (q: QuantityReport): string => (q.order === null ? '—' : `${q.order.toFixed(2)}${q.orderKind === 'assumed' ? ' (assumed)' : ''}`);
-
-/** A table of the quantities' grid convergence indices, then one line per warning. */
+/**
+ * The quantities' tables (GCI from the three finest levels; with four or more levels the least-squares uncertainty
+ * and the uncertainty of every level; from three levels the mixed-order fit), their warnings, one interval statement
+ * per quantity and the reminder that verification is not validation.
+ */
 export function formatQuantityReports(reports: readonly QuantityReport[], opts: QuantityTerminalOptions): string {
   if (reports.length === 0) return '';
   const sgr = (on: number, off: number) => (t: string) => (opts.color ? `\u001b[${on}m${t}\u001b[${off}m` : t);
   const bold = sgr(1, 22), faint = sgr(2, 22), warn = sgr(33, 39);
-  const header = ['quantity', 'finest value', 'order', 'extrapolated', 'e_a', 'e_ext', 'GCI', 'Fs', 'convergence'];
-  const rows = reports.map((q) => [
-    q.name, num(q.finest), order(q), num(q.extrapolated), pct(q.approxRelError), pct(q.extrapolatedRelError), pct(q.gci),
-    String(q.safetyFactor), q.convergence,
-  ]);
-  const width = header.map((h, c) => Math.max([...h].length, ...rows.map((r) => [...r[c]!].length)));
-  const line = (r: string[]) => r.map((cell, c) => (c === 0 || c === r.length - 1 ? cell.padEnd(width[c]!) : cell.padStart(width[c]!))).join('  ').trimEnd();
-  const grids = Math.max(...reports.map((q) => q.levelsUsed.length));
-  const out = [
-    bold(`Quantities: grid convergence index from the ${grids === 3 ? 'three' : 'two'} finest levels (Celik et al. 2008)`),
-    '  ' + bold(line(header)),
-    '  ' + faint(width.map((w) => '─'.repeat(w)).join('  ')),
-    ...rows.map((r) => '  ' + line(r)),
-  ];
+  const block = (t: TextTable, first: boolean): string[] => {
+    const width = t.header.map((h, c) => Math.max([...h].length, ...t.rows.map((r) => [...r[c]!].length)));
+    const textColumns = new Set(t.header.flatMap((h, c) => (['quantity', 'error model', 'data', 'convergence'].includes(h) ? [c] : [])));
+    const line = (r: string[]) => r.map((cell, c) => (textColumns.has(c) ? cell.padEnd(width[c]!) : cell.padStart(width[c]!))).join('  ').trimEnd();
+    return [
+      ...(first ? [] : ['']),
+      bold(first ? `Quantities: ${t.title[0]!.toLowerCase()}${t.title.slice(1)}` : t.title),
+      '  ' + bold(line(t.header)),
+      '  ' + faint(width.map((w) => '─'.repeat(w)).join('  ')),
+      ...t.rows.map((r) => '  ' + line(r)),
+      faint(`  ${t.legend}`),
+    ];
+  };
+  const out = quantityTables(reports).flatMap((t, i) => block(t, i === 0));
   for (const q of reports) for (const w of q.warnings) out.push(`  ${warn('!')} ${q.name}: ${w}`);
-  out.push(faint('  e_a = |φ1 − φ2| / |φ1|, e_ext = |φ_ext − φ1| / |φ_ext|, GCI = Fs·e_a / (r^p − 1) on the finest level'));
+  for (const q of reports) for (const n of q.notApplied ?? []) out.push(faint(`  · ${q.name}: ${n}`));
+  out.push('', bold('Result'), ...quantityStatements(reports).map((s) => `  ${s}`), faint(`  ${QUANTITY_CAUTION}`));
   return out.join('\n');
 }

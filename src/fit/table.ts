@@ -1,6 +1,6 @@
 // Picks the size, error and quantity columns of a convergence table and checks every number it uses.
 import { RungsInputError } from '../errors.ts';
-import type { CsvRecord, CsvTable } from '../csv/read.ts';
+import { DECIMAL_FORMS, parseDecimal, type CsvRecord, type CsvTable } from '../csv/read.ts';
 
 export interface ColumnChoice {
   /** Fit against 'h' or 'dofs' (default: h when the table has an h column, else dofs). */
@@ -48,7 +48,14 @@ const INTERP_SUFFIX = '_interp_error';
 export function readFitData(table: CsvTable, file: string, choice: ColumnChoice = {}): FitData {
   const { header, rows } = table;
   const fail = (message: string): never => { throw new RungsInputError(`${file}: ${message}`, file); };
-  if (rows.length < 2) fail(`the table has ${rows.length} data row${rows.length === 1 ? '' : 's'}; a fit needs at least 2 levels`);
+  if (rows.length < 2) {
+    const q = choice.quantities?.[0];
+    const rowsText = `${rows.length} data row${rows.length === 1 ? '' : 's'}`;
+    if (q !== undefined && !(choice.errors && choice.errors.length)) {
+      fail(`column '${q}': the grid convergence index needs at least 2 levels (3 for an observed order, 4 for the least-squares uncertainty); the table has ${rowsText}`);
+    }
+    fail(`the table has ${rowsText}; a fit needs at least 2 levels`);
+  }
   const has = (c: string) => header.includes(c);
   const hCol = choice.hColumn ?? 'h';
   const dofsCol = choice.dofsColumn ?? 'dofs';
@@ -134,25 +141,24 @@ function stripSuffix(name: string): string {
 
 function numberAt(r: CsvRecord, k: number, column: string, file: string, check: (v: number) => string | null): number {
   const text = r.fields[k]!.trim();
-  const v = Number(text);
+  const v = parseDecimal(text);
   if (text === '') throw new RungsInputError(`${file} line ${r.line}, column '${column}': the value is empty`, file);
-  if (!Number.isFinite(v)) throw new RungsInputError(`${file} line ${r.line}, column '${column}': '${text}' is not a finite number`, file);
+  if (v === null) throw new RungsInputError(`${file} line ${r.line}, column '${column}': '${text}' is not a finite number; expected ${DECIMAL_FORMS}`, file);
   const problem = check(v);
   if (problem) throw new RungsInputError(`${file} line ${r.line}, column '${column}': ${text} ${problem}`, file);
   return v;
 }
 
 function anyNumber(rows: CsvRecord[], k: number): boolean {
-  return rows.some((r) => { const t = r.fields[k]!.trim(); return t !== '' && Number.isFinite(Number(t)); });
+  return rows.some((r) => parseDecimal(r.fields[k]!.trim()) !== null);
 }
 
 /** The column as numbers when every row holds a finite number, else null. */
 function tryNumbers(rows: CsvRecord[], k: number): number[] | null {
   const out: number[] = [];
   for (const r of rows) {
-    const t = r.fields[k]!.trim();
-    const v = Number(t);
-    if (t === '' || !Number.isFinite(v)) return null;
+    const v = parseDecimal(r.fields[k]!.trim());
+    if (v === null) return null;
     out.push(v);
   }
   return out;

@@ -2,8 +2,9 @@ import { z } from 'zod';
 
 /**
  * The baseline file: plain JSON with sorted keys and one study per key, so that a re-recorded baseline diffs line by
- * line. Per study: the ladder it was recorded on (level count, h and dofs per level), the relative tolerance, and per
- * norm the error on every level (with that level's h and dofs, and whether it sat on an error floor).
+ * line. Per study: the ladder it was recorded on (level count, h and dofs per level), the relative tolerance, the hash
+ * of the study's declaration (`declaration`, "sha256:…"; absent in files recorded before it existed), and per norm
+ * the error on every level (with that level's h and dofs, and whether it sat on an error floor).
  */
 export const BASELINE_FORMAT = 'rungs-baseline';
 export const BASELINE_VERSION = 1;
@@ -25,6 +26,7 @@ const studySchema = z.object({
   }),
   relTol: z.number().positive(),
   recordedAt: z.string().optional(),
+  declaration: z.string().regex(/^sha256:[0-9a-f]{64}$/, 'expected "sha256:" and 64 hex digits').optional(),
   norms: z.record(z.string(), z.array(levelSchema)),
 });
 

@@ -133,3 +133,50 @@ export function summaryCsv(results: readonly StudyResult[]): string {
   }
   return toCsv([...SUMMARY_COLUMNS], rows);
 }
+
+/** Columns of quantitiesCsv, in order. */
+export const QUANTITY_COLUMNS = [
+  'quantity', 'level', 'h', 'value',
+  'ls_fitted', 'ls_error', 'ls_uncertainty', 'ls_low', 'ls_high',
+  'gci_order', 'gci_extrapolated', 'gci', 'gci_uncertainty', 'gci_safety_factor', 'gci_convergence',
+  'ls_model', 'ls_weighted', 'ls_order', 'ls_order_low', 'ls_order_high', 'ls_extrapolated', 'ls_std', 'ls_data_range',
+  'ls_safety_factor', 'ls_convergence',
+  'mixed_extrapolated', 'mixed_g1', 'mixed_g2', 'mixed_uncertainty',
+  'coverage',
+] as const;
+
+/**
+ * One row per quantity and level, coarse to fine. Per level: `quantity`; `level` 1-based among the levels that reported
+ * the quantity; `h`; `value`; `ls_fitted` the least-squares fit there, `ls_error` its fitted error φ_fit − φ0,
+ * `ls_uncertainty` U of that level, `ls_low`, `ls_high` = value ∓ U. Per quantity (the same on each of its rows):
+ * `gci_order`, `gci_extrapolated`, `gci` (fraction of the finest value), `gci_uncertainty` (= gci · |finest value|),
+ * `gci_safety_factor`, `gci_convergence` of the three finest levels (Celik et al. 2008); `ls_model` (observed, first,
+ * second, first-second), `ls_weighted`, `ls_order` and its 95% interval `ls_order_low`, `ls_order_high`,
+ * `ls_extrapolated` φ0, `ls_std` U_s, `ls_data_range` Δφ, `ls_safety_factor`, `ls_convergence` of the least-squares
+ * procedure (Eça & Hoekstra 2014; empty with fewer than four levels); `mixed_extrapolated`, `mixed_g1`, `mixed_g2`,
+ * `mixed_uncertainty` of Roy's mixed-order fit (2003) through the three finest levels; `coverage` 0.95, the coverage
+ * the intervals aim at. Empty without quantities.
+ */
+export function quantitiesCsv(result: StudyResult): string {
+  const rows: Cell[][] = [];
+  for (const q of result.quantities ?? []) {
+    const ls = q.leastSquares ?? null;
+    const m = q.mixedOrder ?? null;
+    const shared: Cell[] = [
+      q.order, q.extrapolated, q.gci, q.gci === null ? null : q.gci * Math.abs(q.finest), q.safetyFactor, q.convergence,
+      ls?.chosen.model, ls?.chosen.weighted, ls?.observedOrder, ls?.orderInterval?.[0], ls?.orderInterval?.[1], ls?.chosen.extrapolated,
+      ls?.chosen.std, ls?.dataRange, ls?.safetyFactor, ls?.convergence,
+      m?.extrapolated, m?.g1, m?.g2, m?.finest.uncertainty,
+      0.95,
+    ];
+    q.values.forEach((v, i) => {
+      const U = ls?.uncertainty[i];
+      rows.push([
+        q.name, i + 1, q.h[i], v,
+        ls?.chosen.fitted[i], ls?.errors[i], U, U === undefined ? undefined : v - U, U === undefined ? undefined : v + U,
+        ...shared,
+      ]);
+    });
+  }
+  return toCsv([...QUANTITY_COLUMNS], rows);
+}

@@ -7,6 +7,7 @@ import { fileStem, normNames, rateAt } from './series.ts';
 import { svgPlot, type PlotOptions } from './svg.ts';
 import { normOutcomes, studyTally, verdictLabel, type NormOutcome } from './verdict.ts';
 import { escapeXml as esc } from './xml.ts';
+import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
 
 export type { InputProblem };
 
@@ -117,6 +118,27 @@ function fitTable(r: StudyResult): string {
   ].join('\n');
 }
 
+/** The quantities of interest: GCI, least-squares uncertainty (also per level), mixed-order fit, the intervals. */
+function quantitySection(r: StudyResult): string {
+  const qs = r.quantities ?? [];
+  if (qs.length === 0) return '';
+  const tables = quantityTables(qs).map((t) => [
+    `<table class="quantities">`,
+    `<caption>${esc(t.title)}. ${esc(t.legend)}.</caption>`,
+    `<thead><tr>${t.header.map((h, c) => `<th${c === 0 ? ' class="text"' : ''}>${esc(h)}</th>`).join('')}</tr></thead>`,
+    `<tbody>${t.rows.map((row) => `<tr>${row.map((v, c) => `<td class="${c === 0 ? 'text' : 'num'}">${esc(v)}</td>`).join('')}</tr>`).join('\n')}</tbody>`,
+    '</table>',
+  ].join('\n'));
+  const notes = qs.flatMap((q) => [...q.warnings.map((w) => `<li class="warning">⚠ ${esc(`${q.name}: ${w}`)}</li>`), ...(q.notApplied ?? []).map((n) => `<li>${esc(`${q.name}: ${n}`)}</li>`)]);
+  return [
+    '<h3>Quantities of interest</h3>',
+    ...tables,
+    notes.length ? `<ul class="reasons">${notes.join('')}</ul>` : '',
+    `<ul class="intervals">${quantityStatements(qs).map((t) => `<li>${esc(t)}</li>`).join('')}</ul>`,
+    `<p class="caution">${esc(QUANTITY_CAUTION)}</p>`,
+  ].join('\n');
+}
+
 /** Per norm a card with the verdict in words and symbol, the fitted and the expected order. */
 function glance(r: StudyResult): string {
   const cards = normOutcomes(r).map((o) => {
@@ -169,6 +191,7 @@ function studySection(r: StudyResult, plot: PlotOptions | undefined): string {
     levelTable(r),
     '<h3>Fitted orders</h3>',
     fitTable(r),
+    quantitySection(r),
     warnings,
     '<div class="columns">',
     `<div><h3>Inputs</h3><pre class="inputs">${esc(inputs ?? 'none')}</pre></div>`,

@@ -11,6 +11,20 @@ export interface JunitOptions {
   inputErrors?: readonly InputProblem[];
   /** Suite timestamp (ISO 8601); default: the earliest study start. */
   timestamp?: string;
+  /** Findings of a baseline comparison: each goes into the test cases of its study and norm (every norm of the
+   *  study when it names none). Errors make the case an <error>, failures a <failure>; warnings and notes are text. */
+  baseline?: readonly JunitFinding[];
+  /** Problems of the whole run (an unreadable baseline, reports that could not be written): one <error> case each. */
+  runErrors?: readonly { name: string; message: string }[];
+}
+
+/** A baseline finding as the JUnit writer needs it (src/gate's BaselineFinding has this shape). */
+export interface JunitFinding {
+  study: string;
+  norm?: string;
+  kind: string;
+  severity: 'error' | 'failure' | 'warning' | 'note';
+  line: string;
 }
 
 /** Seconds with millisecond resolution, as JUnit consumers expect. */
@@ -25,42 +39,89 @@ function junitTimestamp(iso: string | undefined): string | undefined {
 
 /**
  * JUnit XML: one <testsuite>, one <testcase classname="rungs.<study>" name="<norm>"> per study and norm.
- * A norm whose verdict is not the one the study expects gets a <failure type="<verdict>"> with the reasons;
- * a study that failed on bad input gets a test case named "input" with an <error>. A study's wall time is shared
- * evenly among its norms (the norms are measured together, not one by one).
+ * A norm whose verdict is not the one the study expects gets a <failure type="<verdict>"> with the reasons, and so
+ * does one the baseline comparison failed (type "regression", …); a baseline that cannot vouch for the norm makes it
+ * an <error type="ladder-mismatch" …>. A study that failed on bad input gets a test case named "input" with an
+ * <error>, and each problem of the whole run a test case of its own with an <error>. So the counts agree with the
+ * exit status of `rungs check`: errors > 0 is status 2, else failures > 0 is status 1, else 0. A study's wall time
+ * is shared evenly among its norms (the norms are measured together, not one by one).
  */
 export function junitXml(results: readonly StudyResult[], options: JunitOptions): string {
   const inputErrors = options.inputErrors ?? [];
+  const findings = options.baseline ?? [];
   const cases: string[] = [];
   let tests = 0;
   let failures = 0;
+  let errors = 0;
   let totalTime = 0;
+  const judged = new Set<string>();
+  const testcase = (classname: string, name: string, time: number, body: string) => {
+    tests++;
+    cases.push(`    ${el('testcase', { classname, name, time: secs(time) }, body)}`);
+  };
+  /** The body of one case: <error> before <failure> before plain text, so each case counts once. */
+  const caseBody = (summary: string, lines: string[], own: readonly JunitFinding[], verdictFailure: { message: string; type: string } | null) => {
+    const errs = own.filter((f) => f.severity === 'error');
+    const fails = own.filter((f) => f.severity === 'failure');
+    const text = escapeXml([summary, ...lines, ...own.map((f) => `baseline ${f.severity}: ${f.line}`)].filter(Boolean).join('\n'));
+    const more = (n: number) => (n > 1 ? ` (and ${n - 1} more)` : '');
+    if (errs.length) {
+      errors++;
+      // One outcome per case: the error wins, as status 2 wins over 1, and its message keeps the departed verdict.
+      const also = verdictFailure ? `; also ${verdictFailure.message}` : '';
+      return el('error', { message: `baseline: ${errs[0].line}${more(errs.length)}${also}`, type: errs[0].kind }, text);
+    }
+    if (verdictFailure || fails.length) {
+      failures++;
+      const failure = verdictFailure ?? { message: `baseline: ${fails[0].line}${more(fails.length)}`, type: fails[0].kind };
+      return el('failure', failure, text);
+    }
+    return el('system-out', {}, text);
+  };
   for (const r of results) {
     const outcomes = normOutcomes(r);
-    const share = outcomes.length ? r.seconds / outcomes.length : 0;
+    const share = outcomes.length ? r.seconds / outcomes.length : r.seconds;
     totalTime += Number.isFinite(r.seconds) ? r.seconds : 0;
+    const ofStudy = findings.filter((f) => f.study === r.study);
+    judged.add(r.study);
     for (const o of outcomes) {
-      tests++;
       const a = o.analysis;
       const fit = a.fit ? `fitted ${fixed(a.fit.order)} ${intervalText(a.fit.ciLow, a.fit.ciHigh)}` : 'no fit';
       const summary = `${o.norm}: ${fit}, expected order ${orderText(a.expected)}, verdict ${a.verdict}`;
-      let body: string;
-      if (o.asExpected) {
-        body = el('system-out', {}, escapeXml([summary, ...a.reasons].join('\n')));
-      } else {
-        failures++;
-        const text = [summary, ...a.reasons, ...a.warnings.map((w) => `warning: ${w}`), o.problem].filter(Boolean).join('\n');
-        body = el('failure', { message: `${summary} (expected ${o.expectedVerdict})`, type: a.verdict }, escapeXml(text));
-      }
-      cases.push(`    ${el('testcase', { classname: `rungs.${r.study}`, name: o.norm, time: secs(share) }, body)}`);
+      const own = ofStudy.filter((f) => f.norm === undefined || f.norm === o.norm);
+      const body = o.asExpected
+        ? caseBody(summary, a.reasons, own, null)
+        : caseBody(summary, [...a.reasons, ...a.warnings.map((w) => `warning: ${w}`), o.problem], own, {
+            message: `${summary} (expected ${o.expectedVerdict})`,
+            type: a.verdict,
+          });
+      testcase(`rungs.${r.study}`, o.norm, share, body);
+    }
+    // A study with no norm (quantities only) still needs a case, or its departure would be missing from the file.
+    const unplaced = ofStudy.filter((f) => f.norm !== undefined && !outcomes.some((o) => o.norm === f.norm));
+    if (outcomes.length === 0 || unplaced.some((f) => f.severity === 'error' || f.severity === 'failure')) {
+      const own = outcomes.length === 0 ? ofStudy : unplaced;
+      const departs = outcomes.length === 0 && !r.asExpected;
+      const body = caseBody(`${r.study}: ${departs ? 'not as expected' : 'as expected'}`, [], own,
+        departs ? { message: `the study declared ${r.expectation.verdict}, which no norm showed`, type: 'expectation' } : null);
+      testcase(`rungs.${r.study}`, outcomes.length === 0 ? 'study' : 'baseline', outcomes.length ? 0 : r.seconds, body);
     }
   }
-  for (const e of inputErrors) {
-    tests++;
-    const error = el('error', { message: e.message, type: 'input-error' }, escapeXml(`${e.file}: ${e.message}`));
-    cases.push(`    ${el('testcase', { classname: `rungs.${e.study || e.file}`, name: 'input', time: secs(0) }, error)}`);
+  // Findings about studies that did not run here (notes only, by construction of the comparison) still must not hide
+  // an error or a failure.
+  for (const f of findings) {
+    if (judged.has(f.study) || (f.severity !== 'error' && f.severity !== 'failure')) continue;
+    testcase(`rungs.${f.study}`, 'baseline', 0, caseBody(f.study, [], [f], null));
   }
-  const errors = inputErrors.length;
+  for (const e of inputErrors) {
+    errors++;
+    const error = el('error', { message: e.message, type: 'input-error' }, escapeXml(`${e.file}: ${e.message}`));
+    testcase(`rungs.${e.study || e.file}`, 'input', 0, error);
+  }
+  for (const e of options.runErrors ?? []) {
+    errors++;
+    testcase('rungs', e.name, 0, el('error', { message: e.message, type: 'run-error' }, escapeXml(e.message)));
+  }
   const starts = results.map((r) => r.startedAt).filter(Boolean).sort();
   const suiteAttrs = {
     name: options.suiteName,

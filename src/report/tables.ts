@@ -2,6 +2,7 @@ import type { StudyResult } from '../study/result.ts';
 import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, sciParts } from './numbers.ts';
 import { normNames, rateAt } from './series.ts';
 import { normOutcomes, verdictLabel } from './verdict.ts';
+import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
 
 /** "L2 fitted 3.01 [2.99, 3.02], expected 3: ✓ on-order" per norm; shared by both table captions. */
 function fitSummaries(result: StudyResult, withSymbol: boolean): string[] {
@@ -40,8 +41,9 @@ export function markdownTable(result: StudyResult): string {
     `|${header.map(() => '---:').join('|')}|`,
     ...rows.map(line),
     '',
-    `Fitted orders: ${fitSummaries(result, true).map(escapeMarkdownCell).join('; ')}.`,
+    normNames(result).length ? `Fitted orders: ${fitSummaries(result, true).map(escapeMarkdownCell).join('; ')}.` : 'No error columns analysed.',
     '',
+    ...markdownQuantities(result),
   ].join('\n');
 }
 
@@ -92,12 +94,12 @@ export function latexTable(result: StudyResult): string {
   const sub = norms.map(() => 'error & rate').join(' & ');
   const rows = result.levels.map(
     (level, i) =>
-      `    ${levelNumber(level.index)} & ${latexSci(level.h)} & ${level.dofs} & ` +
+      `    ${levelNumber(level.index)} & ${latexSci(level.h)} & ${level.dofs}${norms.length ? ' & ' : ''}` +
       norms.map((n) => `${latexSci(level.errors[n])} & ${latexRate(rateAt(result, n, i))}`).join(' & ') +
       ' \\\\',
   );
   const caption = `${latexText(result.study)}${result.description ? `: ${latexText(result.description)}` : ''}. ` +
-    `${fitSummaries(result, false).map(latexText).join('; ')}.`;
+    (norms.length ? `${fitSummaries(result, false).map(latexText).join('; ')}.` : 'No error columns analysed.');
   return [
     '% requires \\usepackage{booktabs}',
     '\\begin{table}[htbp]',
@@ -106,14 +108,61 @@ export function latexTable(result: StudyResult): string {
     `  \\label{tab:${result.study.replace(/[^A-Za-z0-9:.-]/g, '-')}}`,
     `  \\begin{tabular}{${'r'.repeat(columns)}}`,
     '    \\toprule',
-    `    & & & ${group} \\\\`,
-    `    ${groupRules}`,
-    `    level & $h$ & dofs & ${sub} \\\\`,
+    ...(norms.length ? [`    & & & ${group} \\\\`, `    ${groupRules}`] : []),
+    `    level & $h$ & dofs${norms.length ? ` & ${sub}` : ''} \\\\`,
     '    \\midrule',
     ...rows,
     '    \\bottomrule',
     '  \\end{tabular}',
     '\\end{table}',
     '',
+    ...latexQuantities(result),
   ].join('\n');
+}
+
+// ---- Quantities of interest (GCI, least-squares uncertainty, mixed-order fit) ----
+
+/** Markdown tables of the study's quantities, the interval statements and the caution; nothing without quantities. */
+function markdownQuantities(result: StudyResult): string[] {
+  const qs = result.quantities ?? [];
+  if (qs.length === 0) return [];
+  const line = (cells: string[]) => `| ${cells.map(escapeMarkdownCell).join(' | ')} |`;
+  const out: string[] = [`**Quantities of interest of ${escapeMarkdownCell(result.study)}**`, ''];
+  for (const t of quantityTables(qs)) {
+    out.push(`*${escapeMarkdownCell(t.title)}*`, '', line(t.header), `|${t.header.map((_, c) => (c === 0 ? ':---' : '---:')).join('|')}|`, ...t.rows.map(line), '', escapeMarkdownCell(t.legend), '');
+  }
+  out.push(...quantityStatements(qs).map((s) => `- ${escapeMarkdownCell(s)}`), '', `> ${escapeMarkdownCell(QUANTITY_CAUTION)}`, '');
+  return out;
+}
+
+/** Symbols of the quantity tables in plain LaTeX, so that no Unicode input encoding is needed. */
+const LATEX_SYMBOLS: Record<string, string> = {
+  φ: '$\\phi$', ε: '$\\varepsilon$', Δ: '$\\Delta$', '±': '$\\pm$', '·': '$\\cdot$', '−': '$-$', '²': '$^2$',
+  '≥': '$\\geq$', '≤': '$\\leq$', '<': '$<$', '>': '$>$', '|': '$|$', ç: '\\c{c}',
+};
+
+/** One booktabs table per quantity table; the interval statements and the caution in the caption of the first. */
+function latexQuantities(result: StudyResult): string[] {
+  const qs = result.quantities ?? [];
+  if (qs.length === 0) return [];
+  const cell = (t: string) => latexText(t).replace(/[φεΔ±·−²≥≤<>|ç]/g, (c) => LATEX_SYMBOLS[c]!);
+  const label = result.study.replace(/[^A-Za-z0-9:.-]/g, '-');
+  return quantityTables(qs).flatMap((t, k) => {
+    const extra = k === 0 ? ` ${quantityStatements(qs).map(cell).join('; ')}. ${cell(QUANTITY_CAUTION)}` : '';
+    return [
+      '\\begin{table}[htbp]',
+      '  \\centering',
+      `  \\caption{${cell(result.study)}: ${cell(t.title)}. ${cell(t.legend)}.${extra}}`,
+      `  \\label{tab:${label}-quantities-${k + 1}}`,
+      `  \\begin{tabular}{l${'r'.repeat(t.header.length - 1)}}`,
+      '    \\toprule',
+      `    ${t.header.map(cell).join(' & ')} \\\\`,
+      '    \\midrule',
+      ...t.rows.map((r) => `    ${r.map(cell).join(' & ')} \\\\`),
+      '    \\bottomrule',
+      '  \\end{tabular}',
+      '\\end{table}',
+      '',
+    ];
+  });
 }

@@ -35,11 +35,15 @@ export interface NormOutcome {
 }
 
 /** Verdicts a plain ('pass') study accepts: the order was reached, or the space reproduces u, or it converges faster. */
-export const ACCEPTABLE_FOR_PASS: readonly Verdict[] = ['on-order', 'exact', 'above-order'];
+export const ACCEPTABLE_FOR_PASS: readonly Verdict[] = ['on-order', 'exact'];
+
+/** A verdict that passes a plain study: on-order or exact, or above-order where the study declares it (a nodal or
+ *  superconvergent norm), the same rule as the study's own expectation check. */
+const passes = (a: SeriesAnalysis): boolean => ACCEPTABLE_FOR_PASS.includes(a.verdict) || (a.verdict === 'above-order' && a.allowed?.aboveOrder !== undefined);
 
 /**
  * Per-norm reading of a study's expectation, consistent with the study's own `asExpected` (which sets the exit status):
- * - 'pass': a norm is as expected when its verdict is on-order, exact or above-order;
+ * - 'pass': a norm is as expected when its verdict is on-order or exact, or above-order where the study allows it;
  * - 'exact': when it is exact;
  * - a declared flaw (below-order, above-order, inconclusive): when it shows the flaw or an acceptable verdict.
  * A study that is as expected has every norm as expected. A study that is not, yet has no norm failing the rules
@@ -51,10 +55,10 @@ export function normOutcomes(result: StudyResult): NormOutcome[] {
     const v = analysis.verdict;
     const fits =
       result.expectation.verdict === 'pass'
-        ? ACCEPTABLE_FOR_PASS.includes(v)
+        ? passes(analysis)
         : declared === 'exact'
           ? v === 'exact'
-          : v === declared || ACCEPTABLE_FOR_PASS.includes(v);
+          : v === declared || passes(analysis);
     const ok = result.asExpected || fits;
     return { norm: analysis.name, analysis, expectedVerdict: declared, asExpected: ok, problem: ok ? '' : `verdict ${v}, expected ${declared}` };
   });

@@ -2,7 +2,7 @@ import { accessSync, constants, mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import type { StudyResult } from '../study/result.ts';
-import { levelsCsv, summaryCsv } from './csv.ts';
+import { levelsCsv, quantitiesCsv, summaryCsv } from './csv.ts';
 import { htmlReport, type HtmlMeta } from './html.ts';
 import type { InputProblem } from './input-problem.ts';
 import { resultJson } from './json.ts';
@@ -84,6 +84,7 @@ export function writeReportFiles(
   results.forEach((r, i) => {
     const stem = names[i];
     if (formats.has('csv')) emit(`${stem}.csv`, () => levelsCsv(r));
+    if (formats.has('csv') && r.quantities?.length) emit(`${stem}-quantities.csv`, () => quantitiesCsv(r));
     if (formats.has('json')) emit(`${stem}.json`, () => resultJson(r));
     if (formats.has('md')) emit(`${stem}.md`, () => markdownTable(r));
     if (formats.has('tex')) emit(`${stem}.tex`, () => latexTable(r));

@@ -113,6 +113,10 @@ export interface StudyDeclaration {
   tolerance?: number;
   /** Number of finest levels in the fit (default 3). */
   fitWindow?: number;
+  /** Departures from the default verdict rules, per norm, each with the study's reason (quoted in the verdict):
+   *  `aboveOrder` accepts an order above the expected one (nodal values, superconvergent points, functionals);
+   *  `fewLevels` accepts a verdict from a fit over fewer than three levels, or a window floors cut short. */
+  allow?: { aboveOrder?: Record<string, string>; fewLevels?: Record<string, string> };
   /** A demonstration of a flaw declares the verdict it must produce, like an expected failure in a test suite. */
   expect?: { verdict: Verdict; flaw?: string };
   solver?: SolverDeclaration;

@@ -7,6 +7,8 @@ const fn = (what: string) => z.custom<(...a: never[]) => unknown>((v) => typeof 
 const coefficient = z.union([z.string().min(1), z.number().finite()], { message: 'expected a formula string such as "1 + x*y" or a finite number' });
 const positiveInt = z.number().int().positive();
 const verdicts = ['on-order', 'below-order', 'above-order', 'exact', 'inconclusive'] as const;
+/** Names whose report files would clobber the run's own (summary.csv, index.html, junit.xml) or folders beside them. */
+export const RESERVED_STUDY_NAME = /^(summary|index|junit)(\..*)?$/i;
 
 const domain = z.object({
   kind: z.enum(['interval', 'rectangle', 'lshape', 'custom']),
@@ -58,7 +60,10 @@ const ladder = z.object({
 });
 
 export const studySchema = z.object({
-  name: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected a name of letters, digits, ".", "_" or "-" (it names the report files)'),
+  name: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected a name of letters, digits, ".", "_" or "-" (it names the report files)')
+    .refine((n) => !RESERVED_STUDY_NAME.test(n), {
+      error: (iss) => `'${String(iss.input)}' is reserved: the run writes summary.csv, index.html and junit.xml beside the study files, so a study may not be named summary, index or junit (in any case, alone or before a '.'); choose another name, such as '${String(iss.input)}-tile'`,
+    }),
   description: z.string().optional(),
   domain,
   pde: pde.optional(),
@@ -75,9 +80,15 @@ export const studySchema = z.object({
   // Built-in norms, or (an external code's own errors) any name with the expected order the study declares.
   norms: z.array(z.string().regex(/^[A-Za-z][A-Za-z0-9_.-]*$/, 'expected a norm name of letters, digits, "_", "." or "-"')).min(1).optional(),
   quantities: quantityNamesSchema.optional(),
-  expected: z.record(z.string(), z.number().finite()).optional(),
+  expected: z.record(z.string(), z.number().finite().positive({
+    error: (iss) => `expected order ${String(iss.input)} is not valid: an expected order must be a positive number (errors fall like h^p with p > 0), e.g. expected: { L2: 2 }`,
+  })).optional(),
   tolerance: z.number().positive().optional(),
   fitWindow: z.number().int().min(2).optional(),
+  allow: z.object({
+    aboveOrder: z.record(z.string(), z.string().min(1, 'give the reason the study accepts it')).optional(),
+    fewLevels: z.record(z.string(), z.string().min(1, 'give the reason the study accepts it')).optional(),
+  }).strict().optional(),
   expect: z.object({ verdict: z.enum(verdicts), flaw: z.string().min(1).optional() }).strict().optional(),
   solver: z.object({
     method: z.enum(['auto', 'cg', 'gmres', 'bicgstab', 'direct']).optional(),
@@ -99,6 +110,11 @@ export const studySchema = z.object({
       ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: '${nm}' is the external code's own error norm, so give its expected order (expected: { ${nm}: 2 })` });
     }
   });
+  for (const rule of ['aboveOrder', 'fewLevels'] as const) {
+    for (const k of Object.keys(s.allow?.[rule] ?? {})) {
+      if (!(s.norms ?? ['L2', 'H1semi']).includes(k)) ctx.addIssue({ code: 'custom', path: ['allow', rule, k], message: `'${k}' is not one of the study's norms (${(s.norms ?? ['L2', 'H1semi']).join(', ')})` });
+    }
+  }
   const names = [...(s.norms ?? []), ...(s.quantities ?? []), ...NORM_NAMES];
   for (const k of Object.keys(s.expected ?? {})) {
     if (!names.includes(k)) ctx.addIssue({ code: 'custom', path: ['expected', k], message: `'${k}' is neither a norm (${NORM_NAMES.join(', ')}) nor a declared quantity` });

@@ -42,17 +42,19 @@ describe('analyseSeries verdicts', () => {
     const a = analyseSeries(series(h.map((x) => 0.3 * x), h));
     expect(a.verdict).toBe('below-order');
     expect(a.reasons[0]).toBe('fitted order 1.00 (95% CI 1.00–1.00) vs expected 2 ± 0.1');
-    expect(a.reasons[1]).toBe(
+    expect(a.reasons[1]).toBe('every pairwise rate in the fit window (1.00, 1.00) is below 2 − 0.1');
+    expect(a.reasons[2]).toBe(
       'rates are stable at 1.00 instead of 2: a consistent loss of order — typical of an inconsistent term ' +
         '(under-integration, wrong boundary data, wrong sign)',
     );
   });
 
-  it('rate 3 against expected 2 is above-order with the superconvergence reason', () => {
+  it('rate 3 against expected 2 is above-order; outside a global norm the reason names superconvergence', () => {
     const h = ladder(4);
     const a = analyseSeries(series(h.map((x) => 2 * x ** 3), h));
     expect(a.verdict).toBe('above-order');
-    expect(a.reasons[1]).toMatch(/^rates are stable at 3\.00 instead of 2: higher than expected/);
+    expect(a.reasons[1]).toBe('every pairwise rate in the fit window (3.00, 3.00) is above 2 + 0.1');
+    expect(a.reasons[2]).toMatch(/^rates are stable at 3\.00 instead of 2: higher than expected — superconvergence/);
   });
 
   it('fits in dofs when h is null (order = -d × slope)', () => {
@@ -95,12 +97,13 @@ describe('analyseSeries verdicts', () => {
       return { errors, h: ladder(errors.length) };
     };
     const stall = (list: string) =>
-      `rates fall away on the finest levels (${list}): the error stalls — look for a consistency error ` +
+      `rates fall away from 2 on the finest levels (${list}): the error stalls — look for a consistency error ` +
       '(quadrature, boundary data) or a solver floor';
-    it('are explained as a stall; over three levels the interval is too wide to decide', () => {
+    it('are below-order over three levels, however wide the interval (every rate in the window is below the band)', () => {
       const { errors, h } = build([2, 2, 2, 1.6, 1.1]);
       const a = analyseSeries(series(errors, h));
-      expect(a.verdict).toBe('inconclusive');
+      expect((a.fit!.ciHigh - a.fit!.ciLow) / 2).toBeGreaterThan(CI_WIDTH_FACTOR * 0.1);
+      expect(a.verdict).toBe('below-order');
       expect(a.reasons).toContain(stall('2.00, 1.60, 1.10'));
     });
     it('are below-order when the wide interval lies wholly below the band', () => {
@@ -108,7 +111,7 @@ describe('analyseSeries verdicts', () => {
       const a = analyseSeries(series(errors, h, { fitWindow: 4 }));
       expect(a.fit!.ciHigh).toBeLessThan(1.9);
       expect(a.verdict).toBe('below-order');
-      expect(a.reasons[1]).toBe(stall('2.00, 1.60, 1.10, 0.60'));
+      expect(a.reasons).toContain(stall('2.00, 1.60, 1.10, 0.60'));
     });
   });
 
@@ -122,10 +125,11 @@ describe('analyseSeries verdicts', () => {
     expect(a.fit!.levels).toEqual([3, 4, 5]);
     expect(a.verdict).toBe('on-order');
     expect(a.reasons[a.reasons.length - 1]).toBe('floor: solver tolerance from level 7 (levels 7–8 left out of the fit)');
-    // The same errors without the hint stall on the finest levels and the fit cannot decide.
+    // The same errors without the hint stop at a constant on the finest levels: below-order, said in words.
     const blind = analyseSeries(series(errors, h));
     expect(blind.verdict).not.toBe('on-order');
-    expect(blind.reasons.some((r) => r.startsWith('rates fall away on the finest levels'))).toBe(true);
+    expect(blind.verdict).toBe('below-order');
+    expect(blind.reasons.some((r) => r.startsWith('the errors stop at a constant (rates 1.12, 0.22)'))).toBe(true);
   });
 
   it('leaves a round-off floor out of the fit and warns, naming the level', () => {
@@ -154,13 +158,14 @@ describe('analyseSeries verdicts', () => {
     expect(a.rates).toEqual([null, null, null]);
   });
 
-  it('two levels: the verdict follows the single rate with a "too few levels" reason', () => {
+  it('two levels are inconclusive with a "too few levels" reason, even at the exact order', () => {
     const a = analyseSeries(series([1e-2, 2.5e-3], [0.1, 0.05]));
-    expect(a.verdict).toBe('on-order');
+    expect(a.verdict).toBe('inconclusive');
     expect(a.fit!.stderr).toBeNaN();
     expect(a.reasons).toEqual([
+      'too few levels: 2 usable, need 3 for a verdict (two levels give one rate and no confidence interval); ' +
+        'add levels, or declare allow.fewLevels for tile-L2 with the reason',
       'fitted order 2.00 (two levels, no confidence interval) vs expected 2 ± 0.1',
-      'too few levels: 2 usable, need 3 for a confidence interval',
     ]);
   });
 
@@ -168,7 +173,8 @@ describe('analyseSeries verdicts', () => {
     const h = ladder(4);
     const a = analyseSeries(series(h.map((x) => x * x), h, { fitWindow: 2 }));
     expect(a.fit!.levels).toEqual([2, 3]);
-    expect(a.reasons[1]).toBe('too few levels in the fit window: 2, need 3 for a confidence interval (raise fitWindow)');
+    expect(a.verdict).toBe('inconclusive');
+    expect(a.reasons[0]).toBe('too few levels in the fit window: 2, need 3 for a verdict (raise fitWindow)');
   });
 
   it('an isolated zero error on a coarse level is left out with a warning, not taken as a floor', () => {
@@ -179,6 +185,7 @@ describe('analyseSeries verdicts', () => {
     expect(a.fit!.levels).toEqual([1, 2, 3, 4]);
     expect(a.warnings).toEqual(['level 1 looks like a round-off floor but finer levels do not; left out of the fit']);
     expect(a.verdict).toBe('on-order');
+    expect(a.reasons).toContain('the fit window holds 4 of the 5 levels the study asks for: the rest are left out as floors');
   });
 
   it('one usable level is inconclusive', () => {
@@ -195,7 +202,7 @@ describe('analyseSeries verdicts', () => {
     const half = (a.fit!.ciHigh - a.fit!.ciLow) / 2;
     expect(half).toBeGreaterThan(CI_WIDTH_FACTOR * 0.1);
     expect(a.verdict).toBe('inconclusive');
-    expect(a.reasons[0]).toMatch(/^confidence interval wider than the tolerance: half-width \d+\.\d\d > 3 × 0\.1/);
+    expect(a.reasons[0]).toMatch(/^confidence interval wider than the tolerance: half-width \d+\.\d\d > 3 × 0\.1 and the rates in the fit window \(1\.32, 3\.42, 0\.68\) lie on both sides of 2/);
     expect(a.reasons[1]).toMatch(/^fitted order /);
   });
 

@@ -32,6 +32,22 @@ describe('parseCsvTable', () => {
   it('rejects duplicate and empty column names, and an empty file', () => {
     expect(() => parseCsvTable('h,L2,L2\n', 't.csv')).toThrow("t.csv line 1: column name 'L2' appears twice (columns 2 and 3)");
     expect(() => parseCsvTable('h,,L2\n', 't.csv')).toThrow('t.csv line 1: column 2 of the header has no name');
-    expect(() => parseCsvTable('\n\n', 't.csv')).toThrow('t.csv: the file is empty');
+    expect(() => parseCsvTable('\n\n', 't.csv')).toThrow('t.csv line 3: the file is empty');
+  });
+});
+
+describe('numbers and truncation', () => {
+  it('parseDecimal takes plain decimal numbers only (no forms only JavaScript accepts)', async () => {
+    const { parseDecimal, parseDigits } = await import('../../src/csv/read.ts');
+    expect(['0.125', '-3', '+2.5e-4', '.5', '5.', '1E3'].map(parseDecimal)).toEqual([0.125, -3, 2.5e-4, 0.5, 5, 1000]);
+    expect(['0x10', '0b1', '0o7', 'Infinity', '-Infinity', 'NaN', '1_000', '', ' 1', '1e999', '1e', '.', '+-1'].map(parseDecimal))
+      .toEqual(new Array(13).fill(null));
+    expect(['12', '012', '12.0', '1e1', '+12', '-1'].map(parseDigits)).toEqual([12, 12, null, null, null, null]);
+  });
+  it('a table must end with a line break: a last row cut inside its last number is refused', () => {
+    expect(() => parseCsvTable('h,L2\n0.5,1\n0.25,0.12', 't.csv'))
+      .toThrow('t.csv line 3: the file does not end with a line break, so its last record (line 3) may be cut off');
+    expect(parseCsvTable('h,L2\r\n0.5,1\r\n', 't.csv').rows).toHaveLength(1);
+    expect(parseCsvTable('h,L2\n0.5,1', 't.csv', { finalLineBreak: false }).rows).toHaveLength(1);
   });
 });

@@ -14,7 +14,7 @@ describe('errors.json', () => {
   });
 
   it.each([
-    ['{ "h": 0.1, "errors": { "L2": 1 } }', /^study 'tile-ext' level 2 \(n = 8\): out\/level-2\/errors\.json: dofs: expected the number of unknowns/],
+    ['{ "h": 0.1, "errors": { "L2": 1 } }', /^study 'tile-ext' level 2 \(n = 8\): out\/level-2\/errors\.json line 1: dofs: expected the number of unknowns/],
     ['{ "dofs": 10.5, "errors": {} }', /: dofs: expected an integer/],
     ['{ "dofs": 10, "errors": { "L2": -1 } }', /: errors\.L2: errors must be ≥ 0/],
     ['{ "dofs": 10, "errors": { "L2": "small" } }', /: errors\.L2: expected a number/],
@@ -31,7 +31,7 @@ describe('errors.json', () => {
 
   it('names the missing norm and what the file holds', () => {
     expect(() => parseErrorsJson('{ "dofs": 9, "errors": { "L2": 0.1 } }', file, { level, require: ['L2', 'H1semi'] }))
-      .toThrow(`${at}: no error 'H1semi'; the file has 'L2' and the study measures L2, H1semi`);
+      .toThrow(`${at} line 1: no error 'H1semi'; the file has 'L2' and the study measures L2, H1semi`);
   });
 });
 

@@ -14,7 +14,7 @@ import { formatStudyTable } from '../../src/report/terminal.ts';
 // Errors that follow e = C h^p exactly: the log-log least-squares slope is p exactly (a line fits itself; algebra).
 const hs = [0.2, 0.1, 0.05, 0.025];
 const powerTable = (rows: number[] = [0, 1, 2, 3]) =>
-  ['h,dofs,L2,H1semi,note', ...rows.map((i) => `${hs[i]},${Math.round(1 / hs[i]! ** 2)},${0.5 * hs[i]! ** 2},${0.8 * hs[i]!},"run ${i}, ok"`)].join('\r\n');
+  ['h,dofs,L2,H1semi,note', ...rows.map((i) => `${hs[i]},${Math.round(1 / hs[i]! ** 2)},${0.5 * hs[i]! ** 2},${0.8 * hs[i]!},"run ${i}, ok"`)].join('\r\n') + '\r\n';
 
 describe('fitTable: error columns', () => {
   it('fits every numeric column by default and gives on-order verdicts with per-column expectations', () => {

@@ -23,4 +23,6 @@ export interface VtkGrid {
   /** Line of each cell type entry, for messages. */
   typeLines: Int32Array;
   pointData: VtkPointArray[];
+  /** Line the file ends on, for messages about something missing. */
+  endLine: number;
 }

@@ -4,10 +4,16 @@
 // LOOKUP_TABLE), VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS and FIELD arrays). Both cell layouts
 // are read: "CELLS n size" followed by "k i0 … ik-1" per cell (versions up to 4.2), and "CELLS nOffsets nConn" followed
 // by OFFSETS and CONNECTIVITY arrays (version 5.1).
+// Truncation is found by structure: every declared count must be met before the next keyword or the end of the file,
+// each count must fit in what is left of the file before anything is allocated, and the file must end with a line
+// break (every VTK writer ends its last line), so a file cut inside its last number ("0.12345" cut to "0.12") is
+// refused. A file cut exactly at the end of a complete optional section (a second SCALARS array, CELL_DATA) cannot be
+// told from a shorter file; the reader then returns what that shorter file holds.
 import { placeOf, type LevelRef } from '../where.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { VtkGrid, VtkPointArray } from './grid.ts';
 import { readNumbers, TokenCursor } from './number-reader.ts';
+import { parseDigits } from '../../csv/read.ts';
 
 const ATTRIBUTE_KEYWORDS = 'POINTS, CELLS, CELL_TYPES, POINT_DATA, CELL_DATA, SCALARS, LOOKUP_TABLE, VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS, FIELD, METADATA';
 
@@ -23,7 +29,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
     headerEnd.push(p);
   }
   const line1 = text.slice(0, headerEnd[0]).replace(/^\uFEFF/, '').trim();
-  if (!/^#\s*vtk\s+DataFile\s+Version\s+\d+(\.\d+)?/i.test(line1)) {
+  if (!/^#\s*vtk\s+DataFile\s+Version\s+\d+(\.\d+)?\s*$/i.test(line1)) {
     fail(1, `not a legacy VTK file: the first line is "${line1.slice(0, 60)}", expected "# vtk DataFile Version x.y"`);
   }
   const format = text.slice(headerEnd[1]! + 1, headerEnd[2]).trim().toUpperCase();
@@ -50,12 +56,18 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
     return sectionCount;
   };
   const skipValues = (count: number, what: string): void => {
+    cur.room(count, what, cur.tokLine);
     readNumbers(cur, count, { what, declaredAt: cur.tokLine, item: 'value' }, new Float64Array(count), false);
   };
 
+  const seenAt = new Map<string, number>();
   while (cur.next()) {
     const keyword = cur.tok.toUpperCase();
     const at = cur.tokLine;
+    if (keyword === 'POINTS' || keyword === 'CELLS' || keyword === 'CELL_TYPES' || keyword === 'POINT_DATA' || keyword === 'CELL_DATA') {
+      if (seenAt.has(keyword)) cur.fail(`${keyword} appears a second time (first at line ${seenAt.get(keyword)}); an unstructured grid has one`);
+      seenAt.set(keyword, at);
+    }
     switch (keyword) {
       case 'DATASET': {
         const kind = cur.need('the dataset type').toUpperCase();
@@ -67,6 +79,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
         if (!dataset) cur.fail('POINTS before DATASET UNSTRUCTURED_GRID');
         nPoints = cur.count('the number of POINTS');
         cur.need('the data type of POINTS');
+        cur.room(nPoints * 3, `POINTS ${nPoints}`, at);
         points = new Float64Array(nPoints * 3);
         readNumbers(cur, nPoints * 3, { what: `coordinates of POINTS ${nPoints}`, declaredAt: at, item: 'coordinate' }, points, false);
         break;
@@ -78,6 +91,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
         if (cur.peek()?.toUpperCase() === 'OFFSETS') {
           // Version 5.1: CELLS nOffsets nConnectivity, OFFSETS type, values, CONNECTIVITY type, values.
           cur.next(); cur.need('the data type of OFFSETS');
+          cur.room(first + second, `CELLS ${first} ${second} (OFFSETS and CONNECTIVITY)`, at);
           nCells = Math.max(first - 1, 0);
           offsets = new Int32Array(first);
           readNumbers(cur, first, { what: `OFFSETS of CELLS ${first} ${second}`, declaredAt: at, item: 'offset' }, offsets, true);
@@ -95,6 +109,8 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
           }
         } else {
           nCells = first;
+          cur.room(second, `CELLS ${first} ${second}`, at);
+          if (first > second) fail(at, `CELLS ${first} ${second} declares more cells than integers; each cell needs its node count and its nodes`);
           offsets = new Int32Array(nCells + 1);
           connectivity = new Int32Array(Math.max(second - nCells, 0));
           connectivityLines = new Int32Array(connectivity.length);
@@ -103,8 +119,8 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
             if (!cur.next()) {
               cur.fail(`the file ends after ${c} of the ${nCells} cells of CELLS (declared at line ${at}): the file is truncated or the declared count does not match the data`, cur.line);
             }
-            const k = Number(cur.tok);
-            if (!Number.isInteger(k) || k < 0) {
+            const k = parseDigits(cur.tok) ?? -1;
+            if (k < 0) {
               cur.fail(`cell ${c + 1} of CELLS (declared at line ${at}) should start with its node count, found '${cur.tok}'` +
                 (/^[A-Za-z_]/.test(cur.tok) ? ': the count in the file does not match the declared count' : ''));
             }
@@ -119,6 +135,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
       }
       case 'CELL_TYPES': {
         typesCount = cur.count('the number of CELL_TYPES');
+        cur.room(typesCount, `CELL_TYPES ${typesCount}`, at);
         types = new Int32Array(typesCount);
         typeLines = new Int32Array(typesCount);
         readNumbers(cur, typesCount, { what: `entries of CELL_TYPES ${typesCount}`, declaredAt: at, item: 'cell type' }, types, true, 0, typeLines);
@@ -145,6 +162,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
         if (maybe !== null && /^\d+$/.test(maybe)) { cur.next(); components = Number(maybe); }
         if (components < 1 || components > 4) cur.fail(`SCALARS ${name} has ${components} components; VTK allows 1 to 4`);
         if (cur.peek()?.toUpperCase() === 'LOOKUP_TABLE') { cur.next(); cur.need('the LOOKUP_TABLE name'); }
+        cur.room(count * components, `SCALARS ${name}`, at);
         const values = new Float64Array(count * components);
         readNumbers(cur, count * components, { what: `values of SCALARS ${name}`, declaredAt: at, item: 'value' }, values, false);
         if (section === 'point') pointData.push({ name, components, values, line: at });
@@ -193,6 +211,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
           const components = cur.count(`the component count of FIELD array ${name}`);
           const tuples = cur.count(`the tuple count of FIELD array ${name}`);
           cur.need(`the data type of FIELD array ${name}`);
+          cur.room(components * tuples, `FIELD array ${name}`, arrayLine);
           const values = new Float64Array(components * tuples);
           readNumbers(cur, components * tuples, { what: `values of FIELD array ${name}`, declaredAt: arrayLine, item: 'value' }, values, false);
           if (section === 'point') {
@@ -216,5 +235,16 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
   if (nCells < 0) fail(endLine, 'no CELLS section in the file (truncated file?)');
   if (typesCount < 0) fail(endLine, 'no CELL_TYPES section in the file (truncated file?)');
   if (typesCount !== nCells) fail(typeLines[0] ?? endLine, `CELL_TYPES ${typesCount} does not match the ${nCells} cells of CELLS`);
-  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData };
+  for (const a of pointData) {
+    if (a.values.length !== nPoints * a.components) {
+      fail(a.line, `point data '${a.name}' holds ${a.values.length / a.components} tuples, but POINTS declares ${nPoints}; give one per point`);
+    }
+  }
+  // Every writer ends the file with a line break; without it the last number may have been cut short.
+  const tail = text.replace(/[ \t]+$/, '');
+  if (!tail.endsWith('\n') && !tail.endsWith('\r')) {
+    fail(endLine, `the file does not end with a line break, so its last line may be cut off (truncated file?): '${cur.tok.slice(0, 40)}' ` +
+      'may be part of a longer number; a complete legacy VTK file ends with a line break');
+  }
+  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine };
 }

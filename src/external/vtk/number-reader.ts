@@ -1,5 +1,10 @@
 import { RungsInputError } from '../../errors.ts';
+import { DECIMAL_FORMS, parseDecimal, parseDigits } from '../../csv/read.ts';
 import { placeOf, type LevelRef } from '../where.ts';
+
+/** No count or block in a VTK file may exceed this many entries: the largest Int32Array index, which rungs's meshes
+ *  use (a tighter limit usually comes from the file's size, see TokenCursor.room). */
+export const MAX_ENTRIES = 0x7fffffff;
 
 /**
  * Whitespace-separated tokens of a text with their line numbers, for the ASCII parts of VTK files.
@@ -20,7 +25,7 @@ export class TokenCursor {
     readonly ref: LevelRef | undefined,
     start = 0,
     startLine = 1,
-    private readonly end = text.length,
+    readonly end = text.length,
   ) {
     this.pos = start;
     this.line = startLine;
@@ -68,12 +73,32 @@ export class TokenCursor {
     return this.tok;
   }
 
-  /** A non-negative integer token (a count or an index). */
+  /** A non-negative integer token (a count), written with digits only and at most MAX_ENTRIES. */
   count(what: string): number {
     const tok = this.need(what);
-    const v = Number(tok);
-    if (!Number.isInteger(v) || v < 0) this.fail(`${what} must be a non-negative integer, found '${tok}'`);
-    return v;
+    const v = parseDigits(tok);
+    if (v === null) this.fail(`${what} must be a non-negative integer written with digits, found '${tok.slice(0, 40)}'`);
+    if (v! > MAX_ENTRIES) this.fail(`${what} is ${tok}, more than the limit of ${MAX_ENTRIES} entries`);
+    return v!;
+  }
+
+  /**
+   * Checks, before anything is allocated, that `values` numbers can follow: at most MAX_ENTRIES, and no more than the
+   * rest of the range can hold (each number takes at least one character and all but the last a separator).
+   */
+  room(values: number, what: string, declaredAt: number): void {
+    if (values > MAX_ENTRIES) {
+      this.fail(`${what} (line ${declaredAt}) needs ${values} values, more than the limit of ${MAX_ENTRIES} entries`, declaredAt);
+    }
+    const left = this.end - this.pos;
+    const fits = Math.floor((left + 1) / 2);
+    if (values > fits) {
+      this.fail(
+        `${what} (line ${declaredAt}) needs ${values} values, but the ${left} characters after it can hold at most ${fits}: ` +
+          'the declared count is wrong or the file is truncated',
+        declaredAt,
+      );
+    }
   }
 
   /** Skips to just after the next blank line (ends a METADATA block of legacy files). */
@@ -120,18 +145,23 @@ export function readNumbers(
       );
     }
     const tok = cur.tok;
-    const v = Number(tok);
-    if (!Number.isFinite(v) || tok === '') {
+    const v = integers && /^-?\d+$/.test(tok) ? Number(tok) : parseDecimal(tok);
+    if (v === null) {
       if (looksLikeKeyword(tok)) {
         cur.fail(
-          `found '${tok}' after ${k} of the ${count} ${block.what} (declared at line ${block.declaredAt}): ` +
+          `found '${tok.slice(0, 40)}' after ${k} of the ${count} ${block.what} (declared at line ${block.declaredAt}): ` +
             'the count in the file does not match the declared count',
         );
       }
-      cur.fail(`${block.item} ${k + 1} of ${block.what} is '${tok}', not a finite number`);
+      cur.fail(`${block.item} ${k + 1} of ${block.what} is '${tok.slice(0, 40)}', not a finite number; expected ${integers ? 'an integer written with digits' : DECIMAL_FORMS}`);
     }
-    if (integers && !Number.isInteger(v)) cur.fail(`${block.item} ${k + 1} of ${block.what} is '${tok}', not an integer`);
-    into[offset + k] = v;
+    if (integers) {
+      if (!/^-?\d+$/.test(tok)) cur.fail(`${block.item} ${k + 1} of ${block.what} is '${tok.slice(0, 40)}', not an integer written with digits`);
+      if (v! > MAX_ENTRIES || v! < -MAX_ENTRIES) {
+        cur.fail(`${block.item} ${k + 1} of ${block.what} is ${tok.slice(0, 40)}, beyond the largest index rungs reads (${MAX_ENTRIES})`);
+      }
+    }
+    into[offset + k] = v!;
     if (lines) lines[offset + k] = cur.tokLine;
   }
 }

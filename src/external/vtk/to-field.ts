@@ -15,6 +15,7 @@ import { tetrahedronBoundaryFacets } from '../tetra-facets.ts';
 import { placeOf, type LevelRef } from '../where.ts';
 import { SUPPORTED_CELL_TYPES_TEXT, VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './cell-types.ts';
 import type { VtkGrid } from './grid.ts';
+import { findOverlap } from './overlap.ts';
 
 /** A mid-edge node may sit this fraction of its cell's size away from the edge midpoint (ASCII round-off),
  *  far below the half-edge offset a wrong node order produces (common practice, no source). */
@@ -58,7 +59,7 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   const fail = (message: string, line?: number): never => {
     throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
   };
-  if (grid.nCells === 0) fail('the grid has no cells');
+  if (grid.nCells === 0) fail('the grid has no cells', grid.endLine);
 
   const type = VTK_CELL_TYPES[grid.types[0]!];
   if (!type) {
@@ -137,9 +138,27 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
     for (let i = 0; i < nc; i++) cells[c * nc + i] = compact[connectivity[o + (flip ? FLIP[t.cellKind]![i]! : i)]!]!;
   }
   const where = placeOf(ref, file);
-  const mesh = t.cellKind === 'tetrahedron'
-    ? meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * 3), cells, facets: tetrahedronBoundaryFacets(nVertices, coords, cells) }, where)
-    : meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * dim), cells }, where);
+  const pointOfVertex = new Int32Array(nVertices);
+  for (let p = 0; p < nPoints; p++) if (role[p] === 1) pointOfVertex[compact[p]!] = p;
+  let mesh: Mesh;
+  try {
+    mesh = t.cellKind === 'tetrahedron'
+      ? meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * 3), cells, facets: tetrahedronBoundaryFacets(nVertices, coords, cells) }, where)
+      : meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * dim), cells }, where);
+  } catch (err) {
+    // src/mesh counts cells and vertices from 0 in its own numbering: say it in the file's terms, with the cell's line.
+    if (!(err instanceof RungsInputError) || !err.message.startsWith(`${where}: `)) throw err;
+    const rest = err.message.slice(where.length + 2);
+    const hit = /\bcell (\d+)\b/.exec(rest);
+    const c = hit ? Number(hit[1]) : -1;
+    const text = rest
+      .replace(/\bcell (\d+)\b/, (_m, k: string) => `cell ${Number(k) + 1}`)
+      .replace(/with vertices \[([\d, ]+)\]/, (_m, list: string) => `with points [${list.split(', ').map((v) => pointOfVertex[Number(v)]).join(', ')}]`);
+    return fail(text, c >= 0 && c < grid.nCells ? lines[offsets[c]!] ?? grid.typeLines[c] : grid.typeLines[0]);
+  }
+  // Cells were turned positive one by one above, so a fold would pass the inverted-cell check: look for it here.
+  const overlap = findOverlap(t.cellKind, mesh.coords, dim, nVertices, cells, (v) => pointOfVertex[v]!);
+  if (overlap) fail(overlap.message, lines[offsets[overlap.cell]!] ?? grid.typeLines[overlap.cell]);
 
   const element = lagrangeElement(t.cellKind, t.degree);
   const local = localNodeMaps(t);
@@ -163,13 +182,15 @@ function pickArray(grid: VtkGrid, wanted: string | undefined, fail: Fail): { nam
   const scalars = grid.pointData.filter((a) => a.components === 1);
   const list = grid.pointData.map((a) => `'${a.name}'${a.components > 1 ? ` (${a.components} components)` : ''}`).join(', ') || 'none';
   let chosen;
+  // Where the point arrays start (or the end of the file when there are none), for messages about a missing one.
+  const at = grid.pointData[0]?.line ?? grid.endLine;
   if (wanted !== undefined) {
     chosen = grid.pointData.find((a) => a.name === wanted);
-    if (!chosen) fail(`no point data named '${wanted}'; the file has ${list}`);
+    if (!chosen) fail(`no point data named '${wanted}'; the file has ${list}`, at);
     if (chosen!.components !== 1) fail(`point data '${wanted}' has ${chosen!.components} components; rungs needs a scalar (1 component)`, chosen!.line);
   } else {
-    if (scalars.length === 0) fail(`no scalar point data (POINT_DATA SCALARS or a one-component PointData DataArray) holds the solution; the file has ${list}`);
-    if (scalars.length > 1) fail(`several scalar point arrays (${list}); choose the solution with field: '<name>'`);
+    if (scalars.length === 0) fail(`no scalar point data (POINT_DATA SCALARS or a one-component PointData DataArray) holds the solution; the file has ${list}`, at);
+    if (scalars.length > 1) fail(`several scalar point arrays (${list}); choose the solution with field: '<name>'`, scalars[1]!.line);
     chosen = scalars[0];
   }
   return { name: chosen!.name, values: chosen!.values };

@@ -2,10 +2,14 @@
 // <VTKFile type="UnstructuredGrid"> <UnstructuredGrid> <Piece NumberOfPoints NumberOfCells> with <Points> (one
 // 3-component DataArray), <Cells> (DataArrays named connectivity, offsets — the END of each cell's connectivity —
 // and types) and <PointData> / <CellData>). Binary (base64) and appended data are rejected with a clear message.
+// Truncation is found by structure: the XML must close its root element (xml.ts), and every DataArray must hold
+// exactly the number of values its declared counts give. Counts are checked against the characters of their
+// DataArray and a hard limit before anything is allocated.
 import { RungsInputError } from '../../errors.ts';
-import { placeOf, type LevelRef } from '../where.ts';
+import { lineAt, placeOf, type LevelRef } from '../where.ts';
 import type { VtkGrid, VtkPointArray } from './grid.ts';
-import { readNumbers, TokenCursor } from './number-reader.ts';
+import { MAX_ENTRIES, readNumbers, TokenCursor } from './number-reader.ts';
+import { parseDigits } from '../../csv/read.ts';
 import { childrenNamed, parseXml, type XmlElement } from './xml.ts';
 
 /** Parses a .vtu file with ASCII data; every problem names the level, the file and the line. */
@@ -27,8 +31,9 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
 
   const pointsEl = one(piece, 'Points', fail);
   const pointsArray = one(pointsEl, 'DataArray', fail);
-  const components = Number(pointsArray.attrs.NumberOfComponents ?? '1');
-  if (components !== 3) fail(pointsArray.line, `the Points DataArray has NumberOfComponents="${pointsArray.attrs.NumberOfComponents ?? ''}"; VTK points have 3`);
+  const components = pointsArray.attrs.NumberOfComponents ?? '1';
+  if (components !== '3') fail(pointsArray.line, `the Points DataArray has NumberOfComponents="${pointsArray.attrs.NumberOfComponents ?? ''}"; VTK points have 3`);
+  room(pointsArray, nPoints * 3, `coordinates of NumberOfPoints="${nPoints}"`, fail);
   const points = new Float64Array(nPoints * 3);
   readArray(text, file, ref, pointsArray, nPoints * 3, points, false, `coordinates of NumberOfPoints="${nPoints}"`, fail);
 
@@ -39,6 +44,7 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
     return el!;
   };
   const offsetsEl = byName('offsets');
+  room(offsetsEl, nCells, `offsets of NumberOfCells="${nCells}"`, fail);
   const ends = new Int32Array(nCells);
   readArray(text, file, ref, offsetsEl, nCells, ends, true, `offsets of NumberOfCells="${nCells}"`, fail);
   const offsets = new Int32Array(nCells + 1);
@@ -48,10 +54,12 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
   }
   const connEl = byName('connectivity');
   const total = offsets[nCells]!;
+  room(connEl, total, `connectivity entries the offsets declare (last offset ${total})`, fail);
   const connectivity = new Int32Array(total);
   const connectivityLines = new Int32Array(total);
   readArray(text, file, ref, connEl, total, connectivity, true, `connectivity entries the offsets declare (last offset ${total})`, fail, connectivityLines);
   const typesEl = byName('types');
+  room(typesEl, nCells, `types of NumberOfCells="${nCells}"`, fail);
   const types = new Int32Array(nCells);
   const typeLines = new Int32Array(nCells);
   readArray(text, file, ref, typesEl, nCells, types, true, `types of NumberOfCells="${nCells}"`, fail, typeLines);
@@ -61,14 +69,15 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
     for (const da of childrenNamed(pd, 'DataArray')) {
       const name = da.attrs.Name ?? '';
       if (name === '') fail(da.line, 'a PointData DataArray has no Name attribute');
-      const comps = Number(da.attrs.NumberOfComponents ?? '1');
-      if (!Number.isInteger(comps) || comps < 1) fail(da.line, `DataArray "${name}" has NumberOfComponents="${da.attrs.NumberOfComponents}"`);
+      const comps = parseDigits(da.attrs.NumberOfComponents ?? '1') ?? 0;
+      if (comps < 1 || comps > 64) fail(da.line, `DataArray "${name}" has NumberOfComponents="${da.attrs.NumberOfComponents}"; expected an integer from 1 to 64 written with digits`);
+      room(da, nPoints * comps, `values of point data "${name}"`, fail);
       const values = new Float64Array(nPoints * comps);
       readArray(text, file, ref, da, nPoints * comps, values, false, `values of point data "${name}" (${comps} per point, NumberOfPoints="${nPoints}")`, fail);
       pointData.push({ name, components: comps, values, line: da.line });
     }
   }
-  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData };
+  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine: lineAt(text, text.length) };
 }
 
 type Fail = (line: number, message: string) => never;
@@ -81,9 +90,23 @@ function one(parent: XmlElement, name: string, fail: Fail): XmlElement {
 
 function countAttr(el: XmlElement, name: string, fail: Fail): number {
   const raw = el.attrs[name];
-  const v = Number(raw);
-  if (raw === undefined || !Number.isInteger(v) || v < 0) fail(el.line, `<${el.name}> needs ${name}="…" as a non-negative integer, found "${raw ?? ''}"`);
-  return v;
+  const v = raw === undefined ? null : parseDigits(raw);
+  if (v === null) fail(el.line, `<${el.name}> needs ${name}="…" as a non-negative integer written with digits, found "${(raw ?? '').slice(0, 40)}"`);
+  if (v! > MAX_ENTRIES) fail(el.line, `${name}="${raw}" is more than the limit of ${MAX_ENTRIES} entries`);
+  return v!;
+}
+
+/** Before allocating: `count` values need at most MAX_ENTRIES and at least 2·count − 1 characters of the DataArray. */
+function room(el: XmlElement, count: number, what: string, fail: Fail): void {
+  const name = el.attrs.Name ? ` "${el.attrs.Name}"` : '';
+  checkAscii(el, fail);
+  if (count > MAX_ENTRIES) fail(el.line, `DataArray${name} would need ${count} ${what}, more than the limit of ${MAX_ENTRIES} entries`);
+  const chars = el.textEnd - el.textStart;
+  const fits = Math.floor((chars + 1) / 2);
+  if (count > fits) {
+    fail(el.line, `DataArray${name} would need ${count} ${what}, but its ${chars} characters can hold at most ${fits}: ` +
+      'a declared count is wrong or the file is damaged');
+  }
 }
 
 /** Reads exactly `count` numbers from an ASCII DataArray; more or fewer than declared is an error. */
@@ -91,14 +114,19 @@ function readArray(
   text: string, file: string, ref: LevelRef | undefined, el: XmlElement, count: number, into: Float64Array | Int32Array,
   integers: boolean, what: string, fail: Fail, lines?: Int32Array,
 ): void {
+  const name = el.attrs.Name ? ` "${el.attrs.Name}"` : '';
+  checkAscii(el, fail);
+  const cur = new TokenCursor(text, file, ref, el.textStart, el.textLine, el.textEnd);
+  cur.endWhat = `the DataArray${name} ends`;
+  readNumbers(cur, count, { what, declaredAt: el.line, item: 'value' }, into, integers, 0, lines);
+  if (cur.next()) cur.fail(`DataArray${name} (line ${el.line}) holds more values than the ${count} ${what}: the counts do not match`);
+}
+
+function checkAscii(el: XmlElement, fail: Fail): void {
   const format = el.attrs.format ?? 'ascii';
   const name = el.attrs.Name ? ` "${el.attrs.Name}"` : '';
   if (format !== 'ascii') {
     fail(el.line, `DataArray${name} has format="${format}"; rungs reads ASCII DataArrays only — write the file with format="ascii" ` +
       '(for example vtkXMLWriter::SetDataModeToAscii)');
   }
-  const cur = new TokenCursor(text, file, ref, el.textStart, el.textLine, el.textEnd);
-  cur.endWhat = `the DataArray${name} ends`;
-  readNumbers(cur, count, { what, declaredAt: el.line, item: 'value' }, into, integers, 0, lines);
-  if (cur.next()) cur.fail(`DataArray${name} (line ${el.line}) holds more values than the ${count} ${what}: the counts do not match`);
 }
