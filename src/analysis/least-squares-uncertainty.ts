@@ -302,7 +302,8 @@ export function leastSquaresUncertainty(h: readonly number[], values: readonly n
   }
   const y = [...values];
   const warnings: string[] = [];
-  const max = Math.max(...y), min = Math.min(...y);
+  // reduce, not Math.max(...y): spreading a long column overflows the call stack.
+  const max = y.reduce((a, b) => Math.max(a, b), -Infinity), min = y.reduce((a, b) => Math.min(a, b), Infinity);
   const maxDifference = max - min;
   const dataRange = maxDifference / (n - 1);
 

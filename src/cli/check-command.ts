@@ -1,7 +1,8 @@
-import { existsSync, writeFileSync } from 'node:fs';
-import { executeStudies } from './execute.ts';
+import { existsSync } from 'node:fs';
+import { beginRun, executeStudies, interruptStatus } from './execute.ts';
+import { interruptionText } from './run-command.ts';
 import { formatStudyTable } from '../report/terminal.ts';
-import { writeReports } from '../report/write.ts';
+import { writeFileAtomic, writeReports } from '../report/write.ts';
 import { junitXml } from '../report/junit.ts';
 import { compareAll, makeBaseline, readBaseline, writeBaseline, type Baseline, type BaselineFinding } from '../gate/baseline.ts';
 import { studyFacts } from '../gate/facts.ts';
@@ -30,7 +31,6 @@ const complain = (line: string) => process.stderr.write(line + '\n');
  * errors and failures always say what the exit status says.
  */
 export async function checkCommand(paths: string[], flags: CheckFlags): Promise<number> {
-  const color = useColor(process.stdout);
   const runErrors: RunError[] = [];
   const runError = (name: string, message: string) => { runErrors.push({ name, message }); complain(`error: ${message}`); };
 
@@ -46,13 +46,41 @@ export async function checkCommand(paths: string[], flags: CheckFlags): Promise<
       runError('baseline file', err.message);
     }
   }
-  const { results, problems } = await executeStudies(paths, {
-    out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true,
+  // The output folder's lock (another run into it: bad input, exit 2) and SIGINT / SIGTERM (exit 130 / 143, the
+  // reports of what finished written and marked incomplete, no baseline written).
+  const start = beginRun(flags.out, `rungs check ${paths.join(' ')}`.trim(), true);
+  if (!start.ok) {
+    runError('output folder', start.message);
+    return finish({ results: [], problems: [], findings: [], runErrors }, flags, runError);
+  }
+  const { run } = start;
+  try {
+    for (const note of run.notes) complain(note);
+    return await checkRun(paths, flags, runErrors, runError, baseline, run);
+  } finally {
+    await run.end();
+  }
+}
+
+async function checkRun(
+  paths: string[], flags: CheckFlags, runErrors: RunError[], runError: (name: string, message: string) => void,
+  baseline: Baseline | undefined, run: Parameters<typeof executeStudies>[1]['run'],
+): Promise<number> {
+  const color = useColor(process.stdout);
+  const execution = await executeStudies(paths, {
+    out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true, run,
     onProblem: (p) => complain(problemLine(p.file, p.message)),
   });
+  const { results, problems, incomplete } = execution;
+  const interrupted = interruptionText(execution);
   let writeProblems: string[];
-  try { writeProblems = writeReports(flags.out, results, { inputProblems: problems }); } catch (err) { writeProblems = [(err as Error).message]; }
+  try { writeProblems = writeReports(flags.out, results, { inputProblems: problems, incomplete, interrupted: interrupted ?? undefined }); } catch (err) { writeProblems = [(err as Error).message]; }
   for (const w of writeProblems) runError('reports', w);
+  if (execution.interrupted) {
+    // A gate that did not run to its end decides nothing: no baseline is written, the JUnit file says why.
+    runError('interrupted', `stopped: ${interrupted}`);
+    return finish({ results, problems, findings: [], runErrors }, flags, runError, interruptStatus(execution.interrupted));
+  }
 
   if (!flags.quiet && results.length) say(formatStudyTable(results, { color, summaryOnly: true }));
   for (const line of failureLines(results)) say(line);
@@ -81,15 +109,19 @@ export async function checkCommand(paths: string[], flags: CheckFlags): Promise<
 }
 
 /** Writes the JUnit file (when asked for) and the status line from one outcome, and returns the exit status. */
-function finish(outcome: GateOutcome, flags: CheckFlags, runError: (name: string, message: string) => void): number {
+function finish(outcome: GateOutcome, flags: CheckFlags, runError: (name: string, message: string) => void, stoppedStatus?: number): number {
   if (flags.junit) {
     const xml = junitXml(outcome.results, { suiteName: 'rungs', inputErrors: outcome.problems, baseline: outcome.findings, runErrors: outcome.runErrors });
     try {
-      writeFileSync(flags.junit, xml);
+      writeFileAtomic(flags.junit, xml);
     } catch (err) {
       // The file cannot say so itself; the status and this line must.
       runError('junit', `cannot write the JUnit file ${flags.junit}: ${(err as Error).message}`);
     }
+  }
+  if (stoppedStatus !== undefined) {
+    say(`check stopped (exit ${stoppedStatus}): interrupted before its end; nothing was compared or recorded`);
+    return stoppedStatus;
   }
   say(statusLine(outcome));
   return gateStatus(outcome);

@@ -1,6 +1,7 @@
 // `rungs data`: a study's manufactured data handed to the user's solver — generated code in the languages asked
 // for (with self-tests) and problem.json, or the values at the solver's own points.
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
+import { writeFileAtomic } from '../report/write.ts';
 import { join, relative } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import { checkLanguage, formulaText, LANGUAGES, type Language } from '../codegen/index.ts';
@@ -56,7 +57,7 @@ export async function dataCommand(paths: string[], o: DataOptions): Promise<numb
         }
         const table = valuesAtPoints(bundle, parseCsvTable(text, o.at), o.at);
         const csv = [table.header.join(','), ...table.rows.map((r) => r.map((v) => String(v)).join(','))].join('\n') + '\n';
-        if (o.values) writeFileSync(o.values, csv); else process.stdout.write(csv);
+        if (o.values) writeFileAtomic(o.values, csv); else process.stdout.write(csv);
         continue;
       }
       const dir = writeStudyData(join(o.out, fileStem(decl.name), 'data'), decl, problem, languages);

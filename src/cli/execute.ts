@@ -1,15 +1,20 @@
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
 import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
 import type { StudyResult } from '../study/result.ts';
+import type { LevelResult } from '../study/result.ts';
 import { levelsCsv } from '../report/csv.ts';
-import { resultJson } from '../report/json.ts';
 import { fileStem } from '../report/series.ts';
+import { removePreviousReports, removeStaleTempFiles, studyJson, writeFileAtomic } from '../report/write.ts';
 import { makeLevelPool } from '../parallel/pool.ts';
+import { acquireOutputLock, type OutputLock } from '../parallel/lock.ts';
+import { allowSolvers, reapSolvers, solverGroups, SolversStopped, stopSolvers } from '../external/command.ts';
+import { privateFolderOwner } from '../external/level.ts';
 import { makeProgress, type Progress } from './progress.ts';
+import { levelKey, readLevelRecord, writeLevelRecord, type LevelRecordEntry } from './resume.ts';
 
 export interface InputProblem {
   study: string;
@@ -20,6 +25,104 @@ export interface InputProblem {
 export interface Execution {
   results: StudyResult[];
   problems: InputProblem[];
+  /** The signal that stopped the run before its end, if one did. */
+  interrupted: NodeJS.Signals | null;
+  /** Studies among the results whose ladder was not run to its end (the run was stopped). */
+  incomplete: Set<string>;
+  /** Studies that were to run but had not finished a single level when the run was stopped. */
+  notRun: string[];
+  /** Levels reused from an earlier run (--resume), per study. */
+  reused: Map<string, number[]>;
+}
+
+/** Exit status of a run stopped by a signal: 128 + its number (SIGINT 130, SIGTERM 143), as shells report it. */
+export function interruptStatus(signal: NodeJS.Signals): number {
+  return signal === 'SIGTERM' ? 143 : 130;
+}
+
+/**
+ * A run of `rungs run` or `rungs check` in progress: it holds the output folder's lock and hears SIGINT and SIGTERM.
+ * The first signal stops the running external solvers' process groups and lets the run write the reports of what
+ * finished (marked incomplete); a second one stops everything at once (SIGKILL to the solvers, exit).
+ */
+export interface ActiveRun {
+  readonly out: string;
+  /** The signal that stopped the run, once one arrived. */
+  readonly interrupted: NodeJS.Signals | null;
+  /** Resolves when a signal arrives. */
+  readonly stopped: Promise<NodeJS.Signals>;
+  /** After a signal: resolves once the solvers it stopped are gone. */
+  solversStopped(): Promise<void>;
+  /** Lines to show the user (a stale lock taken over). */
+  readonly notes: string[];
+  /** Ends the run: stops listening for signals, makes sure no solver's process is left, gives the lock back. */
+  end(): Promise<void>;
+}
+
+export type RunStart = { ok: true; run: ActiveRun } | { ok: false; message: string };
+
+/**
+ * Starts a run into `out`: creates the folder, takes its lock (refused while another live run holds it: the message
+ * names its pid and start time) and listens for SIGINT / SIGTERM. A folder that cannot be created or locked for any
+ * other reason is left to the run to report (as it reports a folder it cannot write).
+ */
+export function beginRun(out: string, command: string, quiet = false): RunStart {
+  let lock: OutputLock | null = null;
+  const notes: string[] = [];
+  try {
+    mkdirSync(out, { recursive: true });
+    const taken = acquireOutputLock(out, command);
+    if (!taken.ok) return { ok: false, message: taken.message };
+    lock = taken.lock;
+    notes.push(...taken.notes);
+  } catch {
+    // Not writable: the run says so when it first writes there.
+  }
+  allowSolvers();
+  let interrupted: NodeJS.Signals | null = null;
+  let stopping: Promise<void> | null = null;
+  let onStop!: (s: NodeJS.Signals) => void;
+  const stopped = new Promise<NodeJS.Signals>((r) => { onStop = r; });
+  const handler = (signal: NodeJS.Signals): void => {
+    if (interrupted) {
+      // Second signal: no more waiting.
+      for (const g of solverGroups()) try { process.kill(-g, 'SIGKILL'); } catch { /* gone */ }
+      lock?.release();
+      process.stderr.write(`
+${signal} again: stopped at once; the reports may be missing
+`);
+      process.exit(interruptStatus(signal));
+    }
+    interrupted = signal;
+    if (!quiet) {
+      process.stderr.write(`
+${signal}: stopping the running solvers and writing the reports of the finished levels ` +
+        `(marked incomplete); ${signal === 'SIGINT' ? 'press Ctrl-C again' : 'send it again'} to stop at once
+`);
+    }
+    stopping = stopSolvers(new SolversStopped(`the run was stopped by ${signal}`));
+    onStop(signal);
+  };
+  process.on('SIGINT', handler);
+  process.on('SIGTERM', handler);
+  let ended = false;
+  return {
+    ok: true,
+    run: {
+      out, stopped, notes,
+      get interrupted() { return interrupted; },
+      solversStopped: () => stopping ?? Promise.resolve(),
+      async end() {
+        if (ended) return;
+        ended = true;
+        process.removeListener('SIGINT', handler);
+        process.removeListener('SIGTERM', handler);
+        if (stopping) await stopping;
+        await reapSolvers();
+        lock?.release();
+      },
+    },
+  };
 }
 
 export interface ExecuteOptions {
@@ -33,6 +136,10 @@ export interface ExecuteOptions {
    *  also used only when the other levels hold at least as many unknowns as the largest (see workersPay); 0 uses
    *  them whatever the sizes. */
   parallelMinDofs?: number;
+  /** Reuse the finished levels of an earlier run into the same folder whose inputs are unchanged (see resume.ts). */
+  resume?: boolean;
+  /** The run this execution belongs to (its signals stop the execution early); none: nothing stops it. */
+  run?: ActiveRun;
   /** Called when a study finishes, in the order of the study files. */
   onResult?: (r: StudyResult) => void;
   onProblem?: (p: InputProblem) => void;
@@ -48,11 +155,14 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     const e = err as Error;
     return { study, file, message: `unexpected failure: ${e.stack ?? e.message}` };
   };
+  const run = opts.run;
+  const stopped = () => run?.interrupted != null;
+  const empty = (): Execution => ({ results: [], problems, interrupted: run?.interrupted ?? null, incomplete: new Set(), notRun: [], reused: new Map() });
   let files: string[];
   try {
     files = findStudyFiles(paths);
   } catch (err) {
-    if (err instanceof RungsInputError) { problem({ study: '', file: err.where ?? '', message: err.message }); return { results: [], problems }; }
+    if (err instanceof RungsInputError) { problem({ study: '', file: err.where ?? '', message: err.message }); return empty(); }
     throw err;
   }
   if (files.length === 0) problem({ study: '', file: paths.join(' '), message: `no study files (*.study.ts) found in ${paths.join(', ')}` });
@@ -70,8 +180,16 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   }
   // One name in two files would write the same report files and baseline entry: neither runs, the others do.
   const clashes = nameClashes(loadedStudies);
+  // Nothing the previous run wrote may pass for this run's result: its summary and index go, and so do the reports of
+  // the studies this run runs (each is written again as its levels finish). Leftovers of killed runs go too.
+  if (outOk) {
+    removePreviousReports(opts.out, loadedStudies.filter((l) => !clashes.has(l)).map((l) => fileStem(l.declaration.name)));
+    removeStaleTempFiles(opts.out);
+    for (const l of loadedStudies) removeStalePrivateFolders(join(opts.out, fileStem(l.declaration.name)));
+  }
   const prepared: PreparedStudy[] = [];
   for (const loaded of loadedStudies) {
+    if (stopped()) break;
     const decl = loaded.declaration;
     const clash = clashes.get(loaded);
     if (clash) { problem({ study: decl.name, file: loaded.file, message: clash }); continue; }
@@ -85,26 +203,89 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     }
   }
   const progress = makeProgress(process.stderr, !!opts.quiet);
-  const onLevel = (p: PreparedStudy) => { if (outOk) writePartial(opts.out, p.result); };
+  // Every finished level is recorded (for a later --resume) and written at once; with --resume, the levels of the
+  // record whose key is unchanged are taken instead of being computed.
+  const records = new Map<PreparedStudy, LevelRecordEntry[]>();
+  const keys = new Map<PreparedStudy, string[]>();
+  const reusable = new Map<PreparedStudy, Map<number, LevelResult>>();
+  const reused = new Map<string, number[]>();
+  for (const p of prepared) {
+    const decl = p.loaded.declaration;
+    const k = Array.from({ length: p.total }, (_, i) => levelKey(decl, i, p.norms));
+    keys.set(p, k);
+    const kept: LevelRecordEntry[] = [];
+    const take = new Map<number, LevelResult>();
+    if (opts.resume) {
+      for (const [index, entry] of readLevelRecord(opts.out, decl.name)) {
+        if (index < p.total && entry.key === k[index]) { kept.push(entry); take.set(index, entry.level); }
+      }
+    }
+    records.set(p, kept);
+    reusable.set(p, take);
+    if (take.size) {
+      const shown = [...take.keys()].sort((a, b) => a - b);
+      reused.set(decl.name, shown);
+      if (!opts.quiet) process.stderr.write(`${decl.name}: reusing level${shown.length > 1 ? 's' : ''} ${shown.map((i) => i + 1).join(', ')} of ${p.total} (inputs unchanged)\n`);
+    }
+  }
+  const onLevel = (p: PreparedStudy, level: LevelResult, fresh: boolean) => {
+    if (!outOk) return;
+    if (fresh) {
+      const entries = records.get(p)!.filter((e) => e.level.index !== level.index);
+      entries.push({ key: keys.get(p)![level.index]!, level });
+      records.set(p, entries);
+      writeLevelRecord(opts.out, p.result.study, entries);
+    }
+    writePartial(opts.out, p.result);
+  };
   const broken = new Set<PreparedStudy>();
+  const fail: Fail = (p, err) => {
+    // A level cut short by the signal is not a failure of the study: the study is reported as incomplete.
+    if (err instanceof SolversStopped || stopped()) return;
+    broken.add(p);
+    problem(asProblem(err, p.result.study, p.loaded.file));
+  };
   const jobs = Math.max(1, opts.jobs ?? 1);
-  const totalLevels = prepared.reduce((s, p) => s + p.total, 0);
-  if (jobs === 1 || totalLevels <= 1 || !workersPay(prepared, opts.parallelMinDofs ?? PARALLEL_MIN_DOFS)) await runSerial(prepared, progress, onLevel, (p, err) => { broken.add(p); problem(asProblem(err, p.result.study, p.loaded.file)); });
-  else await runParallel(prepared, Math.min(jobs, totalLevels), progress, onLevel, (p, err) => { broken.add(p); problem(asProblem(err, p.result.study, p.loaded.file)); });
+  const totalLevels = prepared.reduce((s, p) => s + p.total - reusable.get(p)!.size, 0);
+  const ctx: RunContext = { progress, onLevel, fail, reusable, stopped, stop: run?.stopped, solversStopped: run?.solversStopped };
+  if (jobs === 1 || totalLevels <= 1 || !workersPay(prepared, opts.parallelMinDofs ?? PARALLEL_MIN_DOFS)) await runSerial(prepared, ctx);
+  else await runParallel(prepared, Math.min(jobs, totalLevels), ctx);
   progress.clear();
 
   const results: StudyResult[] = [];
+  const incomplete = new Set<string>();
+  const notRun: string[] = [];
   for (const p of prepared) {
     if (broken.has(p)) continue;
+    const cut = p.result.levels.length < p.total;
+    if (cut && p.result.levels.length === 0) { notRun.push(p.result.study); continue; }
     try {
       const r = completeStudy(p);
+      if (cut) incomplete.add(r.study);
       results.push(r);
       opts.onResult?.(r);
     } catch (err) {
+      // Too few levels to analyse is what an early stop gives: the finished levels are still reported.
+      if (cut) { incomplete.add(p.result.study); results.push(p.result); continue; }
       problem(asProblem(err, p.result.study, p.loaded.file));
     }
   }
-  return { results, problems };
+  if (stopped()) for (const l of loadedStudies) {
+    const name = l.declaration.name;
+    if (!prepared.some((p) => p.loaded === l) && !problems.some((q) => q.study === name)) notRun.push(name);
+  }
+  return { results, problems, interrupted: run?.interrupted ?? null, incomplete, notRun, reused };
+}
+
+/** Private level folders (src/external/level.ts) that a killed run left in a study's folder. Called while holding the
+ *  output folder's lock, so none of them belongs to a live run. */
+function removeStalePrivateFolders(studyDir: string): void {
+  let names: string[];
+  try { names = readdirSync(studyDir); } catch { return; }
+  for (const name of names) {
+    const owner = privateFolderOwner(name);
+    if (owner !== null && owner !== process.pid) rmSync(join(studyDir, name), { recursive: true, force: true });
+  }
 }
 
 /** The message for each study whose name another file of the run also declares (names equal up to case count too:
@@ -128,6 +309,18 @@ function nameClashes(loaded: readonly LoadedStudy[]): Map<LoadedStudy, string> {
 }
 
 type Fail = (p: PreparedStudy, err: unknown) => void;
+
+interface RunContext {
+  progress: Progress;
+  /** A level is in (fresh: computed now; else reused from an earlier run). */
+  onLevel: (p: PreparedStudy, level: LevelResult, fresh: boolean) => void;
+  fail: Fail;
+  reusable: Map<PreparedStudy, Map<number, LevelResult>>;
+  /** True once a signal stopped the run: no new level starts. */
+  stopped: () => boolean;
+  stop?: Promise<NodeJS.Signals>;
+  solversStopped?: () => Promise<void>;
+}
 
 /** Below this many unknowns on the largest level, starting worker threads (each loads the study files and derives
  *  the source terms again) costs more than it saves, so the run stays in this thread (measured: the bundled
@@ -155,46 +348,68 @@ function workersPay(prepared: PreparedStudy[], minDofs: number): boolean {
   return largest >= minDofs && rest >= largest;
 }
 
-async function runSerial(prepared: PreparedStudy[], progress: Progress, onLevel: (p: PreparedStudy) => void, fail: Fail): Promise<void> {
+async function runSerial(prepared: PreparedStudy[], ctx: RunContext): Promise<void> {
+  const { progress, onLevel, fail } = ctx;
   for (const p of prepared) {
     const decl = p.loaded.declaration;
+    const reuse = ctx.reusable.get(p)!;
     try {
-      for (let i = 0; i < p.total; i++) {
+      for (let i = 0; i < p.total && !ctx.stopped(); i++) {
+        const old = reuse.get(i);
+        if (old) { addLevel(p, old); onLevel(p, old, false); continue; }
         progress.levelStart(decl.name, i, p.total);
         const level = await runLevel(decl, p.loaded.file, p.problem, i, p.norms, p.solver, p.env);
         addLevel(p, level);
         progress.levelDone(decl.name, level, p.total);
-        onLevel(p);
+        onLevel(p, level, true);
       }
     } catch (err) {
       progress.clear();
       fail(p, err);
     }
+    if (ctx.stopped()) break;
   }
 }
 
 /** Levels of all studies on a worker pool, the costliest first (cost ~ n^dim · degree²) so the pool stays busy. */
-async function runParallel(prepared: PreparedStudy[], jobs: number, progress: Progress, onLevel: (p: PreparedStudy) => void, fail: Fail): Promise<void> {
+async function runParallel(prepared: PreparedStudy[], jobs: number, ctx: RunContext): Promise<void> {
+  const { progress, onLevel, fail } = ctx;
+  for (const p of prepared) {
+    for (const [, old] of [...ctx.reusable.get(p)!].sort((a, b) => a[0] - b[0])) { addLevel(p, old); onLevel(p, old, false); }
+  }
   const pool = makeLevelPool(jobs);
   const tasks = prepared.flatMap((p) => Array.from({ length: p.total }, (_, index) => {
     const d = p.loaded.declaration;
     const cost = d.ladder.n[index] ** d.domain.dim * (d.discretization.degree ?? 1) ** 2;
     return { p, index, cost };
-  }));
+  }).filter((t) => !ctx.reusable.get(p)!.has(t.index)));
   tasks.sort((a, b) => b.cost - a.cost);
+  // After a signal the levels still computing on workers are not waited for: the pool is destroyed (the solvers they
+  // ran were stopped by the signal's handler) and nothing that arrives later is recorded.
+  let closed = false;
   try {
-    await Promise.all(tasks.map(async ({ p, index }) => {
+    const all = Promise.all(tasks.map(async ({ p, index }) => {
       try {
+        if (ctx.stopped()) return;
         const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data });
-        if (failed(p)) return;
+        if (failed(p) || closed) return;
         addLevel(p, level);
         progress.levelDone(p.result.study, level, p.total);
-        onLevel(p);
+        onLevel(p, level, true);
       } catch (err) {
+        if (closed) return;
         if (!failed(p)) { markFailed(p); fail(p, err); }
       }
     }));
+    await (ctx.stop ? Promise.race([all, ctx.stop]) : all);
+    if (ctx.stopped()) {
+      // Give the workers a moment to see their solvers exit (so that they are reaped) before the pool goes; a level
+      // still computing in rungs's own code is not waited for.
+      await ctx.solversStopped?.();
+      await Promise.race([all, new Promise((r) => setTimeout(r, 2000).unref())]);
+    }
   } finally {
+    closed = true;
     await pool.close();
   }
 }
@@ -203,11 +418,12 @@ const failedMark = new WeakSet<PreparedStudy>();
 const failed = (p: PreparedStudy) => failedMark.has(p);
 const markFailed = (p: PreparedStudy) => failedMark.add(p);
 
+/** A study's levels so far: its CSV and its JSON (`"complete": false` until the final write of the run). */
 function writePartial(out: string, partial: StudyResult): void {
   const stem = fileStem(partial.study);
   try {
-    writeFileSync(join(out, `${stem}.csv`), levelsCsv(partial));
-    writeFileSync(join(out, `${stem}.json`), resultJson(partial));
+    writeFileAtomic(join(out, `${stem}.csv`), levelsCsv(partial));
+    writeFileAtomic(join(out, `${stem}.json`), studyJson(partial, false));
   } catch {
     // Reported once by the final write of the run.
   }

@@ -7,6 +7,7 @@ import { writeReports } from '../report/write.ts';
 import { runStatus } from '../study/runner.ts';
 import { RungsInputError } from '../errors.ts';
 import { useColor } from './output.ts';
+import { reportNamesAvoiding } from '../fit/output-names.ts';
 
 export interface FitFlags {
   errors?: string;
@@ -36,6 +37,13 @@ export async function fitCommand(table: string, flags: FitFlags): Promise<number
       tolerance: flags.tolerance, fitWindow: flags.fitWindow, procedures: flags.uncertainty,
     });
     result.quantities = quantities.length ? quantities : undefined;
+    // The reports never replace the table they were read from (--out pointing at its folder): the study is renamed,
+    // or, when the table has the name of a run-wide report (summary.csv, index.html), the fit is refused.
+    const naming = reportNamesAvoiding(flags.out, result.study, [table]);
+    if (naming.renamed) {
+      result.study = naming.study;
+      process.stderr.write(`note: ${naming.renamed}\n`);
+    }
     if (!flags.expect && result.analyses.every((a) => a.expected === null)) {
       // Nothing to judge against: the orders are reported, and the run does not fail.
       result.asExpected = true;

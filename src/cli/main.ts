@@ -35,6 +35,7 @@ program
   .option('--out <dir>', 'folder for the reports', 'reports')
   .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())
   .option('--json', 'print the whole result as JSON on standard output instead of tables')
+  .option('--resume', 'reuse the finished levels of an earlier run into --out whose inputs are unchanged; compute the rest')
   .option('--quiet', 'print only the verdict lines')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
   .action(async (paths: string[], o) => { process.exitCode = await runCommand(paths, o); });

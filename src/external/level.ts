@@ -1,10 +1,15 @@
-// One level of an external discretization: prepare the level folder, run the solver, read its output back
-// (src/study/external-level.ts turns it into a level result, integrating the errors of a VTK solution).
-import { runLevelCommand, showArgv } from './command.ts';
+// One level of an external discretization: the solver runs in a private folder of its own, which is moved into place
+// as the level folder once it is done; then rungs reads back what it wrote (src/study/external-level.ts turns it into
+// a level result, integrating the errors of a VTK solution).
+import { randomBytes } from 'node:crypto';
+import { existsSync, renameSync, rmSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { RungsInputError } from '../errors.ts';
+import { runLevelCommand, showArgv, SolversStopped } from './command.ts';
 import { prepareLevelFolder, readLevelOutput } from './output.ts';
 import { tailNote } from './tail.ts';
 import type { ExternalDiscretization, ExternalLevelRun } from './types.ts';
-import type { LevelRef } from './where.ts';
+import { levelLabel, type LevelRef } from './where.ts';
 
 export interface ExternalLevelInput {
   study: string;
@@ -13,7 +18,7 @@ export interface ExternalLevelInput {
   n: number;
   /** The level's mesh size as rungs sees it ({h}; used when the solver reports none). */
   h: number;
-  /** The level folder {out} (see levelFolder). */
+  /** The level folder (see levelFolder). The solver's {out} is a private folder beside it, moved here when done. */
   outDir: string;
   /** Error names the study measures; the errors protocol must report each. */
   norms?: readonly string[];
@@ -24,18 +29,61 @@ export interface ExternalLevelInput {
   signal?: AbortSignal;
 }
 
-/** Runs the solver of one level and reads back what it wrote. */
+/** Prefix of the private folders beside a level folder: `.level-3.run-<pid>-<random>` for `level-3`. */
+const PRIVATE = /^\.(.+)\.run-(\d+)-[0-9a-f]+(?:\.old)?$/;
+
+/** A fresh private folder name beside the level folder `dir`, unique to this process and level run. */
+export function privateLevelFolder(dir: string): string {
+  return join(dirname(dir), `.${basename(dir)}.run-${process.pid}-${randomBytes(4).toString('hex')}`);
+}
+
+/** Whether a name in a study's folder is a private level folder, and of which process. */
+export function privateFolderOwner(name: string): number | null {
+  const m = PRIVATE.exec(name);
+  return m ? Number(m[2]) : null;
+}
+
+/** Replaces the level folder `dir` by `work` (rename, so readers of `dir` see the old folder or the new one). */
+export function moveLevelIntoPlace(work: string, dir: string, level?: LevelRef): void {
+  const old = `${work}.old`;
+  try {
+    if (existsSync(dir)) renameSync(dir, old);
+    renameSync(work, dir);
+    rmSync(old, { recursive: true, force: true });
+  } catch (err) {
+    throw new RungsInputError(`${levelLabel(level)}: cannot move the solver's output folder ${work} to ${dir} (${(err as Error).message}); give a writable output folder`, dir);
+  }
+}
+
+/** Runs the solver of one level in a private folder, reads back what it wrote there and moves the folder into place as
+ *  `level.outDir` (also when the level fails, so that its output can be looked at; not when the run was stopped). */
 export async function runExternalLevel(spec: ExternalDiscretization, level: ExternalLevelInput): Promise<ExternalLevelRun> {
   const ref: LevelRef = { study: level.study, index: level.index, n: level.n };
-  prepareLevelFolder(level.outDir, ref);
-  const values = { study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: level.outDir, data: level.data };
-  const run = await runLevelCommand({ command: spec.command, timeoutSeconds: spec.timeoutSeconds, cwd: spec.cwd, env: spec.env }, values, {
-    level: ref, signal: level.signal,
-  });
-  const t = performance.now();
-  const output = readLevelOutput(spec.output, level.outDir, {
-    level: ref, h: level.h, norms: level.norms, quantities: level.quantities, degree: spec.degree, field: spec.field,
-    context: `; command: ${showArgv(run.argv)}${tailNote(run.stderr, run.stdout)}`,
-  });
-  return { output, run, seconds: { solve: run.seconds, read: (performance.now() - t) / 1e3 } };
+  const work = privateLevelFolder(level.outDir);
+  prepareLevelFolder(work, ref);
+  // Messages name the level folder the user will find, not the private one.
+  const placed = (err: unknown): unknown => {
+    if (err instanceof RungsInputError) return new RungsInputError(err.message.split(work).join(level.outDir), err.where?.split(work).join(level.outDir));
+    return err;
+  };
+  const values = { study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: work, data: level.data };
+  try {
+    const run = await runLevelCommand({ command: spec.command, timeoutSeconds: spec.timeoutSeconds, cwd: spec.cwd, env: spec.env }, values, {
+      level: ref, signal: level.signal,
+    });
+    const t = performance.now();
+    const output = readLevelOutput(spec.output, work, {
+      level: ref, h: level.h, norms: level.norms, quantities: level.quantities, degree: spec.degree, field: spec.field,
+      maxOutputBytes: spec.maxOutputBytes,
+      context: `; command: ${showArgv(run.argv)}${tailNote(run.stderr, run.stdout)}`,
+    });
+    moveLevelIntoPlace(work, level.outDir, ref);
+    output.file = join(level.outDir, basename(output.file));
+    output.warnings = output.warnings.map((w) => w.split(work).join(level.outDir));
+    return { output, run, seconds: { solve: run.seconds, read: (performance.now() - t) / 1e3 } };
+  } catch (err) {
+    if (err instanceof SolversStopped || level.signal?.aborted) rmSync(work, { recursive: true, force: true });
+    else if (existsSync(work)) try { moveLevelIntoPlace(work, level.outDir, ref); } catch { rmSync(work, { recursive: true, force: true }); }
+    throw placed(err);
+  }
 }

@@ -1,12 +1,13 @@
 // The level folder {out}: rungs creates it and removes stale protocol files before the solver runs, then reads
 // back whichever protocol file the solver wrote.
-import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import { parseErrorsCsv, parseErrorsJson, type ReportedErrors } from './errors-file.ts';
 import type { ExternalLevelOutput, ExternalOutput } from './types.ts';
 import { gridToField } from './vtk/to-field.ts';
 import { readVtkFile } from './vtk/read.ts';
+import { checkOutputSize, outputLimit, type OutputLimit } from './vtk/limits.ts';
 import { levelLabel, placeOf, type LevelRef } from './where.ts';
 
 /** File names the solver may write into its level folder, in the order rungs looks for them. */
@@ -40,6 +41,9 @@ export interface ReadOutputOptions {
   field?: string;
   /** Text appended to "wrote no … file" messages (the command and its last output lines). */
   context?: string;
+  /** Files above this many bytes are refused before they are read (default: from the memory available, see
+   *  src/external/vtk/limits.ts). */
+  maxOutputBytes?: number;
 }
 
 /** A reported h may differ from the largest cell diameter of the solver's own mesh by this fraction before rungs
@@ -52,9 +56,10 @@ export type LevelOutput = ExternalLevelOutput & { warnings: string[] };
 /** Reads what the solver wrote into `dir` for the given protocol. */
 export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: ReadOutputOptions): LevelOutput {
   const ref = opts.level;
+  const limit = outputLimit(opts.maxOutputBytes);
   const errorsFile = firstExisting(dir, ERRORS_FILES);
   const readErrors = (file: string, required: boolean): ReportedErrors => {
-    const text = readText(file, ref);
+    const text = readText(file, ref, limit);
     const fileOpts = {
       level: ref,
       quantities: opts.quantities,
@@ -70,7 +75,7 @@ export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: Rea
   }
   const solutionFile = firstExisting(dir, SOLUTION_FILES);
   if (!solutionFile) throw nothingWritten(dir, SOLUTION_FILES, ref, opts.context);
-  const vtk = gridToField(readVtkFile(solutionFile, ref), { field: opts.field, degree: opts.degree, level: ref });
+  const vtk = gridToField(readVtkFile(solutionFile, ref, { limit }), { field: opts.field, degree: opts.degree, level: ref });
   // An errors file next to the solution may add quantities and the solver's own dof count.
   const extra = errorsFile ? readErrors(errorsFile, false) : null;
   if (!extra && opts.quantities?.length) {
@@ -105,10 +110,13 @@ function firstExisting(dir: string, names: readonly string[]): string | null {
   return null;
 }
 
-function readText(file: string, ref: LevelRef | undefined): string {
+/** A small protocol file as text; above the limit it is refused before it is read. */
+function readText(file: string, ref: LevelRef | undefined, limit: OutputLimit): string {
   try {
+    checkOutputSize(file, statSync(file).size, limit, ref);
     return readFileSync(file, 'utf8');
   } catch (err) {
+    if (err instanceof RungsInputError) throw err;
     throw new RungsInputError(`${placeOf(ref, file)}: cannot read the file (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`, file);
   }
 }

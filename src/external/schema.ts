@@ -10,6 +10,7 @@ export const externalDiscretizationSchema = z.object({
   output: z.enum(['errors', 'vtk'], { message: "expected 'errors' (the solver writes errors.json or errors.csv) or 'vtk' (it writes solution.vtk or solution.vtu)" }),
   degree: z.number().int().min(1).max(3).optional(),
   timeoutSeconds: z.number().positive().finite().optional(),
+  maxOutputBytes: z.number().int({ message: 'expected a whole number of bytes, such as 2e9' }).positive({ message: 'expected a positive number of bytes, such as 2e9' }).optional(),
   label: z.string().min(1).optional(),
   field: z.string().min(1).optional(),
   cwd: z.string().min(1).optional(),

@@ -17,6 +17,9 @@ export interface ExternalDiscretization {
   degree?: number;
   /** Seconds a level may take before the solver's process group is stopped (default 600). */
   timeoutSeconds?: number;
+  /** Largest output file (solution.vtk / .vtu, errors.json / .csv) rungs reads, in bytes; a larger one is refused
+   *  before it is read (default: the memory available divided by what reading costs per byte, about 8). */
+  maxOutputBytes?: number;
   label?: string;
   /** VTK point-data array holding the solution (default: the only scalar array). */
   field?: string;

@@ -93,7 +93,9 @@ export function fitTable(csvText: string, opts: FitOptions = {}): FitOutcome {
     seconds: {},
   }));
   // Without dofs, floors are judged with N ≈ h^-d (round-off grows mildly with the unknowns; only the scale matters).
-  const dofsForAnalysis = data.dofs ?? h.map((v) => Math.max(1, Math.round(Math.pow(1 / v, d))));
+  // Capped at 2^53: an h near the subnormal range would give N = Infinity, which the analysis refuses as a dof count
+  // the table never had.
+  const dofsForAnalysis = data.dofs ?? h.map((v) => Math.min(Number.MAX_SAFE_INTEGER, Math.max(1, Math.round(Math.pow(1 / v, d)))));
   const analyses = data.errors.map((s) => analyseSeries({
     name: s.name,
     h: data.by === 'h' ? data.h : null,

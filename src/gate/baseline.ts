@@ -1,4 +1,5 @@
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
+import { writeFileAtomic } from '../report/write.ts';
 import { RungsInputError } from '../errors.ts';
 import { compactJson } from '../report/compact-json.ts';
 import { sciShort } from '../report/numbers.ts';
@@ -70,7 +71,7 @@ export function baselineJson(baseline: Baseline): string {
 
 export function writeBaseline(path: string, baseline: Baseline): void {
   try {
-    writeFileSync(path, baselineJson(baseline));
+    writeFileAtomic(path, baselineJson(baseline));
   } catch (err) {
     throw new RungsInputError(`cannot write the baseline file ${path}: ${(err as Error).message}`, path);
   }

@@ -6,15 +6,32 @@ import { normOutcomes } from './verdict.ts';
 
 type Cell = string | number | boolean | null | undefined;
 
-/** Numbers as JavaScript prints them (shortest round-trip form); NaN and absent values become empty cells. */
+/** A text cell that is a plain decimal number ("-0.5", "1e-5") cannot start a formula and is left as it is. */
+const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+/** Characters that make a spreadsheet read a cell as a formula (OWASP, "CSV Injection"). */
+const FORMULA_START = /^[=+\-@\t\r]/;
+
+/**
+ * A text cell (study name, norm, verdict, reasons, labels) that a spreadsheet would run as a formula gets a leading
+ * single quote, as the OWASP CSV-injection guidance advises; csv-stringify then quotes it when it holds a comma, a
+ * quote or a line break. Numbers are never touched: they are written by `cell` as numbers.
+ */
+export function neutraliseCsvText(text: string): string {
+  return FORMULA_START.test(text) && !PLAIN_NUMBER.test(text) ? `'${text}` : text;
+}
+
+/** Numbers as JavaScript prints them (shortest round-trip form); NaN and absent values become empty cells; text is
+ *  neutralised against formula injection (neutraliseCsvText). */
 function cell(value: Cell): string {
   if (value === null || value === undefined) return '';
   if (typeof value === 'number') return Number.isNaN(value) ? '' : String(value);
-  return String(value);
+  if (typeof value === 'boolean') return String(value);
+  return neutraliseCsvText(value);
 }
 
 function toCsv(header: string[], rows: Cell[][]): string {
-  return stringify([header, ...rows.map((r) => r.map(cell))], { record_delimiter: 'unix' });
+  // Headers hold norm and quantity names, which come from the study or the fitted table: text like any other.
+  return stringify([header.map(neutraliseCsvText), ...rows.map((r) => r.map(cell))], { record_delimiter: 'unix' });
 }
 
 const BYTES_PER_MIB = 1024 * 1024;
@@ -35,7 +52,8 @@ const BYTES_PER_MIB = 1024 * 1024;
  * - `t_mesh`, `t_assemble`, `t_solve`, `t_errors`, `t_total` wall seconds per phase
  * - `peak_rss_mb` peak resident set size in mebibytes (2^20 bytes), empty when not measured
  * Numbers are written as JavaScript prints them (full precision); NaN and missing values are empty cells;
- * infinities are written `Infinity` / `-Infinity`.
+ * infinities are written `Infinity` / `-Infinity`. Text cells starting with = + - @, a tab or a carriage return get a
+ * leading single quote (neutraliseCsvText).
  */
 export function levelsCsv(result: StudyResult): string {
   const norms = normNames(result);

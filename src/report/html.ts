@@ -20,6 +20,8 @@ export interface HtmlMeta {
   command?: string;
   inputProblems?: readonly InputProblem[];
   plot?: PlotOptions;
+  /** The run was stopped before its end (a signal): the page opens with this text in a banner. */
+  interrupted?: string;
 }
 
 const CAUTION =
@@ -236,6 +238,7 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
     meta.command ? `<p class="subtitle"><code>${esc(meta.command)}</code></p>` : '',
     '</header>',
     `<p class="caution"><strong>Verification, not validation.</strong> ${esc(CAUTION)}</p>`,
+    meta.interrupted ? `<div class="problems" role="alert"><strong>⚠ Incomplete run.</strong> ${esc(meta.interrupted)}</div>` : '',
     problemsBox(problems),
     '<h2 id="overview">Overview</h2>',
     overview(results),

@@ -71,12 +71,17 @@ function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
 }
 
 function logScale(values: number[], range: [number, number]): ScaleLogarithmic<number, number> {
-  let lo = Math.min(...values);
-  let hi = Math.max(...values);
+  // A loop, not Math.min(...values): spreading 100k levels overflows the call stack.
+  let lo = Infinity, hi = -Infinity;
+  for (const v of values) { if (v < lo) lo = v; if (v > hi) hi = v; }
   if (!(lo > 0) || !Number.isFinite(hi)) [lo, hi] = [0.1, 1];
+  // Below 1e-300 nice() would round a subnormal value down to a decade that is 0 in doubles (10^-324), and the ticks
+  // of log 0 are an array of infinite length; such values are drawn on the lower edge (clamp).
+  lo = Math.max(lo, 1e-300);
+  hi = Math.max(hi, lo);
   if (lo === hi) [lo, hi] = [lo / 10, hi * 10];
   // nice() widens the domain to whole decades, so every axis has at least two labelled powers of ten.
-  return scaleLog().domain([lo, hi]).range(range).nice();
+  return scaleLog().domain([lo, hi]).range(range).nice().clamp(true);
 }
 
 function isDecade(v: number): boolean {

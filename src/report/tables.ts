@@ -17,9 +17,20 @@ function fitSummaries(result: StudyResult, withSymbol: boolean): string[] {
 
 // ---- Markdown (GitHub-flavoured pipe tables) ----
 
-/** A pipe or a line break would end the cell early (GFM spec, tables extension). */
-function escapeMarkdownCell(text: string): string {
-  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
+const HTML_ENTITIES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;' };
+
+/**
+ * Text from a study or a table (names, descriptions, reasons, labels) made inert in Markdown: raw HTML is written as
+ * entities (and an '&' that would start a character reference) (CommonMark passes tags and comments through to the page, spec §4.6 and §6.6), a pipe or a line break would
+ * end a table cell early (GFM spec, tables extension), and a backslash would escape what follows it.
+ */
+export function escapeMarkdownCell(text: string): string {
+  return text
+    .replace(/\\/g, '\\\\')
+    // '&' only where it would start a character reference ("&lt;"); "Eça & Hoekstra" stays as it is.
+    .replace(/&(?=#?[A-Za-z0-9]+;)|[<>]/g, (c) => HTML_ENTITIES[c]!)
+    .replace(/\|/g, '\\|')
+    .replace(/\r\n?|\n/g, ' ');
 }
 
 /** Per study: a heading line, the level table (errors as 1.23e-04, rates to two decimals, '—' on level 1), a footer. */

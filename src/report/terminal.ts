@@ -32,7 +32,8 @@ function outcomePaint(p: Palette, o: NormOutcome): Paint {
 
 /** Right-aligned columns separated by two spaces; widths from the plain text so colour never shifts a column. */
 function alignRows(rows: string[][], leftColumns = 0): string[] {
-  const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => [...r[c]].length)));
+  // reduce, not Math.max(...): spreading the rows of a 100k-level table overflows the call stack.
+  const widths = rows[0].map((_, c) => rows.reduce((w, r) => Math.max(w, [...r[c]].length), 0));
   return rows.map((r) =>
     r
       .map((cell, c) => (c < leftColumns ? cell.padEnd(widths[c]) : cell.padStart(widths[c])))
@@ -50,7 +51,7 @@ function levelTable(result: StudyResult, p: Palette): string[] {
     String(level.dofs),
     ...norms.flatMap((norm) => [sci(level.errors[norm]), fixed(rateAt(result, norm, i))]),
   ]);
-  const rule = header.map((h) => '─'.repeat(Math.max(...[h, ...body.map((r) => r[header.indexOf(h)])].map((s) => [...s].length))));
+  const rule = header.map((h, c) => '─'.repeat(body.reduce((w, r) => Math.max(w, [...r[c]].length), [...h].length)));
   const lines = alignRows([header, rule, ...body]);
   return lines.map((line, i) => '  ' + (i === 0 ? p.bold(line) : i === 1 ? p.dim(line) : line));
 }

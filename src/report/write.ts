@@ -1,11 +1,11 @@
-import { accessSync, constants, mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { accessSync, closeSync, constants, fsyncSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, unlinkSync, writeSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import type { StudyResult } from '../study/result.ts';
 import { levelsCsv, quantitiesCsv, summaryCsv } from './csv.ts';
 import { htmlReport, type HtmlMeta } from './html.ts';
 import type { InputProblem } from './input-problem.ts';
-import { resultJson } from './json.ts';
+import { resultForJson } from './json.ts';
 import { junitXml } from './junit.ts';
 import { fileStem } from './series.ts';
 import { svgPlot, type PlotOptions } from './svg.ts';
@@ -17,6 +17,11 @@ export const DEFAULT_FORMATS: readonly ReportFormat[] = ['csv', 'json', 'md', 't
 
 export interface WriteOptions {
   formats?: readonly ReportFormat[];
+  /** Studies whose reports hold only part of their ladder (a run stopped by a signal): their JSON says
+   *  `"complete": false`. Every other study's says `"complete": true`. */
+  incomplete?: ReadonlySet<string>;
+  /** Set when the run was stopped before its end: the HTML report opens with this text as a banner. */
+  interrupted?: string;
   inputProblems?: readonly InputProblem[];
   meta?: Omit<HtmlMeta, 'inputProblems'>;
   plot?: PlotOptions;
@@ -32,6 +37,76 @@ export interface WriteFailure {
 export interface WriteOutcome {
   written: string[];
   failed: WriteFailure[];
+}
+
+/** Temporary files of writeFileAtomic: `.<name>.<pid>.<count>.tmp` beside the file (hidden, same file system). */
+const TEMP_NAME = /^\.(.+)\.(\d+)\.\d+\.tmp$/;
+let tempCount = 0;
+
+/**
+ * The one way rungs writes a file: the text goes to a temporary file in the same folder, is flushed to disk, and is
+ * renamed over the target. rename(2) replaces the target in one step, so a reader (or a run killed at any moment)
+ * sees the previous file or the new one, never a truncated one. Throws what the file system throws; the temporary
+ * file is removed on failure.
+ */
+export function writeFileAtomic(path: string, text: string | Uint8Array): void {
+  const temp = join(dirname(path), `.${basename(path)}.${process.pid}.${++tempCount}.tmp`);
+  let fd: number | null = null;
+  try {
+    fd = openSync(temp, 'wx', 0o644);
+    const bytes = typeof text === 'string' ? Buffer.from(text, 'utf8') : text;
+    for (let done = 0; done < bytes.length;) done += writeSync(fd, bytes, done, bytes.length - done);
+    fsyncSync(fd);
+    closeSync(fd);
+    fd = null;
+    renameSync(temp, path);
+  } catch (err) {
+    if (fd !== null) try { closeSync(fd); } catch { /* already closed */ }
+    try { unlinkSync(temp); } catch { /* never made, or renamed */ }
+    throw err;
+  }
+}
+
+/** Removes temporary files that writeFileAtomic left in `dir` when its process was killed between write and rename
+ *  (only those of processes other than this one: call it while holding the output folder's lock). Returns their names. */
+export function removeStaleTempFiles(dir: string): string[] {
+  let names: string[];
+  try { names = readdirSync(dir); } catch { return []; }
+  const removed: string[] = [];
+  for (const name of names) {
+    const m = TEMP_NAME.exec(name);
+    if (!m || Number(m[2]) === process.pid) continue;
+    try { rmSync(join(dir, name), { force: true }); removed.push(name); } catch { /* leave it */ }
+  }
+  return removed;
+}
+
+/** A study's result as the JSON report: `complete` first (false while its levels are still coming in, or when the
+ *  run was stopped before its ladder was done), then the whole result. */
+export function studyJson(result: StudyResult, complete: boolean): string {
+  return JSON.stringify({ complete, ...resultForJson(result) }, null, 2) + '\n';
+}
+
+/** Every file name a study's reports use (see writeReportFiles). */
+export function studyReportNames(stem: string): string[] {
+  return ['csv', 'json', 'md', 'tex', 'svg'].map((ext) => `${stem}.${ext}`).concat(`${stem}-quantities.csv`);
+}
+
+/** The run's own report files (summary.csv, index.html). */
+export const RUN_REPORT_NAMES: readonly string[] = ['summary.csv', 'index.html'];
+
+/**
+ * Before a run: removes the previous run's summary and index and the reports of the studies this run will write, so
+ * that nothing left from before looks like this run's result (a run that stops early leaves only what it wrote).
+ * Returns the paths removed; a file that cannot be removed is left for the final write to report.
+ */
+export function removePreviousReports(outDir: string, studyStems: readonly string[]): string[] {
+  const removed: string[] = [];
+  for (const name of [...RUN_REPORT_NAMES, ...studyStems.flatMap(studyReportNames)]) {
+    const path = join(outDir, name);
+    try { unlinkSync(path); removed.push(path); } catch { /* absent, or a folder: nothing to do */ }
+  }
+  return removed;
 }
 
 /** Unique file stems per study, in order ("tile-p2", "tile-p2-2" if two names map to the same stem). */
@@ -74,7 +149,7 @@ export function writeReportFiles(
   const emit = (name: string, make: () => string) => {
     const path = join(outDir, name);
     try {
-      writeFileSync(path, make());
+      writeFileAtomic(path, make());
       outcome.written.push(path);
     } catch (err) {
       outcome.failed.push({ path, message: (err as Error).message });
@@ -85,14 +160,14 @@ export function writeReportFiles(
     const stem = names[i];
     if (formats.has('csv')) emit(`${stem}.csv`, () => levelsCsv(r));
     if (formats.has('csv') && r.quantities?.length) emit(`${stem}-quantities.csv`, () => quantitiesCsv(r));
-    if (formats.has('json')) emit(`${stem}.json`, () => resultJson(r));
+    if (formats.has('json')) emit(`${stem}.json`, () => studyJson(r, !options.incomplete?.has(r.study)));
     if (formats.has('md')) emit(`${stem}.md`, () => markdownTable(r));
     if (formats.has('tex')) emit(`${stem}.tex`, () => latexTable(r));
     if (formats.has('svg')) emit(`${stem}.svg`, () => `<?xml version="1.0" encoding="UTF-8"?>\n${svgPlot(r, options.plot)}\n`);
   });
   if (formats.has('summary')) emit('summary.csv', () => summaryCsv(results));
   if (formats.has('html')) {
-    emit('index.html', () => htmlReport(results, { ...options.meta, plot: options.plot, inputProblems: options.inputProblems }));
+    emit('index.html', () => htmlReport(results, { ...options.meta, plot: options.plot, inputProblems: options.inputProblems, interrupted: options.interrupted }));
   }
   if (formats.has('junit')) {
     emit('junit.xml', () => junitXml(results, { suiteName: options.suiteName ?? 'rungs', inputErrors: options.inputProblems }));

@@ -122,6 +122,9 @@ export interface StudyDeclaration {
   solver?: SolverDeclaration;
   /** Relative tolerance of the baseline comparison of `rungs check` (default 0.05). */
   baselineTolerance?: number;
+  /** Memory (MB = 2^20 bytes) one level may take; a level estimated above it is refused before it is meshed, and the
+   *  other studies still run (default: the memory available when the level starts; see src/study/memory-budget.ts). */
+  memoryBudgetMB?: number;
 }
 
 /** Declares a study; the default export of a *.study.ts file. Validation happens when rungs loads it. */

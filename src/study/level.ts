@@ -18,6 +18,7 @@ import type { StudyProblem } from './problem.ts';
 import type { LevelContext } from './context.ts';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { algebraicTie, DEFAULT_ERROR_FRACTION, type AlgebraicTie } from './algebraic.ts';
+import { checkLevelMemory } from './memory-budget.ts';
 
 /** I_h u on the discrete solution's own space when it is a Lagrange field of that degree, else on a new one. */
 function interpolantField(mesh: Mesh, degree: number, u: (x: number, y: number, z: number) => number, space: FunctionSpace | null): DiscreteField {
@@ -68,7 +69,10 @@ async function runLevelUnguarded(
   const tStart = performance.now();
   const n = decl.ladder.n[index];
   let t = performance.now();
+  // A level that would not fit in the memory budget is refused before it is meshed (custom domains: once meshed).
+  checkLevelMemory(decl, index);
   let mesh = decl.domain.mesh(n);
+  if (decl.domain.kind === 'custom') checkLevelMemory(decl, index, mesh);
   if (decl.domain.kind === 'custom') checkMesh(mesh, `${file}: domain mesh of level ${index + 1}`);
   if (decl.ladder.perturb && decl.ladder.perturb.fraction > 0) {
     mesh = perturbMesh(mesh, { fraction: decl.ladder.perturb.fraction, seed: (decl.ladder.perturb.seed ?? 1) + index });

@@ -1,6 +1,7 @@
 import { readdirSync, statSync, existsSync } from 'node:fs';
-import { join, resolve, relative } from 'node:path';
+import { dirname, join, resolve, relative } from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { register } from 'node:module';
 import { RungsInputError } from '../errors.ts';
 import type { StudyDeclaration } from './declaration.ts';
 import { validateStudy } from './schema.ts';
@@ -34,15 +35,97 @@ export interface LoadedStudy {
   declaration: StudyDeclaration;
 }
 
+/** The entry point study files get for `import ... from 'rungs'`: the rungs that is running them. */
+const RUNGS_ENTRY = new URL('../index.ts', import.meta.url).href;
+
+let resolverRegistered = false;
+
+/**
+ * Lets a study file anywhere (a temporary folder, another project) import 'rungs'. Node resolves the bare name from
+ * the study's own folder upwards (a node_modules/rungs there, or this package itself for files inside it), and that
+ * answer is kept; only when that finds nothing is 'rungs' taken to mean the rungs that runs the study. Registered
+ * once per thread (workers load study files too).
+ */
+function ensureRungsResolvable(): void {
+  if (resolverRegistered || typeof register !== 'function') return;
+  resolverRegistered = true;
+  const hooks = [
+    `const entry = ${JSON.stringify(RUNGS_ENTRY)};`,
+    'export async function resolve(specifier, context, next) {',
+    '  let found;',
+    '  try { found = await next(specifier, context); }',
+    "  catch (err) { if (specifier === 'rungs' && err && err.code === 'ERR_MODULE_NOT_FOUND') return { url: entry, format: 'module', shortCircuit: true }; throw err; }",
+    // A study file is an ES module (it must `export default`), also where no package.json says "type": "module".
+    "  if (/\\.study\\.(ts|js)$/.test(found.url.split('?')[0]) && found.format === 'commonjs') return { ...found, format: 'module' };",
+    '  return found;',
+    '}',
+  ].join('\n');
+  try {
+    register(`data:text/javascript,${encodeURIComponent(hooks)}`);
+  } catch {
+    // Without loader hooks (an embedding that forbids them) the message of loadStudy says where studies may live.
+  }
+}
+
+const ANSI = /\u001b\[[0-9;]*m/g;
+
+export interface LoadErrorPlace {
+  line: number;
+  column: number;
+  /** True for a syntax error (the file could not be compiled), false for an error thrown while it ran. */
+  syntax: boolean;
+  /** The one-line reason. */
+  reason: string;
+}
+
+/** Where in the study file a load error happened, from a transform error (esbuild under tsx, oxc under vitest), a
+ *  Node SyntaxError or the stack of an error the file threw; null when its text does not locate it there. */
+export function locateLoadError(err: unknown, absFile: string): LoadErrorPlace | null {
+  if (!(err instanceof Error)) return null;
+  const text = `${err.message}\n${err.stack ?? ''}`.replace(ANSI, '');
+  const base = absFile.split(/[\\/]/).pop()!;
+  const escaped = base.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+  const syntax = /^Transform failed/.test(err.message) || err.name === 'SyntaxError' || err.name === 'TransformError';
+  // path:line:column as transformers and stack frames print it ("/x/a.study.ts:4:15: ERROR: ...", "[ a.study.ts:4:16 ]").
+  const at = new RegExp(`(?:^|[\\s\\[(/\\\\])${escaped}:(\\d+):(\\d+)`, 'm').exec(text);
+  if (at) return { line: Number(at[1]), column: Number(at[2]), syntax, reason: explain(err, text) };
+  // Node's own SyntaxError for .study.js / .mjs: "file:///x/a.study.mjs:4" then the source line and a caret line.
+  const node = new RegExp(`${escaped}:(\\d+)\\n(.*)\\n(\\s*)\\^`).exec(text);
+  if (node) return { line: Number(node[1]), column: node[3].length + 1, syntax: true, reason: err.message.split('\n')[0] };
+  return null;
+}
+
+/** The one-line reason of a transform error: its "ERROR: ..." or "[PARSE_ERROR] ..." text, else the first line. */
+function explain(err: Error, text: string): string {
+  const esbuild = /:\d+:\d+: ERROR: (.*)/.exec(text);
+  if (esbuild) return esbuild[1].trim();
+  const oxc = /\[PARSE_ERROR\]\s*(.*)/.exec(text);
+  if (oxc) return oxc[1].trim();
+  return err.message.split('\n')[0];
+}
+
 /** Imports a study module and validates its default export. */
 export async function loadStudy(file: string): Promise<LoadedStudy> {
   const shown = relative(process.cwd(), file) || file;
+  const abs = resolve(file);
+  ensureRungsResolvable();
   let mod: Record<string, unknown>;
   try {
-    mod = (await import(pathToFileURL(resolve(file)).href)) as Record<string, unknown>;
+    mod = (await import(pathToFileURL(abs).href)) as Record<string, unknown>;
   } catch (err) {
     const msg = err instanceof Error ? err.message.split('\n')[0] : String(err);
-    throw new RungsInputError(`${shown}: the study file threw while loading: ${msg}`, shown);
+    const code = (err as NodeJS.ErrnoException | null)?.code;
+    if (code === 'ERR_MODULE_NOT_FOUND' && /['"]rungs['"]/.test(msg)) {
+      throw new RungsInputError(
+        `${shown}: import 'rungs' could not be resolved from ${dirname(abs)}; run study files with the rungs command ` +
+        `(which lends them its own copy wherever they live), or install rungs in a node_modules folder above the study`, shown);
+    }
+    const place = locateLoadError(err, abs);
+    if (place?.syntax) {
+      throw new RungsInputError(`${shown}:${place.line}:${place.column}: syntax error at line ${place.line}, column ${place.column}: ${place.reason}; fix the study file there`, shown);
+    }
+    const where = place ? ` (at line ${place.line}, column ${place.column})` : '';
+    throw new RungsInputError(`${shown}: the study file threw while loading: ${msg}${where}`, shown);
   }
   if (!('default' in mod) || mod.default === undefined) {
     throw new RungsInputError(`${shown}: no default export; a study file must \`export default defineStudy({ ... })\``, shown);

@@ -8,6 +8,9 @@ import { resolveBoundary, type BoundaryByName, type BoundaryParts } from './boun
 import { constantDependence } from '../equation/mean-free.ts';
 import { compileOutputs } from '../exact/compile.ts';
 import { domainMean } from './domain-mean.ts';
+import { domainSamples } from '../exact/domain-samples.ts';
+import { checkScalarData } from '../exact/coefficient-checks.ts';
+import type { Mesh } from '../mesh/types.ts';
 
 /** The PDE data of a study, derived once from its exact solution and coefficients. */
 export interface StudyProblem {
@@ -92,6 +95,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   let alpha: ((x: number, y: number, z: number) => number) | undefined;
   if (bd.robin) alpha = compileFormula(String(bd.robin.alpha), 'boundary.robin.alpha', dim);
   const symmetric = decl.pde ? pde.preset?.name === 'diffusion-convection-reaction' && pde.preset.args.b === undefined : !coef.b;
+  if (exact) warnings.push(...sampledChecks(decl, exact, coef, parts, alpha, where, file));
   if (!exact) return { exact, coefficients: {}, boundary: {}, parts, byName, warnings, symmetric, derived, pde };
   const ex = exact;
   const coefficients: FormCoefficients = {
@@ -199,4 +203,50 @@ function meanFreeChecks(
     }
   }
   return warnings;
+}
+
+/** Cells (per unit of length, a power of two so that vertices fall on x = 0.5, 0.25, …) of the extra sampling mesh of
+ *  a built-in domain: about 1024 squares or intervals, a few milliseconds of evaluation per formula. */
+function samplingN(box: readonly (readonly [number, number])[]): number {
+  const volume = box.reduce((v, [lo, hi]) => v * (hi - lo), 1);
+  return 2 ** Math.max(0, Math.floor(Math.log2((1024 / volume) ** (1 / box.length))));
+}
+
+/**
+ * Today's scalar equation sampled over meshes of the domain (the first level's, and for a built-in domain a finer
+ * one): formulas finite where they are evaluated, and for rungs's own solver coefficients that keep the form coercive
+ * (k > 0, α ≥ 0, c not outweighing the diffusion). Runs before any level, so a bad coefficient is named as such
+ * instead of surfacing as a singular matrix.
+ */
+function sampledChecks(
+  decl: StudyDeclaration, exact: ManufacturedSolution, coef: NonNullable<StudyDeclaration['coefficients']>, parts: BoundaryParts,
+  alpha: ((x: number, y: number, z: number) => number) | undefined, where: string, file: string,
+): string[] {
+  const meshes: Mesh[] = [];
+  const n0 = decl.ladder.n[0]!;
+  try {
+    meshes.push(decl.domain.mesh(n0));
+    const ns = samplingN(decl.domain.bbox);
+    if (decl.domain.kind !== 'custom' && ns > n0) meshes.push(decl.domain.mesh(ns));
+  } catch {
+    return [];   // a domain that cannot be meshed is reported by the first level, with its level and n
+  }
+  const box = decl.domain.bbox;
+  const isBox = decl.domain.kind === 'interval' || decl.domain.kind === 'rectangle';
+  try {
+    return checkScalarData({
+      exact,
+      samples: domainSamples(meshes),
+      given: { k: coef.k !== undefined, b: coef.b !== undefined, c: coef.c !== undefined },
+      robin: alpha && parts.robin.length ? { alpha, tags: parts.robin } : undefined,
+      dirichlet: parts.dirichlet.length > 0,
+      dirichletEverywhere: parts.neumann.length === 0 && parts.robin.length === 0 && parts.dirichlet.length > 0,
+      boxSides: isBox ? box.map(([lo, hi]) => hi - lo) : null,
+      bboxSides: box.map(([lo, hi]) => hi - lo),
+      signs: decl.discretization.kind === 'lagrange',
+    });
+  } catch (err) {
+    if (err instanceof RungsInputError) throw new RungsInputError(`${where}: ${err.message}`, file);
+    throw err;
+  }
 }

@@ -98,6 +98,7 @@ export const studySchema = z.object({
     errorFraction: z.number().min(0).max(1).optional(),
   }).strict().optional(),
   baselineTolerance: z.number().positive().optional(),
+  memoryBudgetMB: z.number().positive({ message: 'expected a positive number of megabytes (2^20 bytes), such as 4096' }).finite().optional(),
 }).strict().superRefine((s, ctx) => {
   if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
     ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });

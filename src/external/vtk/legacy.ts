@@ -7,36 +7,43 @@
 // Truncation is found by structure: every declared count must be met before the next keyword or the end of the file,
 // each count must fit in what is left of the file before anything is allocated, and the file must end with a line
 // break (every VTK writer ends its last line), so a file cut inside its last number ("0.12345" cut to "0.12") is
-// refused. A file cut exactly at the end of a complete optional section (a second SCALARS array, CELL_DATA) cannot be
+// refused. The file is read chunk by chunk (source.ts), so memory holds the grid being built and one chunk of text,
+// never the whole file. A file cut exactly at the end of a complete optional section (a second SCALARS array, CELL_DATA) cannot be
 // told from a shorter file; the reader then returns what that shorter file holds.
 import { placeOf, type LevelRef } from '../where.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { VtkGrid, VtkPointArray } from './grid.ts';
 import { readNumbers, TokenCursor } from './number-reader.ts';
+import { bufferSource, CHUNK_BYTES, utf8, type ByteSource } from './source.ts';
 import { parseDigits } from '../../csv/read.ts';
 
 const ATTRIBUTE_KEYWORDS = 'POINTS, CELLS, CELL_TYPES, POINT_DATA, CELL_DATA, SCALARS, LOOKUP_TABLE, VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS, FIELD, METADATA';
 
-/** Parses a legacy ASCII VTK unstructured grid; every problem names the level, the file and the line. */
-export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkGrid {
+/** Parses legacy ASCII VTK text (as the tests and callers holding text do); see readLegacyVtk. */
+export function parseLegacyVtk(text: string, file: string, ref?: LevelRef, chunkBytes?: number): VtkGrid {
+  return readLegacyVtk(bufferSource(Buffer.from(text, 'utf8')), file, ref, chunkBytes);
+}
+
+/** Reads a legacy ASCII VTK unstructured grid chunk by chunk; every problem names the level, the file and the line. */
+export function readLegacyVtk(source: ByteSource, file: string, ref?: LevelRef, chunkBytes = CHUNK_BYTES): VtkGrid {
   const fail = (line: number, message: string): never => {
     throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
   };
-  const headerEnd: number[] = [];
-  for (let p = -1, k = 0; k < 3; k++) {
-    p = text.indexOf('\n', p + 1);
-    if (p < 0) fail(k + 1, `the file ends inside its ${k + 1 === 1 ? 'version' : k + 1 === 2 ? 'title' : 'format'} line; a legacy VTK file starts with "# vtk DataFile Version x.y", a title line and "ASCII"`);
-    headerEnd.push(p);
+  const cur = new TokenCursor(source, file, ref, 0, 1, source.size, chunkBytes);
+  const header: string[] = [];
+  for (let k = 0; k < 3; k++) {
+    const line = cur.restOfLine();
+    if (line === null) fail(k + 1, `the file ends inside its ${k + 1 === 1 ? 'version' : k + 1 === 2 ? 'title' : 'format'} line; a legacy VTK file starts with "# vtk DataFile Version x.y", a title line and "ASCII"`);
+    header.push(utf8(line!));
   }
-  const line1 = text.slice(0, headerEnd[0]).replace(/^\uFEFF/, '').trim();
+  const line1 = header[0]!.replace(/^\uFEFF/, '').trim();
   if (!/^#\s*vtk\s+DataFile\s+Version\s+\d+(\.\d+)?\s*$/i.test(line1)) {
     fail(1, `not a legacy VTK file: the first line is "${line1.slice(0, 60)}", expected "# vtk DataFile Version x.y"`);
   }
-  const format = text.slice(headerEnd[1]! + 1, headerEnd[2]).trim().toUpperCase();
+  const format = header[2]!.trim().toUpperCase();
   if (format === 'BINARY') fail(3, 'BINARY legacy VTK files are not read; write the file as ASCII');
   if (format !== 'ASCII') fail(3, `the third line must be ASCII, found "${format.slice(0, 40)}"`);
 
-  const cur = new TokenCursor(text, file, ref, headerEnd[2]! + 1, 4);
   let dataset = false;
   let nPoints = -1;
   let points = new Float64Array(0);
@@ -121,7 +128,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
             }
             const k = parseDigits(cur.tok) ?? -1;
             if (k < 0) {
-              cur.fail(`cell ${c + 1} of CELLS (declared at line ${at}) should start with its node count, found '${cur.tok}'` +
+              cur.fail(`cell ${c + 1} of CELLS (declared at line ${at}) should start with its node count, found '${utf8(cur.tok).slice(0, 40)}'` +
                 (/^[A-Za-z_]/.test(cur.tok) ? ': the count in the file does not match the declared count' : ''));
             }
             used += 1 + k;
@@ -225,7 +232,7 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
         cur.skipPastBlankLine();
         break;
       default:
-        cur.fail(`unexpected '${cur.tok.slice(0, 40)}'; expected one of the keywords ${ATTRIBUTE_KEYWORDS}`);
+        cur.fail(`unexpected '${utf8(cur.tok).slice(0, 40)}'; expected one of the keywords ${ATTRIBUTE_KEYWORDS}`);
     }
   }
 
@@ -241,9 +248,9 @@ export function parseLegacyVtk(text: string, file: string, ref?: LevelRef): VtkG
     }
   }
   // Every writer ends the file with a line break; without it the last number may have been cut short.
-  const tail = text.replace(/[ \t]+$/, '');
-  if (!tail.endsWith('\n') && !tail.endsWith('\r')) {
-    fail(endLine, `the file does not end with a line break, so its last line may be cut off (truncated file?): '${cur.tok.slice(0, 40)}' ` +
+  const last = cur.w.lastNonBlank;
+  if (last !== 10 && last !== 13) {
+    fail(endLine, `the file does not end with a line break, so its last line may be cut off (truncated file?): '${utf8(cur.tok).slice(0, 40)}' ` +
       'may be part of a longer number; a complete legacy VTK file ends with a line break');
   }
   return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine };

@@ -6,18 +6,29 @@
 // exactly the number of values its declared counts give. Counts are checked against the characters of their
 // DataArray and a hard limit before anything is allocated.
 import { RungsInputError } from '../../errors.ts';
-import { lineAt, placeOf, type LevelRef } from '../where.ts';
+import { placeOf, type LevelRef } from '../where.ts';
 import type { VtkGrid, VtkPointArray } from './grid.ts';
 import { MAX_ENTRIES, readNumbers, TokenCursor } from './number-reader.ts';
 import { parseDigits } from '../../csv/read.ts';
-import { childrenNamed, parseXml, type XmlElement } from './xml.ts';
+import { childrenNamed, scanXml, type XmlElement } from './xml.ts';
+import { bufferSource, CHUNK_BYTES, type ByteSource } from './source.ts';
 
-/** Parses a .vtu file with ASCII data; every problem names the level, the file and the line. */
-export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
+/** Parses .vtu text (as the tests and callers holding text do); see readVtu. */
+export function parseVtu(text: string, file: string, ref?: LevelRef, chunkBytes?: number): VtkGrid {
+  return readVtu(bufferSource(Buffer.from(text, 'utf8')), file, ref, chunkBytes);
+}
+
+/**
+ * Reads a .vtu file with ASCII data in two passes over its bytes, a chunk at a time: the XML structure first (the
+ * data's byte ranges located and checked, not kept), then each DataArray rungs needs, parsed from its range straight
+ * into typed arrays. Every problem names the level, the file and the line.
+ */
+export function readVtu(source: ByteSource, file: string, ref?: LevelRef, chunkBytes = CHUNK_BYTES): VtkGrid {
   const fail = (line: number, message: string): never => {
     throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
   };
-  const root = parseXml(text, file, ref);
+  const { root, endLine } = scanXml(source, file, ref, chunkBytes);
+  const data = { source, chunkBytes };
   if (root.name !== 'VTKFile') fail(root.line, `the root element is <${root.name}>, expected <VTKFile type="UnstructuredGrid">`);
   if (root.attrs.type !== 'UnstructuredGrid') fail(root.line, `VTKFile type="${root.attrs.type ?? ''}" is not read; rungs reads type="UnstructuredGrid"`);
   const appended = childrenNamed(root, 'AppendedData')[0];
@@ -35,7 +46,7 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
   if (components !== '3') fail(pointsArray.line, `the Points DataArray has NumberOfComponents="${pointsArray.attrs.NumberOfComponents ?? ''}"; VTK points have 3`);
   room(pointsArray, nPoints * 3, `coordinates of NumberOfPoints="${nPoints}"`, fail);
   const points = new Float64Array(nPoints * 3);
-  readArray(text, file, ref, pointsArray, nPoints * 3, points, false, `coordinates of NumberOfPoints="${nPoints}"`, fail);
+  readArray(data, file, ref, pointsArray, nPoints * 3, points, false, `coordinates of NumberOfPoints="${nPoints}"`, fail);
 
   const cellsEl = one(piece, 'Cells', fail);
   const byName = (name: string): XmlElement => {
@@ -46,7 +57,7 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
   const offsetsEl = byName('offsets');
   room(offsetsEl, nCells, `offsets of NumberOfCells="${nCells}"`, fail);
   const ends = new Int32Array(nCells);
-  readArray(text, file, ref, offsetsEl, nCells, ends, true, `offsets of NumberOfCells="${nCells}"`, fail);
+  readArray(data, file, ref, offsetsEl, nCells, ends, true, `offsets of NumberOfCells="${nCells}"`, fail);
   const offsets = new Int32Array(nCells + 1);
   for (let c = 0; c < nCells; c++) {
     if (!(ends[c]! >= offsets[c]!)) fail(offsetsEl.textLine, `offsets must not decrease: entry ${c + 1} is ${ends[c]} after ${offsets[c]}`);
@@ -57,12 +68,12 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
   room(connEl, total, `connectivity entries the offsets declare (last offset ${total})`, fail);
   const connectivity = new Int32Array(total);
   const connectivityLines = new Int32Array(total);
-  readArray(text, file, ref, connEl, total, connectivity, true, `connectivity entries the offsets declare (last offset ${total})`, fail, connectivityLines);
+  readArray(data, file, ref, connEl, total, connectivity, true, `connectivity entries the offsets declare (last offset ${total})`, fail, connectivityLines);
   const typesEl = byName('types');
   room(typesEl, nCells, `types of NumberOfCells="${nCells}"`, fail);
   const types = new Int32Array(nCells);
   const typeLines = new Int32Array(nCells);
-  readArray(text, file, ref, typesEl, nCells, types, true, `types of NumberOfCells="${nCells}"`, fail, typeLines);
+  readArray(data, file, ref, typesEl, nCells, types, true, `types of NumberOfCells="${nCells}"`, fail, typeLines);
 
   const pointData: VtkPointArray[] = [];
   for (const pd of childrenNamed(piece, 'PointData')) {
@@ -73,11 +84,11 @@ export function parseVtu(text: string, file: string, ref?: LevelRef): VtkGrid {
       if (comps < 1 || comps > 64) fail(da.line, `DataArray "${name}" has NumberOfComponents="${da.attrs.NumberOfComponents}"; expected an integer from 1 to 64 written with digits`);
       room(da, nPoints * comps, `values of point data "${name}"`, fail);
       const values = new Float64Array(nPoints * comps);
-      readArray(text, file, ref, da, nPoints * comps, values, false, `values of point data "${name}" (${comps} per point, NumberOfPoints="${nPoints}")`, fail);
+      readArray(data, file, ref, da, nPoints * comps, values, false, `values of point data "${name}" (${comps} per point, NumberOfPoints="${nPoints}")`, fail);
       pointData.push({ name, components: comps, values, line: da.line });
     }
   }
-  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine: lineAt(text, text.length) };
+  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine };
 }
 
 type Fail = (line: number, message: string) => never;
@@ -96,7 +107,7 @@ function countAttr(el: XmlElement, name: string, fail: Fail): number {
   return v!;
 }
 
-/** Before allocating: `count` values need at most MAX_ENTRIES and at least 2·count − 1 characters of the DataArray. */
+/** Before allocating: `count` values need at most MAX_ENTRIES and at least 2·count − 1 characters (bytes) of the DataArray. */
 function room(el: XmlElement, count: number, what: string, fail: Fail): void {
   const name = el.attrs.Name ? ` "${el.attrs.Name}"` : '';
   checkAscii(el, fail);
@@ -111,12 +122,12 @@ function room(el: XmlElement, count: number, what: string, fail: Fail): void {
 
 /** Reads exactly `count` numbers from an ASCII DataArray; more or fewer than declared is an error. */
 function readArray(
-  text: string, file: string, ref: LevelRef | undefined, el: XmlElement, count: number, into: Float64Array | Int32Array,
+  data: { source: ByteSource; chunkBytes: number }, file: string, ref: LevelRef | undefined, el: XmlElement, count: number, into: Float64Array | Int32Array,
   integers: boolean, what: string, fail: Fail, lines?: Int32Array,
 ): void {
   const name = el.attrs.Name ? ` "${el.attrs.Name}"` : '';
   checkAscii(el, fail);
-  const cur = new TokenCursor(text, file, ref, el.textStart, el.textLine, el.textEnd);
+  const cur = new TokenCursor(data.source, file, ref, el.textStart, el.textLine, el.textEnd, data.chunkBytes);
   cur.endWhat = `the DataArray${name} ends`;
   readNumbers(cur, count, { what, declaredAt: el.line, item: 'value' }, into, integers, 0, lines);
   if (cur.next()) cur.fail(`DataArray${name} (line ${el.line}) holds more values than the ${count} ${what}: the counts do not match`);

@@ -6,14 +6,15 @@
 // bare & is an error. Well-formedness that catches truncation and damage: one root element closed at the end,
 // matching tags, no attribute twice, no < in attribute values, no text outside the root or beside child elements.
 import { RungsInputError } from '../../errors.ts';
-import { lineAt, placeOf, type LevelRef } from '../where.ts';
+import { placeOf, type LevelRef } from '../where.ts';
+import { bufferSource, ByteWindow, CHUNK_BYTES, utf8, type ByteSource } from './source.ts';
 
 export interface XmlElement {
   name: string;
   attrs: Record<string, string>;
   children: XmlElement[];
   line: number;
-  /** Character range and first line of the element's content (meaningful for leaf elements). */
+  /** Byte range in the file and first line of the element's content (meaningful for leaf elements). */
   textStart: number;
   textEnd: number;
   textLine: number;
@@ -42,81 +43,162 @@ function decode(value: string, fail: (offset: number, message: string) => never)
   });
 }
 
-/** Parses the text into its root element; malformed input throws a RungsInputError naming file and line. */
-export function parseXml(text: string, file: string, ref?: LevelRef): XmlElement {
+/** The root element and the line the file ends on. */
+export interface XmlDocument {
+  root: XmlElement;
+  endLine: number;
+}
+
+/** Parses XML text into its root element; see scanXml. */
+export function parseXml(text: string, file: string, ref?: LevelRef, chunkBytes?: number): XmlElement {
+  return scanXml(bufferSource(Buffer.from(text, 'utf8')), file, ref, chunkBytes).root;
+}
+
+/** Offset of the first character in text[from, to) that is not a blank, tab or line break, or -1. */
+function firstNonBlank(text: string, from: number, to: number): number {
+  for (let p = from; p < to; p++) {
+    const c = text.charCodeAt(p);
+    if (c !== 32 && c !== 9 && c !== 13 && c !== 10) return p;
+  }
+  return -1;
+}
+
+/** Number of line breaks in text[from, to). */
+function breaks(text: string, from: number, to: number): number {
+  let n = 0;
+  for (let p = text.indexOf('\n', from); p >= 0 && p < to; p = text.indexOf('\n', p + 1)) n++;
+  return n;
+}
+
+/**
+ * Scans the XML of a source chunk by chunk into its elements (the text of leaf elements is checked — references,
+ * placement — and located by its byte range, not kept). Malformed input throws a RungsInputError naming file and line.
+ * Markup (a tag, a comment, a declaration) must fit in the window's limit (MAX_PIECE_BYTES); text need not.
+ */
+export function scanXml(source: ByteSource, file: string, ref?: LevelRef, chunkBytes = CHUNK_BYTES): XmlDocument {
   const fail = (line: number, message: string): never => {
     throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
   };
-  let pos = 0;
   let line = 1;
+  const w = new ByteWindow(source, 0, source.size, (bytes) => fail(line, `a tag, comment or declaration longer than ${bytes} bytes; VTK files hold none that long (damaged file?)`), chunkBytes);
+  w.more(0);
+  let text = w.text;
+  let pos = 0;
+  /** Reads on, keeping the window from `keep`; `pos` moves with it. */
+  const more = (keep: number): boolean => {
+    if (!w.more(keep)) return false;
+    text = w.text;
+    pos -= keep;
+    return true;
+  };
   const advance = (to: number): void => {
-    for (let p = pos; p < to; p++) if (text.charCodeAt(p) === 10) line++;
+    line += breaks(text, pos, to);
     pos = to;
+  };
+  /** Offset of `needle` at or after `from` (relative to pos, which the window keeps), reading on as needed; -1 at the end. */
+  const find = (needle: string, from: number): number => {
+    let off = from - pos;
+    for (;;) {
+      const at = text.indexOf(needle, pos + off);
+      if (at >= 0) return at;
+      off = Math.max(off, text.length - pos - needle.length + 1);
+      if (!more(pos)) return -1;
+    }
   };
   const stack: XmlElement[] = [];
   /** Line of the first non-blank text directly inside each open element (0: none yet). */
   const textAt: number[] = [];
   let root: XmlElement | null = null;
-  if (text.charCodeAt(0) === 0xfeff) pos = 1;
+  if (text.startsWith('\xEF\xBB\xBF')) pos = 3; // UTF-8 byte order mark
 
-  while (pos < text.length) {
-    let lt = text.indexOf('<', pos);
-    if (lt < 0) lt = text.length;
-    // Text between tags: references checked; outside the root, or beside child elements, only blanks are allowed.
-    const chunk = text.slice(pos, lt);
-    if (/[^ \t\r\n]/.test(chunk)) {
-      const nonBlank = chunk.search(/[^ \t\r\n]/);
-      const at = line + (chunk.slice(0, nonBlank).match(/\n/g)?.length ?? 0);
-      const open = stack[stack.length - 1];
-      if (!open) {
-        fail(at, `text '${chunk.trim().slice(0, 30)}' outside the root element${root ? ` (after </${root.name}>)` : ''}; an XML file holds one root element and only blanks around it`);
+  for (;;) {
+    // Text up to the next '<', a window at a time: references checked; outside the root, or beside child elements,
+    // only blanks are allowed.
+    let lt = -1;
+    let seenText = false;
+    for (;;) {
+      lt = text.indexOf('<', pos);
+      let to = lt >= 0 ? lt : text.length;
+      if (lt < 0 && !w.done) {
+        // A reference cut by the end of the window is checked whole in the next one.
+        const amp = text.lastIndexOf('&');
+        if (amp >= pos && amp > text.length - 16) to = amp;
       }
-      if (open!.children.length) {
-        fail(at, `text '${chunk.trim().slice(0, 30)}' beside the child elements of <${open!.name}> (line ${open!.line}); VTK elements hold either elements or data, not both`);
+      const nonBlank = firstNonBlank(text, pos, to);
+      if (nonBlank >= 0 && !seenText) {
+        seenText = true;
+        const at = line + breaks(text, pos, nonBlank);
+        const open = stack[stack.length - 1];
+        /** The text quoted in a message, the same wherever the window ends: up to the next '<', 30 characters. */
+        const shown = (): string => {
+          const abs = w.base + nonBlank;
+          while (w.base + text.length < abs + 120 && more(pos));
+          const s = text.slice(abs - w.base, abs - w.base + 120);
+          return utf8(s.includes('<') ? s.slice(0, s.indexOf('<')) : s).trim().slice(0, 30);
+        };
+        if (!open) {
+          fail(at, `text '${shown()}' outside the root element${root ? ` (after </${root.name}>)` : ''}; an XML file holds one root element and only blanks around it`);
+        }
+        if (open!.children.length) {
+          fail(at, `text '${shown()}' beside the child elements of <${open!.name}> (line ${open!.line}); VTK elements hold either elements or data, not both`);
+        }
+        if (!textAt[stack.length - 1]) textAt[stack.length - 1] = at;
       }
-      decode(chunk, (offset, message) => fail(lineAt(text, pos + offset), message));
-      if (!textAt[stack.length - 1]) textAt[stack.length - 1] = at;
+      const amp = nonBlank >= 0 ? text.indexOf('&', nonBlank) : -1;
+      if (amp >= 0 && amp < to) {
+        const chunk = utf8(text.slice(pos, to));
+        decode(chunk, (offset, message) => fail(line + breaks(chunk, 0, offset), message));
+      }
+      advance(to);
+      if (lt >= 0 || !more(pos)) break;
     }
-    if (lt >= text.length) { advance(text.length); break; }
-    advance(lt);
+    if (lt < 0) break;
+    // Markup: make sure its opening characters are in the window.
+    if (text.length - pos < 9) more(pos);
     if (text.startsWith('<?', pos)) {
-      const end = text.indexOf('?>', pos);
+      const end = find('?>', pos);
       if (end < 0) fail(line, 'the file ends inside a <? … ?> declaration (truncated file?)');
       advance(end + 2);
     } else if (text.startsWith('<!--', pos)) {
-      const end = text.indexOf('-->', pos);
+      const end = find('-->', pos + 4);
       if (end < 0) fail(line, 'the file ends inside a comment (truncated file?)');
       advance(end + 3);
     } else if (text.startsWith('<![CDATA[', pos)) {
       fail(line, 'CDATA sections are not read; write the DataArrays as plain ASCII numbers');
     } else if (text.startsWith('<!', pos)) {
-      const end = text.indexOf('>', pos);
+      const end = find('>', pos);
       if (end < 0) fail(line, 'the file ends inside a <! … > declaration (truncated file?)');
-      if (!text.startsWith('<!DOCTYPE', pos)) fail(line, `unknown declaration '${text.slice(pos, pos + 12)}'; XML allows <!-- comments --> and <!DOCTYPE …>`);
+      if (!text.startsWith('<!DOCTYPE', pos)) fail(line, `unknown declaration '${utf8(text.slice(pos, pos + 12))}'; XML allows <!-- comments --> and <!DOCTYPE …>`);
       if (text.slice(pos, end).includes('[')) fail(line, 'a DOCTYPE with an internal subset ([ … ]) is not read; VTK files need no DOCTYPE');
       advance(end + 1);
     } else if (text.startsWith('</', pos)) {
-      const end = text.indexOf('>', pos);
+      const end = find('>', pos);
       if (end < 0) fail(line, 'the file ends inside a closing tag (truncated file?)');
-      const name = text.slice(pos + 2, end).trim();
+      const name = utf8(text.slice(pos + 2, end).trim());
       const open = stack.pop();
       textAt.length = stack.length;
       if (!open) fail(line, `closing tag </${name}> without an opening tag`);
       if (open!.name !== name) fail(line, `closing tag </${name}> does not match <${open!.name}> opened at line ${open!.line}`);
-      open!.textEnd = pos;
+      open!.textEnd = w.base + pos;
       advance(end + 1);
     } else {
       const tagLine = line;
       let p = pos + 1;
       let quote = 0;
-      while (p < text.length) {
-        const c = text.charCodeAt(p);
-        if (quote) { if (c === quote) quote = 0; } else if (c === 34 || c === 39) quote = c; else if (c === 62) break;
-        p++;
+      for (;;) {
+        while (p < text.length) {
+          const c = text.charCodeAt(p);
+          if (quote) { if (c === quote) quote = 0; } else if (c === 34 || c === 39) quote = c; else if (c === 62) break;
+          p++;
+        }
+        if (p < text.length) break;
+        const keep = pos;
+        if (!more(pos)) break;
+        p -= keep;
       }
       if (p >= text.length) fail(tagLine, 'the file ends inside a tag (truncated file?)');
       const selfClosing = text.charCodeAt(p - 1) === 47;
-      const inner = text.slice(pos + 1, selfClosing ? p - 1 : p);
+      const inner = utf8(text.slice(pos + 1, selfClosing ? p - 1 : p));
       const nameMatch = /^([A-Za-z_:][-A-Za-z0-9_:.]*)/.exec(inner);
       if (!nameMatch) fail(tagLine, `malformed tag "<${inner.slice(0, 40)}>"`);
       const name = nameMatch![1]!;
@@ -126,16 +208,17 @@ export function parseXml(text: string, file: string, ref?: LevelRef): XmlElement
       let m: RegExpExecArray | null;
       let at = 0;
       while ((m = attrRe.exec(rest)) !== null) {
-        const attrLine = tagLine + (inner.slice(0, name.length + m.index + m[0].search(/\S/)).match(/\n/g)?.length ?? 0);
+        const attrLine = tagLine + breaks(inner, 0, name.length + m.index + m[0].search(/\S/));
         const raw = m[2] ?? m[3] ?? '';
         if (Object.hasOwn(attrs, m[1]!)) fail(attrLine, `attribute ${m[1]} appears twice in <${name}>`);
         if (raw.includes('<')) fail(attrLine, `attribute ${m[1]} of <${name}> holds '<', which XML does not allow in attribute values (write &lt;)`);
-        attrs[m[1]!] = decode(raw, (offset, message) => fail(lineAt(text, pos + 1 + name.length + m!.index + m![0].indexOf(raw) + offset), message));
+        const valueAt = name.length + m.index + m[0].indexOf(raw);
+        attrs[m[1]!] = decode(raw, (offset, message) => fail(tagLine + breaks(inner, 0, valueAt + offset), message));
         at = attrRe.lastIndex;
       }
       if (rest.slice(at).trim() !== '') fail(tagLine, `malformed attributes in <${name}>: "${rest.slice(at).trim().slice(0, 40)}"; write name="value" pairs separated by blanks`);
       advance(p + 1);
-      const el: XmlElement = { name, attrs, children: [], line: tagLine, textStart: pos, textEnd: pos, textLine: line };
+      const el: XmlElement = { name, attrs, children: [], line: tagLine, textStart: w.base + pos, textEnd: w.base + pos, textLine: line };
       if (stack.length) {
         const parent = stack[stack.length - 1]!;
         const textLine = textAt[stack.length - 1];
@@ -151,7 +234,7 @@ export function parseXml(text: string, file: string, ref?: LevelRef): XmlElement
     fail(line, `the file ends before </${open.name}> (opened at line ${open.line}): truncated file?`);
   }
   if (!root) fail(1, 'no XML element in the file');
-  return root!;
+  return { root: root!, endLine: line };
 }
 
 /** Child elements with the given name. */
