@@ -1,10 +1,10 @@
-// Shared facets of a mesh read from a file, found without a hash map: every facet occurrence ("slot", numbered
+// Shared facets of a mesh read from a file, found without a hash map. Every facet occurrence ("slot", numbered
 // cell * facetsPerCell + local facet, so slots ascend in the order a loop over cells and their facets meets them) is
-// keyed by its sorted vertex numbers, and the slots are ordered by (key, slot) with one stable counting sort per key
-// digit, least significant first. Equal keys then form runs whose slots ascend, so each run tells a facet's first
-// occurrence, how many cells share it and which occurrences come second and third: everything the boundary search
-// (src/mesh's findBoundaryFacets, ../tetra-facets.ts) and the fold check (overlap.ts, check 1) read from their maps,
-// in the same order, in O(slots + vertices) time and memory on typed arrays.
+// keyed by its sorted vertex numbers and grouped with counting sorts that keep slots ascending within a key: edges by
+// their smaller vertex (edgeTable), faces by all three vertices, least significant first (faceTable). Each group
+// then tells a facet's first occurrence, how many cells share it and which occurrences come second and third:
+// everything the boundary search (src/mesh's findBoundaryFacets, ../tetra-facets.ts) and the fold check (overlap.ts,
+// check 1) read from their maps, in the same order, in O(slots + vertices) time and memory on typed arrays.
 
 /** Outward faces of a positively oriented tetrahedron (0, 1, 2, 3); face f is opposite vertex f. */
 export const TET_FACES: readonly (readonly [number, number, number])[] = [[1, 2, 3], [0, 3, 2], [0, 1, 3], [0, 2, 1]];
@@ -98,18 +98,57 @@ function scanRuns(
  * CELL_EDGES, overlap.ts). Boundary edges are given as their cell runs them (two vertices each): exactly src/mesh's
  * findBoundaryFacets when no edge has more than two cells. Two occurrences run the same way when both go from the
  * smaller vertex number to the larger or both the other way.
+ *
+ * One counting sort by the smaller vertex suffices here: within the bucket of vertex v (slots ascending), the
+ * occurrences of edge (v, w) are told apart by w with arrays over the vertices, stamped with v, so each bucket costs
+ * its length whatever the vertex's degree.
  */
 export function edgeTable(nc: number, nVertices: number, cells: Int32Array): FacetTable {
   const nSlots = cells.length;
-  const lo = new Int32Array(nSlots), hi = new Int32Array(nSlots);
-  const side = new Uint8Array(nSlots);
+  const start = new Int32Array(nVertices + 1);
   for (let s = 0; s < nSlots; s++) {
     const a = cells[s]!, b = cells[s % nc === nc - 1 ? s + 1 - nc : s + 1]!;
-    if (a < b) { lo[s] = a; hi[s] = b; } else { lo[s] = b; hi[s] = a; side[s] = 1; }
+    start[(a < b ? a : b) + 1]!++;
   }
-  const order = sortSlots([lo, hi], nVertices);
+  for (let v = 0; v < nVertices; v++) start[v + 1]! += start[v]!;
+  const order = new Int32Array(nSlots);
+  const fill = start.slice(0, nVertices);
+  for (let s = 0; s < nSlots; s++) {
+    const a = cells[s]!, b = cells[s % nc === nc - 1 ? s + 1 - nc : s + 1]!;
+    order[fill[a < b ? a : b]!++] = s;
+  }
+  // Per other end w of the bucket's edges: the bucket that last saw it, its first slot, how often it was seen.
+  const stamp = fill.fill(-1), first = new Int32Array(nVertices), seen = new Int32Array(nVertices);
   const mark = new Uint8Array(nSlots);
-  const { nBoundary, maxShare, problem } = scanRuns(order, lo, hi, null, side, nc, mark);
+  let maxShare = 0, nBoundary = 0, best = -1, bestOther = -1, bestSame = false;
+  for (let v = 0; v < nVertices; v++) {
+    const r0 = start[v]!, r1 = start[v + 1]!;
+    for (let r = r0; r < r1; r++) {
+      const s = order[r]!;
+      const a = cells[s]!, b = cells[s % nc === nc - 1 ? s + 1 - nc : s + 1]!;
+      const w = a < b ? b : a;
+      if (stamp[w] !== v) { stamp[w] = v; first[w] = s; seen[w] = 1; continue; }
+      const k = ++seen[w]!;
+      if (k === 2) {
+        const s0 = first[w]!, b0 = cells[s0 % nc === nc - 1 ? s0 + 1 - nc : s0 + 1]!;
+        // Same way: both occurrences start at the same end (their ends are {v, w}).
+        if (cells[s0] === a && b0 === b && (best < 0 || s < best)) { best = s; bestOther = s0; bestSame = true; }
+      } else if (k === 3 && (best < 0 || s < best)) {
+        best = s; bestOther = first[w]!; bestSame = false;
+      }
+    }
+    for (let r = r0; r < r1; r++) {
+      const s = order[r]!;
+      const a = cells[s]!, b = cells[s % nc === nc - 1 ? s + 1 - nc : s + 1]!;
+      const w = a < b ? b : a;
+      const k = seen[w]!;
+      if (k > maxShare) maxShare = k;
+      if (k === 1) { mark[s] = 1; nBoundary++; }
+    }
+  }
+  const problem: SharedFacetProblem | null = best < 0 ? null : {
+    kind: bestSame ? 'same-side' : 'third', slot: best, cell: Math.floor(best / nc), other: Math.floor(bestOther / nc),
+  };
   const boundary = new Int32Array(2 * nBoundary), boundaryCell = new Int32Array(nBoundary);
   let m = 0;
   for (let s = 0; s < nSlots; s++) {

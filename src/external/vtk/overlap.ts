@@ -14,6 +14,8 @@
 // homeomorphism, after 3 its boundary is embedded and the covering number is 0 outside and 1 inside. In 3D only
 // check 1 is made (overlapping tetrahedra that share no face are not found).
 
+import { TET_FACES, type FacetTable } from './facet-table.ts';
+
 /** Angle sums may miss 2π by this much (ASCII coordinates; far below the π/… of any real fold). */
 const ANGLE_TOLERANCE = 1e-6;
 
@@ -23,27 +25,28 @@ export interface OverlapProblem {
   message: string;
 }
 
-const TRI_EDGES: [number, number][] = [[0, 1], [1, 2], [2, 0]];
-const QUAD_EDGES: [number, number][] = [[0, 1], [1, 2], [2, 3], [3, 0]];
-/** Outward faces of a positively oriented tetrahedron (0, 1, 2, 3). */
-const TET_FACES: [number, number, number][] = [[1, 2, 3], [0, 3, 2], [0, 1, 3], [0, 2, 1]];
-
 /**
  * The first fold or overlap in a mesh whose cells (corner indices into `coords`, `dim` per vertex) are all positively
- * oriented, or null. `point` maps a vertex to the file's point number for messages.
+ * oriented, or null. `table` holds the cells' shared facets (facet-table.ts: edgeTable for triangles and
+ * quadrilaterals, faceTable for tetrahedra; unused for intervals). `point` maps a vertex to the file's point number
+ * for messages.
  */
 export function findOverlap(
   kind: 'interval' | 'triangle' | 'quadrilateral' | 'tetrahedron',
-  coords: Float64Array, dim: number, nVertices: number, cells: Int32Array, point: (v: number) => number,
+  coords: Float64Array, dim: number, nVertices: number, cells: Int32Array, point: (v: number) => number, table: FacetTable | null,
 ): OverlapProblem | null {
   if (kind === 'interval') return intervals(coords, cells);
-  if (kind === 'tetrahedron') return tetFaces(nVertices, cells, point);
-  return planar(kind === 'triangle' ? TRI_EDGES : QUAD_EDGES, coords, dim, nVertices, cells, point);
+  if (table === null) throw new Error(`internal: the overlap check of ${kind} cells needs their facet table`);
+  if (kind === 'tetrahedron') return tetFaces(cells, table, point);
+  return planar(kind === 'triangle' ? 3 : 4, coords, dim, nVertices, cells, table, point);
 }
 
 function intervals(x: Float64Array, cells: Int32Array): OverlapProblem | null {
   const n = cells.length / 2;
-  const order = Array.from({ length: n }, (_, c) => c).sort((a, b) => x[cells[2 * a]!]! - x[cells[2 * b]!]!);
+  // Cells by left end, ties by index (the order the stable Array sort gave), on a typed array.
+  const order = new Int32Array(n);
+  for (let c = 0; c < n; c++) order[c] = c;
+  order.sort((a, b) => x[cells[2 * a]!]! - x[cells[2 * b]!]! || a - b);
   let span = 0;
   for (let k = 0; k < x.length; k++) span = Math.max(span, Math.abs(x[k]! - x[0]!));
   const tol = 1e-12 * span;
@@ -57,83 +60,59 @@ function intervals(x: Float64Array, cells: Int32Array): OverlapProblem | null {
   return null;
 }
 
-function tetFaces(nVertices: number, cells: Int32Array, point: (v: number) => number): OverlapProblem | null {
-  // Sorted face → cell * 2 + parity of its outward order, or −1 once two cells share it.
-  const seen = new Map<string, number>();
-  const n = cells.length / 4;
-  for (let c = 0; c < n; c++) {
-    for (const f of TET_FACES) {
-      const v = [cells[4 * c + f[0]]!, cells[4 * c + f[1]]!, cells[4 * c + f[2]]!];
-      const parity = (v[0]! > v[1]! ? 1 : 0) ^ (v[0]! > v[2]! ? 1 : 0) ^ (v[1]! > v[2]! ? 1 : 0);
-      const s = v.slice().sort((a, b) => a - b);
-      const key = nVertices < 2 ** 17 ? String((s[0]! * nVertices + s[1]!) * nVertices + s[2]!) : s.join(',');
-      const had = seen.get(key);
-      const face = `(${s.map(point).join(', ')})`;
-      if (had === undefined) { seen.set(key, c * 2 + parity); continue; }
-      if (had < 0) return { cell: c, message: `cell ${c + 1} is the third cell on the face ${face}: the mesh overlaps itself there` };
-      if ((had & 1) === parity) {
-        return { cell: c, message: `cells ${(had >> 1) + 1} and ${c + 1} lie on the same side of their shared face ${face}: the mesh folds over itself (or repeats a cell)` };
-      }
-      seen.set(key, -1);
-    }
-  }
-  return null;
+function tetFaces(cells: Int32Array, table: FacetTable, point: (v: number) => number): OverlapProblem | null {
+  const p = table.problem;
+  if (p === null) return null;
+  const s = p.slot, f = TET_FACES[s & 3]!, base = s - (s & 3);
+  const v = [cells[base + f[0]]!, cells[base + f[1]]!, cells[base + f[2]]!].sort((a, b) => a - b);
+  const face = `(${v.map(point).join(', ')})`;
+  if (p.kind === 'third') return { cell: p.cell, message: `cell ${p.cell + 1} is the third cell on the face ${face}: the mesh overlaps itself there` };
+  return {
+    cell: p.cell,
+    message: `cells ${p.other + 1} and ${p.cell + 1} lie on the same side of their shared face ${face}: the mesh folds over itself (or repeats a cell)`,
+  };
 }
 
 function planar(
-  edges: [number, number][], x: Float64Array, dim: number, nVertices: number, cells: Int32Array, point: (v: number) => number,
+  nc: number, x: Float64Array, dim: number, nVertices: number, cells: Int32Array, table: FacetTable, point: (v: number) => number,
 ): OverlapProblem | null {
-  const nc = edges.length;
   const n = cells.length / nc;
   const X = (v: number) => x[v * dim]!;
   const Y = (v: number) => x[v * dim + 1]!;
-  // 1. Directed edges: key (min, max) → cell * 2 + (1 when the cell runs max → min), or −1 once shared.
-  const seen = new Map<number, number>();
-  const edgeKey = (a: number, b: number) => Math.min(a, b) * nVertices + Math.max(a, b);
-  for (let c = 0; c < n; c++) {
-    for (const [i, j] of edges) {
-      const a = cells[c * nc + i]!, b = cells[c * nc + j]!;
-      const key = edgeKey(a, b);
-      const dir = a < b ? 0 : 1;
-      const had = seen.get(key);
-      if (had === undefined) { seen.set(key, c * 2 + dir); continue; }
-      const edge = `(${point(a)}, ${point(b)})`;
-      if (had < 0) return { cell: c, message: `cell ${c + 1} is the third cell on the edge ${edge}: the mesh overlaps itself there` };
-      if ((had & 1) === dir) {
-        return { cell: c, message: `cells ${(had >> 1) + 1} and ${c + 1} lie on the same side of their shared edge ${edge}: the mesh folds over itself (or repeats a cell)` };
-      }
-      seen.set(key, -1);
-    }
+  // 1. Directed edges: the first edge, in cell order, that a second cell runs the same way or a third cell shares.
+  const prob = table.problem;
+  if (prob !== null) {
+    const p = prob, s = p.slot, a = cells[s]!, b = cells[s % nc === nc - 1 ? s + 1 - nc : s + 1]!;
+    const edge = `(${point(a)}, ${point(b)})`;
+    if (p.kind === 'third') return { cell: p.cell, message: `cell ${p.cell + 1} is the third cell on the edge ${edge}: the mesh overlaps itself there` };
+    return {
+      cell: p.cell,
+      message: `cells ${p.other + 1} and ${p.cell + 1} lie on the same side of their shared edge ${edge}: the mesh folds over itself (or repeats a cell)`,
+    };
   }
   // Boundary edges, directed with their cell on the left.
-  const bnd: number[] = [];
-  const bndCell: number[] = [];
+  const bnd = table.boundary, bndCell = table.boundaryCell;
   const onBoundary = new Uint8Array(nVertices);
-  for (const [key, had] of seen) {
-    if (had < 0) continue;
-    const lo = Math.floor(key / nVertices), hi = key - lo * nVertices;
-    const [a, b] = (had & 1) === 0 ? [lo, hi] : [hi, lo];
-    bnd.push(a, b);
-    bndCell.push(had >> 1);
-    onBoundary[a] = 1; onBoundary[b] = 1;
-  }
+  for (let k = 0; k < bnd.length; k++) onBoundary[bnd[k]!] = 1;
   // 2. Angle sums.
   const angle = new Float64Array(nVertices);
-  const anyCell = new Int32Array(nVertices);
-  for (let c = 0; c < n; c++) {
+  for (let c = 0, o = 0; c < n; c++, o += nc) {
     for (let k = 0; k < nc; k++) {
-      const v = cells[c * nc + k]!, p = cells[c * nc + (k + 1) % nc]!, q = cells[c * nc + (k + nc - 1) % nc]!;
-      const ux = X(p) - X(v), uy = Y(p) - Y(v), wx = X(q) - X(v), wy = Y(q) - Y(v);
-      angle[v] += Math.atan2(ux * wy - uy * wx, ux * wx + uy * wy);
-      anyCell[v] = c;
+      const v = cells[o + k]! * dim, p = cells[o + (k + 1 === nc ? 0 : k + 1)]! * dim, q = cells[o + (k === 0 ? nc - 1 : k - 1)]! * dim;
+      const xv = x[v]!, yv = x[v + 1]!;
+      const ux = x[p]! - xv, uy = x[p + 1]! - yv, wx = x[q]! - xv, wy = x[q + 1]! - yv;
+      angle[cells[o + k]!] += Math.atan2(ux * wy - uy * wx, ux * wx + uy * wy);
     }
   }
   for (let v = 0; v < nVertices; v++) {
     const turns = angle[v]! / (2 * Math.PI);
     const interior = !onBoundary[v];
     if (interior ? Math.abs(turns - 1) > ANGLE_TOLERANCE : turns > 1 + ANGLE_TOLERANCE) {
+      // The message names the last cell around the point.
+      let last = n - 1;
+      while (last > 0 && !cells.subarray(last * nc, last * nc + nc).includes(v)) last--;
       return {
-        cell: anyCell[v]!,
+        cell: last,
         message: `the cells around point ${point(v)} turn ${turns.toFixed(3)} times around it (${interior ? 'exactly 1 for a point inside the mesh' : 'less than 1 on the boundary'}): ` +
           'cells overlap there',
       };
@@ -144,7 +123,7 @@ function planar(
 
 /** 3. Boundary edges neither cross nor overlap, and the boundary winds zero times just outside each of them. */
 function boundaryProblem(
-  bnd: number[], bndCell: number[], X: (v: number) => number, Y: (v: number) => number, point: (v: number) => number,
+  bnd: Int32Array, bndCell: Int32Array, X: (v: number) => number, Y: (v: number) => number, point: (v: number) => number,
 ): OverlapProblem | null {
   const m = bndCell.length;
   if (m === 0) return null;

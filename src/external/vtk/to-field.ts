@@ -11,10 +11,10 @@ import { meshFromArrays } from '../../mesh/from-arrays.ts';
 import { CELL_DIM, type Mesh } from '../../mesh/types.ts';
 import { lagrangeField } from '../../fem/field/lagrange-field.ts';
 import type { DiscreteField } from '../../norms/types.ts';
-import { tetrahedronBoundaryFacets } from '../tetra-facets.ts';
 import { placeOf, type LevelRef } from '../where.ts';
 import { SUPPORTED_CELL_TYPES_TEXT, VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './cell-types.ts';
 import type { VtkGrid } from './grid.ts';
+import { edgeTable, faceTable } from './facet-table.ts';
 import { findOverlap } from './overlap.ts';
 
 /** A mid-edge node may sit this fraction of its cell's size away from the edge midpoint (ASCII round-off),
@@ -131,20 +131,27 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   const nc = t.corners;
   const cells = new Int32Array(grid.nCells * nc);
   const perms = new Uint8Array(grid.nCells); // 1 where the cell was flipped
+  const flipped = FLIP[t.cellKind]!;
   for (let c = 0; c < grid.nCells; c++) {
     const o = offsets[c]!;
     const flip = orientation(t.cellKind, coords, dim, compact, connectivity, o) < 0;
     perms[c] = flip ? 1 : 0;
-    for (let i = 0; i < nc; i++) cells[c * nc + i] = compact[connectivity[o + (flip ? FLIP[t.cellKind]![i]! : i)]!]!;
+    for (let i = 0; i < nc; i++) cells[c * nc + i] = compact[connectivity[o + (flip ? flipped[i]! : i)]!]!;
   }
   const where = placeOf(ref, file);
   const pointOfVertex = new Int32Array(nVertices);
   for (let p = 0; p < nPoints; p++) if (role[p] === 1) pointOfVertex[compact[p]!] = p;
+  // Shared facets, found once: the boundary facets the mesh needs (as src/mesh's findBoundaryFacets and
+  // ../tetra-facets.ts give them) and the fold check below. An edge on three or more cells goes to src/mesh, which
+  // reports it.
+  const table = t.cellKind === 'tetrahedron' ? faceTable(nVertices, coords, cells)
+    : t.cellKind === 'interval' ? null : edgeTable(nc, nVertices, cells);
   let mesh: Mesh;
   try {
-    mesh = t.cellKind === 'tetrahedron'
-      ? meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * 3), cells, facets: tetrahedronBoundaryFacets(nVertices, coords, cells) }, where)
-      : meshFromArrays({ cellKind: t.cellKind, coords: coords.subarray(0, nVertices * dim), cells }, where);
+    const meshCoords = coords.subarray(0, nVertices * dim);
+    mesh = table !== null && (t.cellKind === 'tetrahedron' || (table.maxShare <= 2 && nVertices * nVertices <= Number.MAX_SAFE_INTEGER))
+      ? meshFromArrays({ cellKind: t.cellKind, coords: meshCoords, cells, facets: table.boundary }, where)
+      : meshFromArrays({ cellKind: t.cellKind, coords: meshCoords, cells }, where);
   } catch (err) {
     // src/mesh counts cells and vertices from 0 in its own numbering: say it in the file's terms, with the cell's line.
     if (!(err instanceof RungsInputError) || !err.message.startsWith(`${where}: `)) throw err;
@@ -157,7 +164,7 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
     return fail(text, c >= 0 && c < grid.nCells ? lines[offsets[c]!] ?? grid.typeLines[c] : grid.typeLines[0]);
   }
   // Cells were turned positive one by one above, so a fold would pass the inverted-cell check: look for it here.
-  const overlap = findOverlap(t.cellKind, mesh.coords, dim, nVertices, cells, (v) => pointOfVertex[v]!);
+  const overlap = findOverlap(t.cellKind, mesh.coords, dim, nVertices, cells, (v) => pointOfVertex[v]!, table);
   if (overlap) fail(overlap.message, lines[offsets[overlap.cell]!] ?? grid.typeLines[overlap.cell]);
 
   const element = lagrangeElement(t.cellKind, t.degree);
@@ -219,19 +226,25 @@ function checkFlat(grid: VtkGrid, role: Int8Array, dim: number, fail: Fail): voi
   }
 }
 
-/** Sign of the cell's orientation from its corners in VTK order. */
+/** Sign of the cell's orientation from its corners in VTK order (no closure: this runs once per cell). */
 function orientation(kind: string, x: Float64Array, dim: number, compact: Int32Array, conn: Int32Array, o: number): number {
-  const P = (i: number, d: number): number => x[compact[conn[o + i]!]! * dim + d]!;
-  if (kind === 'interval') return P(1, 0) - P(0, 0);
-  if (kind === 'triangle') return (P(1, 0) - P(0, 0)) * (P(2, 1) - P(0, 1)) - (P(2, 0) - P(0, 0)) * (P(1, 1) - P(0, 1));
+  const p0 = compact[conn[o]!]! * dim, p1 = compact[conn[o + 1]!]! * dim;
+  if (kind === 'interval') return x[p1]! - x[p0]!;
+  const p2 = compact[conn[o + 2]!]! * dim;
+  if (kind === 'triangle') return (x[p1]! - x[p0]!) * (x[p2 + 1]! - x[p0 + 1]!) - (x[p2]! - x[p0]!) * (x[p1 + 1]! - x[p0 + 1]!);
+  const p3 = compact[conn[o + 3]!]! * dim;
   if (kind === 'quadrilateral') {
-    let a = 0; // shoelace
-    for (let i = 0; i < 4; i++) a += P(i, 0) * P((i + 1) % 4, 1) - P((i + 1) % 4, 0) * P(i, 1);
+    // shoelace, summed in the order i = 0..3 of P(i) × P(i + 1)
+    let a = 0;
+    a += x[p0]! * x[p1 + 1]! - x[p1]! * x[p0 + 1]!;
+    a += x[p1]! * x[p2 + 1]! - x[p2]! * x[p1 + 1]!;
+    a += x[p2]! * x[p3 + 1]! - x[p3]! * x[p2 + 1]!;
+    a += x[p3]! * x[p0 + 1]! - x[p0]! * x[p3 + 1]!;
     return a;
   }
-  const ux = P(1, 0) - P(0, 0), uy = P(1, 1) - P(0, 1), uz = P(1, 2) - P(0, 2);
-  const vx = P(2, 0) - P(0, 0), vy = P(2, 1) - P(0, 1), vz = P(2, 2) - P(0, 2);
-  const wx = P(3, 0) - P(0, 0), wy = P(3, 1) - P(0, 1), wz = P(3, 2) - P(0, 2);
+  const ux = x[p1]! - x[p0]!, uy = x[p1 + 1]! - x[p0 + 1]!, uz = x[p1 + 2]! - x[p0 + 2]!;
+  const vx = x[p2]! - x[p0]!, vy = x[p2 + 1]! - x[p0 + 1]!, vz = x[p2 + 2]! - x[p0 + 2]!;
+  const wx = x[p3]! - x[p0]!, wy = x[p3 + 1]! - x[p0 + 1]!, wz = x[p3 + 2]! - x[p0 + 2]!;
   return ux * (vy * wz - vz * wy) - uy * (vx * wz - vz * wx) + uz * (vx * wy - vy * wx);
 }
 
