@@ -33,7 +33,12 @@ export function prepareBundle(bundle: DataBundle, options: CodegenOptions = {}):
 /** The manufactured data of a study as code in `language`: the data file, then its self-test program. */
 export function generateCode(bundle: DataBundle, language: Language, options: CodegenOptions = {}): GeneratedFile[] {
   const lang = checkLanguage(language, `study ${bundle?.study}`);
-  const p = prepareBundle(bundle, options);
+  return generatePrepared(prepareBundle(bundle, options), lang);
+}
+
+/** The same from a bundle prepared once (several languages share its shared-subexpression plan and self-test values). */
+export function generatePrepared(p: Prepared, language: Language): GeneratedFile[] {
+  const lang = checkLanguage(language, `study ${p.bundle.study}`);
   const { data, selfTest } = FILE_NAMES[lang];
   const text = (d: string, s: string): GeneratedFile[] => [{ name: data, text: d }, { name: selfTest, text: s }];
   switch (lang) {

@@ -1,4 +1,4 @@
-export { generateCode, prepareBundle, type GeneratedFile } from './generate.ts';
+export { generateCode, generatePrepared, prepareBundle, type GeneratedFile } from './generate.ts';
 export { LANGUAGES, FILE_NAMES, checkLanguage, type Language } from './languages.ts';
 export { formulaText, POWER_STYLES, type PowerStyle } from './formula-text.ts';
 export { nameProblem } from './names.ts';

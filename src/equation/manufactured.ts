@@ -52,6 +52,12 @@ export function manufactureDerived(
     throw new RungsInputError(`${bField}: expected ${dim} formula(s), one per coordinate, got ${JSON.stringify(input.b)}`, bField);
   }
   const derived = deriveScalar(input, fields, mode);
+  return { solution: solutionOf(derived, fields, options), derived };
+}
+
+/** The compiled ManufacturedSolution of an already derived scalar preset (one derivation, whoever derived it). */
+export function solutionOf(derived: DerivedProblem, fields: FieldNames = '', options: ManufactureOptions = {}): ManufacturedSolution {
+  const { dim } = derived;
   const [field] = derived.fields;
   const u = field.exact.c as MathNode;
   const grad = field.grad.c as MathNode[];
@@ -91,7 +97,7 @@ export function manufactureDerived(
     assertFinite(solution.u, fieldPath(fields, 'u'), options.box, n);
     assertFinite(solution.f, `source term f derived from ${fieldPath(fields, 'u')}`, options.box, n);
   }
-  return { solution, derived };
+  return solution;
 }
 
 /** The scalar preset derived for a formula input; messages name the study's own field paths (exact, coefficients.k). */

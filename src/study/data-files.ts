@@ -3,7 +3,7 @@
 import { mkdirSync, renameSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { RungsInputError } from '../errors.ts';
-import { formulaText, generateCode, LANGUAGES, type DataBundle, type Language } from '../codegen/index.ts';
+import { formulaText, generatePrepared, LANGUAGES, prepareBundle, type DataBundle, type Language } from '../codegen/index.ts';
 import { parseFormula } from '../exact/formula.ts';
 import { dataBundle, type DerivedProblem } from '../equation/index.ts';
 import type { StudyDeclaration } from './declaration.ts';
@@ -33,7 +33,8 @@ export function writeStudyData(
   }
   const [bx, by, bz] = decl.domain.bbox;
   const box = { x: bx, ...(by ? { y: by } : {}), ...(bz ? { z: bz } : {}) };
-  const files = languages.flatMap((lang) => generateCode(bundle, lang, { box }));
+  const prepared = prepareBundle(bundle, { box }); // once: every language prints the same plan and self-test values
+  const files = languages.flatMap((lang) => generatePrepared(prepared, lang));
   files.push({ name: 'problem.json', text: JSON.stringify(problemJson(decl, problem, problem.derived, bundle), null, 2) + '\n' });
   const abs = resolve(dir);
   try {

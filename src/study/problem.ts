@@ -1,7 +1,7 @@
 import { RungsInputError } from '../errors.ts';
 import { fromFunctions, assertFinite, compileFormula } from '../exact/index.ts';
 import type { ManufacturedSolution } from '../exact/types.ts';
-import { derive, diffusionConvectionReaction, manufacture, manufactureDerived, type DerivedProblem, type PdeDeclaration } from '../equation/index.ts';
+import { derive, diffusionConvectionReaction, manufactureDerived, solutionOf, type DerivedProblem, type PdeDeclaration } from '../equation/index.ts';
 import type { BoundarySpec, FormCoefficients } from '../fem/assemble/types.ts';
 import type { Coefficient, StudyDeclaration } from './declaration.ts';
 import { resolveBoundary, type BoundaryByName, type BoundaryParts } from './boundary-parts.ts';
@@ -53,7 +53,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   try {
     if (decl.pde !== undefined) {
       derived = deriveDeclared(decl, pde);
-      exact = scalarPresetSolution(decl, pde, derived, fields, box);
+      exact = scalarPresetSolution(pde, derived, fields, box);
     } else if (decl.exact === undefined) {
       exact = null;
     } else if (typeof decl.exact === 'string') {
@@ -149,16 +149,10 @@ function deriveDeclared(decl: StudyDeclaration, pde: PdeDeclaration): DerivedPro
 /** Today's scalar equation keeps rungs's own solver and error integration: its ManufacturedSolution, from the same
  *  derivation. Other equations have none (their errors come from the external code). */
 function scalarPresetSolution(
-  decl: StudyDeclaration, pde: PdeDeclaration, derived: DerivedProblem, fields: Record<string, string>, box: [number, number][],
+  pde: PdeDeclaration, derived: DerivedProblem, fields: Record<string, string>, box: [number, number][],
 ): ManufacturedSolution | null {
   if (pde.preset?.name !== 'diffusion-convection-reaction' || derived.hasTime) return null;
-  const args = pde.preset.args as { k?: Coefficient; b?: Coefficient[]; c?: Coefficient };
-  const given = decl.exact as unknown;
-  const u = typeof given === 'string' ? given : (given as Record<string, string>)[Object.keys(pde.fields)[0]];
-  return manufacture({
-    dim: decl.domain.dim, u,
-    k: args.k === undefined ? undefined : String(args.k), b: args.b?.map(String), c: args.c === undefined ? undefined : String(args.c),
-  }, fields, { box });
+  return solutionOf(derived, fields, { box });
 }
 
 /** A scalar field fixed only up to a constant must be declared mean-free, and a mean-free field's exact solution must

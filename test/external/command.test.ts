@@ -7,6 +7,7 @@ import { runLevelCommand, runLevelsInParallel } from '../../src/external/command
 import { runExternalLevel } from '../../src/external/level.ts';
 import { levelFolder } from '../../src/external/output.ts';
 import { external } from '../../src/external/types.ts';
+import { isRunning } from '../cli/kiln-run.ts';
 
 const fixtures = join(import.meta.dirname, 'fixtures');
 const node = `'${process.execPath}'`;
@@ -17,17 +18,6 @@ const values = (out: string, extra: Partial<{ n: number; level: number; degree: 
   study: 'tile ext', level: extra.level ?? 2, n: extra.n ?? 8, h: 0.125, degree: extra.degree, out,
 });
 
-/** Whether a process runs: a killed process whose parent is gone may linger as a zombie until init reaps it
- *  (/proc/<pid>/stat state Z, Linux proc(5)); kill(pid, 0) elsewhere. */
-function isRunning(pid: number): boolean {
-  try {
-    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
-    return !/^\d+ \(.*\) [ZX]/.test(stat);
-  } catch {
-    if (existsSync('/proc/self')) return false;
-    try { process.kill(pid, 0); return true; } catch { return false; }
-  }
-}
 
 async function failure(p: Promise<unknown>): Promise<RungsInputError> {
   try {

@@ -21,21 +21,13 @@ import { gridToField } from '../../src/external/vtk/to-field.ts';
 import type { LevelRef } from '../../src/external/where.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { legacyVtk, nodalGrid, vtuText, type NodalGrid } from './vtk-writers.ts';
+import { mulberry32 } from '../../src/mesh/random.ts';
 
 const level: LevelRef = { study: 'kiln-rod', index: 0, n: 2 };
 const LEVEL_TEXT = "study 'kiln-rod' level 1 (n = 2): ";
 
-/** mulberry32 (Tommy Ettinger, public domain): a small seeded generator, so every run checks the same mutants. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// Seeded mutants: the project's own mulberry32, so every run checks the same ones.
+const rng = mulberry32;
 
 /** Characters no valid change of a number or of a name can produce (see the top of the file). */
 const HOSTILE = ['\0', '\x7f', '#', '<', '>', '&', '"', "'", ',', ';', '{', '}', '[', ']', '/', '\\', '\uFFFD', '=', '%', '*'];

@@ -21,22 +21,14 @@ import { intervalMesh } from '../../src/mesh/interval.ts';
 import { validateStudy } from '../../src/study/schema.ts';
 import { defineStudy, external, rectangle } from '../../src/index.ts';
 import { legacyVtk, nodalGrid, vtuText } from './vtk-writers.ts';
+import { mulberry32 } from '../../src/mesh/random.ts';
 
 const level: LevelRef = { study: 'kiln-rod', index: 2, n: 16 };
 const dir = mkdtempSync(join(tmpdir(), 'rungs-stream-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-/** mulberry32 (Tommy Ettinger, public domain), for seeded mutants. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// Seeded mutants: the project's own mulberry32, so every run checks the same ones.
+const rng = mulberry32;
 
 /** Everything a grid holds, as text (typed arrays listed), or the refusal's message. */
 function outcome(read: () => VtkGrid): string {
