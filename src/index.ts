@@ -4,7 +4,7 @@ export type {
   StudyDeclaration, DomainSpec, Discretization, LagrangeDiscretization, CustomDiscretization, LevelSolution, NormName,
 } from './study/declaration.ts';
 export type { LevelContext } from './study/context.ts';
-export { interval, rectangle, lShape, customDomain } from './study/domain.ts';
+export { interval, rectangle, lShape, box, customDomain } from './study/domain.ts';
 export { external } from './external/types.ts';
 // The PDE as data: presets written in the equation language, and the types of a pde of your own.
 export { diffusionConvectionReaction, linearElasticity, nonlinearDiffusion, stokes } from './equation/presets.ts';

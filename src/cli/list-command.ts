@@ -1,6 +1,5 @@
 import { findStudyFiles, loadStudy } from '../study/load.ts';
-import { expectedOrders } from '../study/expected.ts';
-import { DEFAULT_NORMS } from '../study/runner.ts';
+import { defaultNorms, expectedOrders } from '../study/expected.ts';
 import type { NormName } from '../study/declaration.ts';
 import { RungsInputError } from '../errors.ts';
 import { problemLine } from './output.ts';
@@ -16,7 +15,7 @@ export async function listCommand(paths: string[]): Promise<number> {
   for (const file of files) {
     try {
       const { declaration: d, file: shown } = await loadStudy(file);
-      const norms = (d.norms ?? DEFAULT_NORMS) as NormName[];
+      const norms = (d.norms ?? defaultNorms(d)) as NormName[];
       const exp = expectedOrders(d, norms);
       const disc = d.discretization.kind === 'lagrange' ? `Lagrange degree ${d.discretization.degree}` : d.discretization.label;
       const orders = norms.map((nm) => `${nm} ${exp[nm] ?? '?'}`).join(', ');

@@ -41,9 +41,11 @@ const FUNCTION_JS: Readonly<Record<string, (args: string[]) => string>> = {
 const SYMBOL_JS: Readonly<Record<string, string>> = { x: 'x', y: 'y', z: 'z', t: 't', pi: 'Math.PI', e: 'Math.E' };
 /** The variables of a formula: the coordinates, the time and (boundary data) the normal; a tree free of them is a
  *  constant and is folded. */
-const COORDINATES: ReadonlySet<string> = new Set(['x', 'y', 'z', 't', 'nx', 'ny', 'nz']);
-/** Variables that are not in SYMBOL_JS, emitted as themselves where a function takes them as arguments. */
-const NORMAL_SYMBOLS: ReadonlySet<string> = new Set(['nx', 'ny', 'nz']);
+const COORDINATES: ReadonlySet<string> = new Set(['x', 'y', 'z', 't', 'nx', 'ny', 'nz', 'u']);
+/** Variables that are not in SYMBOL_JS, emitted as themselves where a function takes them as arguments: the normal,
+ *  and the solution value u of a coefficient that depends on it (κ(u) of nonlinear diffusion, which the parser of
+ *  user formulas never lets through elsewhere). */
+const NORMAL_SYMBOLS: ReadonlySet<string> = new Set(['nx', 'ny', 'nz', 'u']);
 
 const BINARY_JS: Readonly<Record<string, string>> = { add: '+', subtract: '-', multiply: '*', divide: '/' };
 

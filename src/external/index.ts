@@ -16,5 +16,5 @@ export { parseVtkText, readVtkFile } from './vtk/read.ts';
 export { gridToField, MID_NODE_TOLERANCE, type VtkField, type VtkFieldOptions } from './vtk/to-field.ts';
 export { VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './vtk/cell-types.ts';
 export type { VtkGrid, VtkPointArray } from './vtk/grid.ts';
-export { tetrahedronBoundaryFacets } from './tetra-facets.ts';
+export { tetrahedronBoundaryFacets } from '../mesh/boundary-faces.ts';
 export { levelLabel, placeOf, type LevelRef } from './where.ts';

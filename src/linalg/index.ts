@@ -23,3 +23,10 @@ export {
   type SolveSystemOptions, type SolveSystemResult, type MethodName, type PreconditionerName,
 } from './solve.ts';
 export { mulberry32 } from './random.ts';
+export { minres, minresWorkspace, type MinresOptions, type MinresWorkspace, type SymmetricOperator } from './minres.ts';
+export {
+  solveSaddlePoint, setupSaddlePointSolver, SADDLE_DEFAULT_REL_TOL, assertNotSaddlePoint, findZeroDiagonalBlock,
+  DEFAULT_CHEBYSHEV_STEPS,
+  type SaddlePointInput, type SaddlePointOptions, type SaddlePointResult, type SaddlePointSolver, type PressureMassSolve,
+} from './saddle/index.ts';
+export { rigidBodyModes, reducedRigidBodyModes } from './amg/rigid-body-modes.ts';

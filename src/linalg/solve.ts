@@ -14,6 +14,7 @@ import { ic0Preconditioner } from './precond/ic0.ts';
 import { ilu0Preconditioner } from './precond/ilu0.ts';
 import { jacobiPreconditioner } from './precond/jacobi.ts';
 import { ssorPreconditioner } from './precond/ssor.ts';
+import { assertNotSaddlePoint } from './saddle/zero-diagonal-block.ts';
 import type { Csr, Preconditioner, SolveOptions, SolveStats } from './types.ts';
 
 export const METHODS = ['auto', 'cg', 'gmres', 'bicgstab', 'direct'] as const;
@@ -96,6 +97,8 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
       "solveSystem: symmetric: true, but the matrix is not symmetric, and method 'cg' needs a symmetric positive definite " +
         "matrix; use 'gmres' or 'bicgstab' (symmetric: false)", WHERE);
   }
+  // A saddle-point matrix (a zero diagonal block) is refused before a preconditioner could fail on its zero diagonal.
+  if (method === 'cg') assertNotSaddlePoint(A, "solveSystem: method 'cg'", WHERE);
   const t0 = performance.now();
   let M: Preconditioner;
   let amg: AmgStats | undefined;

@@ -2,7 +2,7 @@ import { RungsInputError } from '../errors.ts';
 import { CELL_EDGES } from './cell-edges.ts';
 import type { CellKind } from './types.ts';
 
-/** The boundary facets of a 1D or 2D mesh, found from its cells: in 1D the vertices of exactly one cell (ascending);
+/** The boundary facets of a 1D or 2D mesh (3D: see findBoundaryFaces), found from its cells: in 1D the vertices of exactly one cell (ascending);
  *  in 2D the edges of exactly one cell, in that cell's direction (domain on the left when cells are counter-clockwise),
  *  in order of first appearance. Throws if an edge is shared by more than two cells. */
 export function findBoundaryFacets(
@@ -18,8 +18,9 @@ export function findBoundaryFacets(
     for (let v = 0; v < nVertices; v++) if (incidence[v] === 1) ends.push(v);
     return Int32Array.from(ends);
   }
-  if (cellKind === 'tetrahedron') {
-    throw new RungsInputError(`${where}: give facets and facetTags for tetrahedral meshes`, `${where}.facets`);
+  if (cellKind === 'tetrahedron' || cellKind === 'hexahedron') {
+    // 3D faces need the coordinates to be turned outward: findBoundaryFaces (boundary-faces.ts).
+    throw new RungsInputError(`${where}: give facets and facetTags for ${cellKind === 'tetrahedron' ? 'tetrahedral' : 'hexahedral'} meshes`, `${where}.facets`);
   }
   if (nVertices * nVertices > Number.MAX_SAFE_INTEGER) {
     throw new RungsInputError(`${where}: too many vertices to find boundary edges; give facets`, `${where}.facets`);

@@ -22,7 +22,8 @@ export function cellDiameterSquared(mesh: Mesh, c: number): number {
   return largest;
 }
 
-/** Diameter of cell c (the longest edge for a simplex; edge or diagonal, whichever is longest, for a quadrilateral). */
+/** Diameter of cell c (the longest edge for a simplex; edge or diagonal, whichever is longest, for a quadrilateral or
+ *  hexahedron). */
 export function cellDiameter(mesh: Mesh, c: number): number {
   return Math.sqrt(cellDiameterSquared(mesh, c));
 }

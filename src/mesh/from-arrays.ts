@@ -1,11 +1,12 @@
 import { RungsInputError } from '../errors.ts';
+import { findBoundaryFaces } from './boundary-faces.ts';
 import { findBoundaryFacets } from './boundary-facets.ts';
 import { computeH } from './diameter.ts';
 import { checkMesh } from './quality.ts';
-import { CELL_DIM, VERTICES_PER_CELL, type CellKind, type Mesh } from './types.ts';
+import { CELL_DIM, VERTICES_PER_CELL, VERTICES_PER_FACET, type CellKind, type Mesh } from './types.ts';
 
 /** A user mesh as flat arrays (see Mesh for the layout). Without facets the boundary is found from the cells
- *  (1D and 2D only) and tagged with the one name in tagNames, default 'boundary'; facets without facetTags all get
+ *  (in 3D turned outward, see findBoundaryFaces) and tagged with the one name in tagNames, default 'boundary'; facets without facetTags all get
  *  tag 0. */
 export interface MeshArrays {
   cellKind: CellKind;
@@ -27,6 +28,7 @@ export function meshFromArrays(arrays: MeshArrays, where = 'mesh'): Mesh {
   }
   const dim = CELL_DIM[kind];
   const verticesPerCell = VERTICES_PER_CELL[kind];
+  const verticesPerFacet = VERTICES_PER_FACET[kind];
   const coords = Float64Array.from(requireGroups(arrays.coords, dim, 'coords', where, false));
   const cells = Int32Array.from(requireGroups(arrays.cells, verticesPerCell, 'cells', where, true));
   const nVertices = coords.length / dim;
@@ -45,11 +47,13 @@ export function meshFromArrays(arrays: MeshArrays, where = 'mesh'): Mesh {
         `${where}.tagNames`,
       );
     }
-    facets = findBoundaryFacets(kind, nVertices, cells, where);
-    facetTags = new Int32Array(facets.length / dim);
+    facets = kind === 'tetrahedron' || kind === 'hexahedron'
+      ? findBoundaryFaces(kind, nVertices, coords, cells, where)
+      : findBoundaryFacets(kind, nVertices, cells, where);
+    facetTags = new Int32Array(facets.length / verticesPerFacet);
   } else {
-    facets = Int32Array.from(requireGroups(arrays.facets, dim, 'facets', where, true));
-    const nFacets = facets.length / dim;
+    facets = Int32Array.from(requireGroups(arrays.facets, verticesPerFacet, 'facets', where, true));
+    const nFacets = facets.length / verticesPerFacet;
     facetTags =
       arrays.facetTags === undefined
         ? new Int32Array(nFacets)
@@ -66,7 +70,7 @@ export function meshFromArrays(arrays: MeshArrays, where = 'mesh'): Mesh {
     verticesPerCell,
     cells,
     nFacets: facetTags.length,
-    verticesPerFacet: dim,
+    verticesPerFacet,
     facets,
     facetTags,
     tagNames,

@@ -1,5 +1,8 @@
 export type { CellKind, Mesh } from './types.ts';
-export { CELL_DIM, VERTICES_PER_CELL } from './types.ts';
+export { AFFINE_CELL, CELL_DIM, VERTICES_PER_CELL, VERTICES_PER_FACET } from './types.ts';
+export { CELL_FACES, type SolidCellKind } from './cell-faces.ts';
+export { boxMesh, BOX_TAGS, type BoxOptions } from './box.ts';
+export { findBoundaryFaces, tetrahedronBoundaryFacets } from './boundary-faces.ts';
 export { intervalMesh } from './interval.ts';
 export { rectangleMesh, RECTANGLE_TAGS, type RectangleOptions } from './rectangle.ts';
 export { lShapeMesh, type LShapeTagging } from './lshape.ts';

@@ -2,7 +2,7 @@ import { RungsInputError } from '../errors.ts';
 import { findDefectiveCell } from './cell-validity.ts';
 import { cellDiameter, computeH, diameterRange } from './diameter.ts';
 import { findFacetProblem } from './facet-check.ts';
-import { CELL_DIM, VERTICES_PER_CELL, type Mesh } from './types.ts';
+import { CELL_DIM, VERTICES_PER_CELL, VERTICES_PER_FACET, type Mesh } from './types.ts';
 
 export { cellDiameter, computeH };
 
@@ -74,7 +74,9 @@ export function checkMesh(mesh: Mesh, where = 'mesh'): void {
     const detail =
       defect.problem === 'inverted'
         ? `is inverted (negative Jacobian determinant ${defect.jacobian}); list its vertices ` +
-          (dim === 1 ? 'in increasing x' : dim === 2 ? 'counter-clockwise' : 'with a positive orientation')
+          (dim === 1 ? 'in increasing x' : dim === 2 ? 'counter-clockwise' : mesh.cellKind === 'hexahedron'
+            ? 'with the bottom face counter-clockwise seen from the top face, then the top face in the same order'
+            : 'with a positive orientation')
         : `is degenerate (Jacobian determinant ${defect.jacobian}, zero for its diameter ${defect.diameter})`;
     fail(`${where}: cell ${defect.cell} with vertices [${vertices.join(', ')}] ${detail}`, `${where}.cells[${defect.cell}]`);
   }
@@ -102,7 +104,7 @@ function checkShape(mesh: Mesh, where: string): void {
   const expected: Array<[keyof Mesh, number]> = [
     ['dim', CELL_DIM[kind]],
     ['verticesPerCell', VERTICES_PER_CELL[kind]],
-    ['verticesPerFacet', CELL_DIM[kind]],
+    ['verticesPerFacet', VERTICES_PER_FACET[kind]],
   ];
   for (const [field, value] of expected) {
     if (mesh[field] !== value) fail(`${where}: ${field} must be ${value} for ${kind} cells, got ${String(mesh[field])}`, `${where}.${field}`);

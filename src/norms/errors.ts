@@ -3,6 +3,7 @@ import { cellJacobian } from '../fem/geometry/jacobian.ts';
 import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
 import type { DiscreteField, ExactSolution, NormValues } from './types.ts';
+import { AFFINE_CELL } from '../mesh/types.ts';
 
 /** Extra degrees of the error quadrature above 2k, the degree of |u_h|² (so the smooth part of the integrand
  *  is over-integrated; common practice, no source). */
@@ -35,7 +36,7 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
   const vals = fields.map(() => new Float64Array(nq));
   const grads = fields.map(() => new Float64Array(nq * dim));
   const J = new Float64Array(9), invJ = new Float64Array(9), x = new Float64Array(3), g = new Float64Array(3);
-  const affine = mesh.cellKind !== 'quadrilateral';
+  const affine = AFFINE_CELL[mesh.cellKind];
   const l2 = new Float64Array(nf), h1 = new Float64Array(nf), en = new Float64Array(nf);
   const kf = opts.k, cf = opts.c;
   const pts = rule.points, wts = rule.weights;

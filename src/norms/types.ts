@@ -14,3 +14,11 @@ export interface NormValues {
   energy: number;
   maxNodal: number;
 }
+
+/** An exact field with any number of components, for systems: value writes out[0..nc), grad writes
+ *  out[i*dim + d] = ∂u_i/∂x_d (row-major, component i). A scalar field is the case nc = 1. */
+export interface ExactField {
+  components: number;
+  value(x: number, y: number, z: number, out: Float64Array): void;
+  grad(x: number, y: number, z: number, out: Float64Array): void;
+}

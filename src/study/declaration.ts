@@ -13,7 +13,7 @@ export const NORM_NAMES: NormName[] = ['L2', 'H1semi', 'H1', 'energy', 'maxNodal
 
 /** A domain: how to mesh it for a ladder parameter n (cells per unit length) and its boundary tags. */
 export interface DomainSpec {
-  kind: 'interval' | 'rectangle' | 'lshape' | 'custom';
+  kind: 'interval' | 'rectangle' | 'lshape' | 'box' | 'custom';
   dim: 1 | 2 | 3;
   /** Boundary tags the generated meshes carry. */
   tags: string[];

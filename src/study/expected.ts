@@ -1,4 +1,6 @@
 import type { NormName, StudyDeclaration } from './declaration.ts';
+import { builtInNorms } from './discretizations/system-norms.ts';
+import type { PresetName } from '../equation/types.ts';
 
 /** Expected order of each norm for degree-k Lagrange elements on a smooth solution and quasi-uniform meshes:
  *  H1 seminorm, H1 and energy O(h^k) (Céa's lemma with interpolation estimates), L2 O(h^(k+1)) (Aubin–Nitsche;
@@ -8,10 +10,23 @@ export function lagrangeOrders(k: number): Record<NormName, number> {
   return { L2: k + 1, H1semi: k, H1: k, energy: k, maxNodal: k + 1 };
 }
 
+/** The equation rungs's own elements solve for this study (today's scalar equation when it declares no pde). */
+export function builtInPreset(decl: StudyDeclaration): PresetName {
+  return decl.pde?.preset?.name ?? 'diffusion-convection-reaction';
+}
+
+/** The norms a study measures when it names none: L2 and the H1 seminorm of its field(s), the pressure too. */
+export function defaultNorms(decl: StudyDeclaration): string[] {
+  if (decl.discretization.kind === 'lagrange') return builtInNorms(builtInPreset(decl), 1).defaults;
+  return ['L2', 'H1semi'];
+}
+
 /** Expected order per requested norm: the study's own value, else derived from its element degree, else null. */
-export function expectedOrders(decl: StudyDeclaration, norms: NormName[]): Record<string, number | null> {
+export function expectedOrders(decl: StudyDeclaration, norms: readonly string[]): Record<string, number | null> {
   const k = decl.discretization.degree;
-  const derived = k !== undefined && k > 0 ? lagrangeOrders(k) : null;
+  const derived: Record<string, number> | null = k !== undefined && k > 0
+    ? (decl.discretization.kind === 'lagrange' ? builtInNorms(builtInPreset(decl), k).orders : lagrangeOrders(k))
+    : null;
   const out: Record<string, number | null> = {};
   for (const nm of norms) out[nm] = decl.expected?.[nm] ?? derived?.[nm] ?? null;
   return out;

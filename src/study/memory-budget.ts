@@ -38,6 +38,10 @@ export function estimateDofs(decl: StudyDeclaration, n: number, degree: number):
       // Crossed diagonals add a centre vertex per square, and its edges: about twice the unknowns.
       return /crossed/.test(d.label) ? 2 * grid : grid;
     }
+    case 'box':
+      // Vertices, edges, faces and interiors of a structured grid of cubes (tetrahedra add no vertices): exact for
+      // P_k tetrahedra and Q_k hexahedra.
+      return (degree * cells(0) + 1) * (degree * cells(1) + 1) * (degree * cells(2) + 1);
     case 'lshape':
       // The square [-1, 1]² of 2n × 2n cells less the nodes strictly inside one quadrant (n cells per unit length).
       return (2 * degree * n + 1) ** 2 - (degree * n) ** 2;
@@ -55,6 +59,19 @@ export function estimateDofsOnMesh(mesh: Mesh, degree: number): number {
 function degreeOf(decl: StudyDeclaration): number {
   const k = decl.discretization.degree;
   return k !== undefined && k >= 1 ? Math.min(Math.round(k), 3) : 1;
+}
+
+/** Unknowns per node of rungs's own elements for the study's equation: a displacement or velocity has one per
+ *  coordinate (the Taylor–Hood pressure, on the coarser P_(k−1) nodes, adds less than one more: counted as one).
+ *  Each unknown of a system row couples to about as many unknowns per component as a scalar row, so the bytes per
+ *  unknown are taken as the scalar ones times the components (assumed from the nonzero count, not measured). */
+function componentsOf(decl: StudyDeclaration): number {
+  if (decl.discretization.kind !== 'lagrange') return 1;
+  const preset = decl.pde?.preset?.name;
+  const dim = decl.domain.dim;
+  if (preset === 'linear-elasticity') return dim;
+  if (preset === 'stokes') return dim + 1;
+  return 1;
 }
 
 /** Estimated peak memory of a level with `dofs` unknowns, in bytes. */
@@ -78,15 +95,17 @@ const mb = (bytes: number) => `${Math.ceil(bytes / MB).toLocaleString('en-US')} 
 export function checkLevelMemory(decl: StudyDeclaration, index: number, mesh?: Mesh): void {
   const n = decl.ladder.n[index]!;
   const degree = degreeOf(decl);
-  const dofs = mesh ? estimateDofsOnMesh(mesh, degree) : estimateDofs(decl, n, degree);
-  if (dofs === null) return;
+  const nodes = mesh ? estimateDofsOnMesh(mesh, degree) : estimateDofs(decl, n, degree);
+  if (nodes === null) return;
+  const components = componentsOf(decl);
+  const dofs = nodes * components;
   const dim = mesh?.dim ?? decl.domain.dim;
-  const need = levelBytes(dofs, degree, dim);
+  const need = levelBytes(dofs, degree, dim) * components;
   const budget = levelBudget(decl);
   if (need <= budget.bytes) return;
   // The largest n of this domain that fits, for the message (the estimate grows with n^dim).
   const fits = Math.floor(n * (budget.bytes / need) ** (1 / dim));
-  const perDof = PIPELINE_BYTES_PER_DOF[degree]! * (dim === 3 ? THREE_D_FACTOR : 1);
+  const perDof = PIPELINE_BYTES_PER_DOF[degree]! * (dim === 3 ? THREE_D_FACTOR : 1) * components;
   throw new RungsInputError(
     `ladder.n[${index}]: the ladder value n = ${n} would give about ${dofs.toLocaleString('en-US')} unknowns (degree ${degree}), ` +
       `which need about ${mb(need)} (${perDof} bytes per unknown, measured on the built-in pipeline), more than the memory budget of ` +

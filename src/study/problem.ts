@@ -32,6 +32,9 @@ export interface StudyProblem {
   pde: PdeDeclaration;
 }
 
+/** The presets rungs's own elements solve besides today's scalar equation (src/study/discretizations/). */
+const BUILT_IN_SYSTEMS = new Set(['linear-elasticity', 'stokes', 'nonlinear-diffusion']);
+
 const asFormula = (c: Coefficient | undefined): string | undefined => (c === undefined ? undefined : String(c));
 
 /** Derives ∇u, f and boundary data from the declaration; checks tags and that f is finite over the domain. */
@@ -80,14 +83,23 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   const { parts, byName } = resolveBoundary(decl, derived, where, file);
   const { dirichlet, neumann, robin } = parts;
   const warnings = derived && decl.pde ? meanFreeChecks(decl, pde, derived, byName, where, file) : [];
-  if (decl.pde && !exact && decl.discretization.kind !== 'external') {
+  const builtInSystem = decl.discretization.kind === 'lagrange' && BUILT_IN_SYSTEMS.has(pde.preset?.name ?? '') && derived !== null && !derived.hasTime;
+  if (decl.pde && !exact && decl.discretization.kind !== 'external' && !builtInSystem) {
     throw new RungsInputError(
-      `${where}: discretization: ${decl.discretization.kind === 'lagrange' ? 'rungs\'s own Lagrange discretization solves' : 'a custom discretization (whose field rungs measures) takes'} ` +
-      `only the steady diffusionConvectionReaction preset; for ${pde.label ?? 'this pde'} use external({ command, output: 'errors' }) ` +
-      'and let the code report its own norms', file);
+      `${where}: discretization: ${decl.discretization.kind === 'lagrange' ? 'rungs\'s own elements solve' : 'a custom discretization (whose field rungs measures) takes'} ` +
+      `${decl.discretization.kind === 'lagrange' ? 'the steady presets diffusionConvectionReaction, linearElasticity, stokes and nonlinearDiffusion' : 'only the steady diffusionConvectionReaction preset'}; ` +
+      `for ${pde.label ?? 'this pde'}${derived?.hasTime ? ' (it depends on t)' : ''} use external({ command, output: 'errors' }) and let the code report its own norms`, file);
+  }
+  if (builtInSystem && pde.preset!.name !== 'nonlinear-diffusion') {
+    const fixedU = (byName.dirichlet.u?.length ?? 0) > 0;
+    if (!fixedU) {
+      throw new RungsInputError(
+        `${where}: boundary.dirichlet: no part of the boundary fixes the ${pde.preset!.name === 'stokes' ? 'velocity' : 'displacement'} u, so ` +
+        `${pde.preset!.name === 'stokes' ? 'constant velocities' : 'rigid-body motions'} solve the homogeneous problem and the system is singular; give u Dirichlet data on at least one part (boundary: { dirichlet: { u: ['left'] } })`, file);
+    }
   }
 
-  if (decl.discretization.kind === 'lagrange' && dirichlet.length === 0 && robin.length === 0 && coef.c === undefined) {
+  if (decl.discretization.kind === 'lagrange' && !builtInSystem && dirichlet.length === 0 && robin.length === 0 && coef.c === undefined) {
     throw new RungsInputError(
       `${where}: boundary: every boundary part is Neumann and there is no reaction term c, so the solution is fixed only ` +
       'up to a constant and the system is singular; give a Dirichlet or Robin part (boundary.dirichlet / boundary.robin) or a reaction c > 0', file);
@@ -226,7 +238,7 @@ function sampledChecks(
     return [];   // a domain that cannot be meshed is reported by the first level, with its level and n
   }
   const box = decl.domain.bbox;
-  const isBox = decl.domain.kind === 'interval' || decl.domain.kind === 'rectangle';
+  const isBox = decl.domain.kind === 'interval' || decl.domain.kind === 'rectangle' || decl.domain.kind === 'box';
   try {
     return checkScalarData({
       exact,

@@ -1,8 +1,9 @@
 import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOptimality } from '../analysis/index.ts';
 import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
-import { exactNorms } from '../norms/errors.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
-import { expectedOrders } from './expected.ts';
+import { defaultNorms, expectedOrders } from './expected.ts';
+import { isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
+import { normScales } from './discretizations/norm-scales.ts';
 import { buildProblem } from './problem.ts';
 import type { LevelResult, StudyResult } from './result.ts';
 import { runLevel } from './level.ts';
@@ -22,7 +23,9 @@ import { checkManufactured, type NeumannSamples } from '../equation/index.ts';
 import { RungsInputError } from '../errors.ts';
 import { fileStem } from './names.ts';
 
+/** The norms of a scalar study that names none (systems: src/study/expected.ts defaultNorms). */
 export const DEFAULT_NORMS: NormName[] = ['L2', 'H1semi'];
+type StudyProblemOf = ReturnType<typeof buildProblem>;
 export const DEFAULT_TOLERANCE = 0.1;
 export const DEFAULT_FIT_WINDOW = 3;
 /** The Céa bound's allowance for quadrature and round-off lives with the rule (src/analysis/cea.ts). */
@@ -61,7 +64,8 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
   const t0 = performance.now();
   const problem = buildProblem(decl, file);
   // Norms rungs measures need its own exact solution; an external code may report any norm it declares.
-  const norms = (problem.exact ? decl.norms ?? DEFAULT_NORMS : decl.norms ?? []) as NormName[];
+  const measurable = problem.exact !== null || (decl.discretization.kind === 'lagrange' && problem.derived !== null);
+  const norms = (measurable ? decl.norms ?? defaultNorms(decl) : decl.norms ?? []) as NormName[];
   const expected = expectedOrders(decl, norms);
   const total = Math.min(decl.ladder.n.length, opts.levels ?? Infinity);
   const solver = solverSettings(decl);
@@ -139,7 +143,7 @@ export function addLevel(p: PreparedStudy, level: LevelResult): void {
 /** Analyses every norm once all levels are in and checks the study's expectation. */
 export function completeStudy(p: PreparedStudy): StudyResult {
   const t0 = performance.now();
-  if (p.norms.length) finishAnalysis(p.result, p.loaded.declaration, p.problem.exact, p.norms, p.expected);
+  if (p.norms.length) finishAnalysis(p.result, p.loaded.declaration, p.problem, p.norms, p.expected);
   p.result.quantities = quantityReports(p.result, p.loaded.declaration);
   p.result.asExpected = expectationMet(p.result);
   p.result.seconds += (performance.now() - t0) / 1e3;
@@ -161,15 +165,12 @@ export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Prom
 }
 
 function finishAnalysis(
-  result: StudyResult, decl: StudyDeclaration, exact: Parameters<typeof exactNorms>[1] | null, norms: NormName[],
+  result: StudyResult, decl: StudyDeclaration, problem: StudyProblemOf, norms: NormName[],
   expected: Record<string, number | null>,
 ): void {
   const levels = result.levels;
-  const degree = decl.discretization.degree ?? 2;
   // The size of u in each norm sets the round-off floor; an external code's own norms have none rungs can measure.
-  const scaleAll: Record<string, number> = exact
-    ? exactNorms(decl.domain.mesh(decl.ladder.n[0]), exact, { degree: 2 * degree + 8 }) as unknown as Record<string, number>
-    : {};
+  const scaleAll = normScales(decl, problem);
   const tolerance = decl.tolerance ?? DEFAULT_TOLERANCE;
   const fitWindow = decl.fitWindow ?? DEFAULT_FIT_WINDOW;
 
@@ -197,7 +198,9 @@ function finishAnalysis(
       floorHint: levels.map((l) => l.algebraic?.floors[nm] ?? (builtIn ? residualFloor(l) : null)),
       setupFloor: builtIn ? undefined : levels.map((l) => (l.algebraic?.floors[nm] !== undefined ? null : residualFloor(l))),
       scale: scale > 0 && Number.isFinite(scale) ? levels.map(() => scale) : undefined,
-      normKind: GLOBAL_NORMS.has(nm) ? 'global' : nm === 'maxNodal' ? 'pointwise' : 'other',
+      // rungs's own norms of systems (L2_u, H1semi_u, L2_p, div_u) are global too; an external code's own names are
+      // its business.
+      normKind: GLOBAL_NORMS.has(nm) || (builtIn && isGlobalNorm(nm)) ? 'global' : nm === 'maxNodal' || (builtIn && isPointwiseNorm(nm)) ? 'pointwise' : 'other',
       allowAboveOrder: allow.aboveOrder?.[nm],
       allowFewLevels: allow.fewLevels?.[nm],
     });

@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { RungsInputError } from '../errors.ts';
 import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
+import { builtInNorms } from './discretizations/system-norms.ts';
+import { defaultNorms } from './expected.ts';
 import { externalDiscretizationSchema, quantityNamesSchema } from '../external/schema.ts';
 
 const fn = (what: string) => z.custom<(...a: never[]) => unknown>((v) => typeof v === 'function', { message: `expected ${what} (a function)` });
@@ -11,13 +13,13 @@ const verdicts = ['on-order', 'below-order', 'above-order', 'exact', 'inconclusi
 export const RESERVED_STUDY_NAME = /^(summary|index|junit)(\..*)?$/i;
 
 const domain = z.object({
-  kind: z.enum(['interval', 'rectangle', 'lshape', 'custom']),
+  kind: z.enum(['interval', 'rectangle', 'lshape', 'box', 'custom']),
   dim: z.union([z.literal(1), z.literal(2), z.literal(3)]),
   tags: z.array(z.string()),
   bbox: z.array(z.tuple([z.number(), z.number()])),
   label: z.string(),
   mesh: fn('mesh(n)'),
-}, { message: 'expected a domain such as interval(0, 1), rectangle([0, 2], [0, 1]) or lShape()' });
+}, { message: 'expected a domain such as interval(0, 1), rectangle([0, 2], [0, 1]), lShape() or box([0, 1], [0, 1], [0, 1])' });
 
 const quadrature = z.object({
   stiffness: z.number().int().min(0).optional(),
@@ -103,20 +105,27 @@ export const studySchema = z.object({
   if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
     ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });
   }
+  // rungs's own elements measure the norms of their equation (L2_u, L2_p, … for systems); a custom field the
+  // scalar ones; an external code may report any norm it declares with its order.
+  const preset = (s.pde as StudyDeclaration['pde'])?.preset?.name;
+  const measured: string[] = s.discretization.kind === 'lagrange' && preset
+    ? Object.keys(builtInNorms(preset, 1).orders)
+    : NORM_NAMES;
   (s.norms ?? []).forEach((nm, i) => {
-    if ((NORM_NAMES as string[]).includes(nm)) return;
+    if (measured.includes(nm)) return;
     if (s.discretization.kind !== 'external') {
-      ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures (${NORM_NAMES.join(', ')}); other names are for errors an external code reports itself` });
+      ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures${preset ? ` for ${preset}` : ''} (${measured.join(', ')}); other names are for errors an external code reports itself` });
     } else if (s.expected?.[nm] === undefined) {
       ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: '${nm}' is the external code's own error norm, so give its expected order (expected: { ${nm}: 2 })` });
     }
   });
   for (const rule of ['aboveOrder', 'fewLevels'] as const) {
     for (const k of Object.keys(s.allow?.[rule] ?? {})) {
-      if (!(s.norms ?? ['L2', 'H1semi']).includes(k)) ctx.addIssue({ code: 'custom', path: ['allow', rule, k], message: `'${k}' is not one of the study's norms (${(s.norms ?? ['L2', 'H1semi']).join(', ')})` });
+      const own = s.norms ?? defaultNorms(s as unknown as StudyDeclaration);
+      if (!own.includes(k)) ctx.addIssue({ code: 'custom', path: ['allow', rule, k], message: `'${k}' is not one of the study's norms (${own.join(', ')})` });
     }
   }
-  const names = [...(s.norms ?? []), ...(s.quantities ?? []), ...NORM_NAMES];
+  const names = [...(s.norms ?? []), ...(s.quantities ?? []), ...measured];
   for (const k of Object.keys(s.expected ?? {})) {
     if (!names.includes(k)) ctx.addIssue({ code: 'custom', path: ['expected', k], message: `'${k}' is neither a norm (${NORM_NAMES.join(', ')}) nor a declared quantity` });
   }

@@ -6,7 +6,7 @@
  */
 import { meshFromArrays } from '../../src/mesh/from-arrays.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
-import { tetrahedronBoundaryFacets } from '../../src/external/tetra-facets.ts';
+import { tetrahedronBoundaryFacets } from '../../src/mesh/boundary-faces.ts';
 
 const AXIS_ORDERS = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
 

@@ -1,10 +1,10 @@
 // The facet tables of src/external/vtk/facet-table.ts against two independent searches: src/mesh's findBoundaryFacets
-// and src/external/tetra-facets.ts (maps keyed by sorted vertices), and a map-based loop over cells written here, on
+// and src/mesh/boundary-faces.ts (faces bucketed by their smallest vertex), and a map-based loop over cells written here, on
 // shuffled, relabelled and deliberately broken meshes. The rule compared (a facet of two cells is crossed in opposite
 // directions by positively oriented cells; no facet has three cells) is common practice, no source.
 import { describe, expect, it } from 'vitest';
 import { edgeTable, faceTable, TET_FACES, type SharedFacetProblem } from '../../src/external/vtk/facet-table.ts';
-import { tetrahedronBoundaryFacets } from '../../src/external/tetra-facets.ts';
+import { tetrahedronBoundaryFacets } from '../../src/mesh/boundary-faces.ts';
 import { findBoundaryFacets } from '../../src/mesh/boundary-facets.ts';
 import { lShapeMesh } from '../../src/mesh/lshape.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
@@ -107,7 +107,7 @@ describe('edge table of triangles and quadrilaterals', () => {
 
 describe('face table of tetrahedra', () => {
   const mesh = kuhnCubeMesh(3);
-  it('finds the boundary faces tetra-facets.ts finds, in the same order and orientation, on scrambled meshes', () => {
+  it('finds the boundary faces src/mesh/boundary-faces.ts finds, in the same order and orientation, on scrambled meshes', () => {
     for (let trial = 0; trial < 10; trial++) {
       const { cells, coords } = relabel(scrambleCellsOnly(mesh.cells), mesh.coords, 3);
       const table = faceTable(mesh.nVertices, coords, cells);

@@ -37,7 +37,7 @@ describe.each(CASES)('Lagrange %s degree %i', (cell, k) => {
   el.tabulate(pts, nPts, vals, grads);
 
   it('has the dimension of P_k / Q_k (common practice, no source)', () => {
-    const expected = { interval: k + 1, triangle: ((k + 1) * (k + 2)) / 2, quadrilateral: (k + 1) ** 2, tetrahedron: ((k + 1) * (k + 2) * (k + 3)) / 6 }[cell];
+    const expected = { interval: k + 1, triangle: ((k + 1) * (k + 2)) / 2, quadrilateral: (k + 1) ** 2, tetrahedron: ((k + 1) * (k + 2) * (k + 3)) / 6, hexahedron: (k + 1) ** 3 }[cell];
     expect(n).toBe(expected);
   });
 

@@ -15,7 +15,7 @@ describe('bad pde input', async () => {
 
   it('still runs the sound Stokes study, with its own norms', () => {
     expect(results.map((r) => [r.study, r.asExpected])).toEqual([['pde-good-stokes', true]]);
-    expect(problems).toHaveLength(8);
+    expect(problems).toHaveLength(11);
   });
   it('an expression that does not parse', () => expect(msg('unparsable.study.ts')).toMatch(/\(study 'pde-bad-unparsable'\): pde\.equations\.balance\.flux: cannot parse "grad\(u": Parenthesis \) expected/));
   it('a field that is not declared, listing what is', () => expect(msg('undeclared.study.ts')).toMatch(/pde\.equations\.balance\.flux: the name "w" is not declared in "grad\(w\)"; valid: fields and coefficients u;/));
@@ -25,5 +25,9 @@ describe('bad pde input', async () => {
   // ∫∫ x y dx dy over the unit square = 1/4 (exact integral).
   it('a mean-free field whose exact solution has a mean, with the mean', () => expect(msg('mean-nonzero.study.ts')).toMatch(/exact\.p: the field is mean-free but its exact solution has mean 0\.2499999999\d* over the domain/));
   it('a boundary part for a field that is not declared', () => expect(msg('unknown-field-boundary.study.ts')).toMatch(/boundary\.dirichlet\.w: 'w' is not a declared field; valid: u, p/));
-  it('rungs\'s own elements asked to solve elasticity', () => expect(msg('builtin-vector.study.ts')).toMatch(/discretization: rungs's own Lagrange discretization solves only the steady diffusionConvectionReaction preset; for linear elasticity use external/));
+  it('a custom discretization asked to take elasticity', () => expect(msg('builtin-vector.study.ts')).toMatch(/discretization: a custom discretization \(whose field rungs measures\) takes only the steady diffusionConvectionReaction preset; for linear elasticity use external/));
+  it('a saddle-point system sent to CG', () => expect(msg('stokes-cg.study.ts')).toMatch(/\(study 'pde-bad-stokes-cg'\): solver\.method: 'cg' cannot solve the saddle-point system of Stokes flow \(symmetric but indefinite\)/));
+  // ν = λ / (2(λ + μ)) = −1.5 / (2 · (−0.5)) = 1.5 (exact arithmetic).
+  it('a displacement-only formulation beyond ν = 1/2', () => expect(msg('elastic-incompressible.study.ts')).toMatch(/pde\.coefficients\.lambda: λ = -1\.5 with μ = 1 at .*Poisson's ratio ν = 1\.500.*needs −1 < ν < 1\/2/));
+  it('elasticity with no part of the boundary holding the displacement', () => expect(msg('elastic-floating.study.ts')).toMatch(/boundary\.dirichlet: no part of the boundary fixes the displacement u, so rigid-body motions solve the homogeneous problem/));
 });

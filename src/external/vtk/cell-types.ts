@@ -8,7 +8,7 @@ import type { CellKind } from '../../mesh/types.ts';
 export interface VtkCellType {
   id: number;
   name: string;
-  cellKind: CellKind;
+  cellKind: Exclude<CellKind, 'hexahedron'>; // no hexahedral VTK types are read yet
   degree: 1 | 2;
   /** Nodes per cell. */
   nodes: number;

@@ -3,12 +3,12 @@
 // keyed by its sorted vertex numbers and grouped with counting sorts that keep slots ascending within a key: edges by
 // their smaller vertex (edgeTable), faces by all three vertices, least significant first (faceTable). Each group
 // then tells a facet's first occurrence, how many cells share it and which occurrences come second and third:
-// everything the boundary search (src/mesh's findBoundaryFacets, ../tetra-facets.ts) and the fold check (overlap.ts,
+// everything the boundary search (src/mesh's findBoundaryFacets, src/mesh/boundary-faces.ts) and the fold check (overlap.ts,
 // check 1) read from their maps, in the same order, in O(slots + vertices) time and memory on typed arrays.
 
 /** Outward faces of a positively oriented tetrahedron (0, 1, 2, 3); face f is opposite vertex f. */
 export const TET_FACES: readonly (readonly [number, number, number])[] = [[1, 2, 3], [0, 3, 2], [0, 1, 3], [0, 2, 1]];
-/** The same faces in src/fem's REFERENCE_FACETS vertex order, in which ../tetra-facets.ts writes boundary faces. */
+/** The same faces in src/fem's REFERENCE_FACETS vertex order, in which src/mesh/boundary-faces.ts writes boundary faces. */
 const REF_FACES: readonly (readonly [number, number, number])[] = [[1, 2, 3], [0, 2, 3], [0, 1, 3], [0, 1, 2]];
 
 /** The first problem a loop over cells and their facets meets: a facet's second occurrence running the same way as
@@ -161,7 +161,7 @@ export function edgeTable(nc: number, nVertices: number, cells: Int32Array): Fac
 }
 
 /**
- * Faces of tetrahedra (face f opposite vertex f). Boundary faces are given as ../tetra-facets.ts gives them: in
+ * Faces of tetrahedra (face f opposite vertex f). Boundary faces are given as src/mesh/boundary-faces.ts gives them: in
  * REFERENCE_FACETS vertex order, swapped to (a, c, b) unless the normal (b − a) × (c − a) points away from the cell's
  * fourth vertex. Two occurrences run the same way when the TET_FACES orders of their vertices have the same parity.
  */
@@ -196,7 +196,7 @@ export function faceTable(nVertices: number, coords: Float64Array, cells: Int32A
   return { boundary, boundaryCell, maxShare, problem };
 }
 
-/** Whether the normal (b − a) × (c − a) points away from vertex o (the same arithmetic as ../tetra-facets.ts). */
+/** Whether the normal (b − a) × (c − a) points away from vertex o (the same arithmetic as src/mesh/boundary-faces.ts). */
 function facingAway(x: Float64Array, a: number, b: number, c: number, o: number): boolean {
   const ux = x[3 * b]! - x[3 * a]!, uy = x[3 * b + 1]! - x[3 * a + 1]!, uz = x[3 * b + 2]! - x[3 * a + 2]!;
   const vx = x[3 * c]! - x[3 * a]!, vy = x[3 * c + 1]! - x[3 * a + 1]!, vz = x[3 * c + 2]! - x[3 * a + 2]!;

@@ -142,7 +142,7 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   const pointOfVertex = new Int32Array(nVertices);
   for (let p = 0; p < nPoints; p++) if (role[p] === 1) pointOfVertex[compact[p]!] = p;
   // Shared facets, found once: the boundary facets the mesh needs (as src/mesh's findBoundaryFacets and
-  // ../tetra-facets.ts give them) and the fold check below. An edge on three or more cells goes to src/mesh, which
+  // src/mesh/boundary-faces.ts give them) and the fold check below. An edge on three or more cells goes to src/mesh, which
   // reports it.
   const table = t.cellKind === 'tetrahedron' ? faceTable(nVertices, coords, cells)
     : t.cellKind === 'interval' ? null : edgeTable(nc, nVertices, cells);

@@ -11,14 +11,14 @@ function hint(h: number | null | undefined, k: number): number {
 }
 
 /** Quadrature degree of each term, from the element degree k and the coefficient hints; overrides win.
- *  Simplices: integrands are polynomials of degree (sum of factors). Quadrilaterals: the bilinear map makes the
- *  stiffness rational, so one degree more per variable is taken. */
+ *  Simplices: integrands are polynomials of degree (sum of factors). Quadrilaterals and hexahedra: the multilinear
+ *  map makes the stiffness rational, so one degree more per variable is taken. */
 export function quadratureDegrees(cell: CellKind, k: number, coef: FormCoefficients, override: QuadratureDegrees = {}): Record<Term, number> {
   const hk = coef.k ? hint(coef.hints?.k, k) : 0;
   const hb = hint(coef.hints?.b, k);
   const hc = hint(coef.hints?.c, k);
   const hf = hint(coef.hints?.f, k);
-  const extra = cell === 'quadrilateral' ? 1 : 0;
+  const extra = cell === 'quadrilateral' || cell === 'hexahedron' ? 1 : 0;
   const base: Record<Term, number> = {
     stiffness: Math.max(0, 2 * (k - 1) + hk) + 2 * extra,
     convection: 2 * k - 1 + hb + extra,

@@ -10,6 +10,7 @@ import type { BoundarySpec, FormCoefficients, QuadratureDegrees, Term } from './
 import { quadratureDegrees } from './degrees.ts';
 import { buildSparsity, findEntry } from './sparsity.ts';
 import { makeFacetValues, reinitFacet } from './facetvalues.ts';
+import { makeFacetGeometry, reinitFacetGeometry } from '../geometry/facet-geometry.ts';
 
 export interface AssembledSystem {
   space: FunctionSpace;
@@ -166,18 +167,24 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   if (bc.neumann && bc.neumann.tags.length) boundaryParts.push({ tags: bc.neumann.tags, g: bc.neumann.flux });
   if (bc.robin && bc.robin.tags.length) boundaryParts.push({ tags: bc.robin.tags, g: bc.robin.g, alpha: bc.robin.alpha });
   if (boundaryParts.length) {
-    const fvals = makeFacetValues(el, degrees.boundary);
+    // Straight facets (simplices, quadrilaterals): one normal per facet, the same bits as always. The faces of a
+    // hexahedron are bilinear surfaces: a normal and surface element per point (src/fem/geometry/facet-geometry.ts).
+    const curved = mesh.cellKind === 'hexahedron';
+    const fvals = curved ? null : makeFacetValues(el, degrees.boundary);
+    const fgeo = curved ? makeFacetGeometry(el, degrees.boundary) : null;
     for (const part of boundaryParts) {
       const facets = facetsWithTags(mesh, part.tags);
       for (const f of facets) {
         const c = fc.cell[f], lf = fc.local[f];
-        reinitFacet(fvals, mesh, c, lf);
+        if (fgeo) reinitFacetGeometry(fgeo, mesh, c, lf); else reinitFacet(fvals!, mesh, c, lf);
         Ke.fill(0); Fe.fill(0);
-        const vals = fvals.values[lf];
-        const { x, wds, normal } = fvals;
-        for (let q = 0; q < fvals.nq; q++) {
+        const vals = fgeo ? fgeo.values[lf] : fvals!.values[lf];
+        const x = fgeo ? fgeo.x : fvals!.x, wds = fgeo ? fgeo.wds : fvals!.wds;
+        const nq = fgeo ? fgeo.nq : fvals!.nq;
+        const normal = fvals?.normal;
+        for (let q = 0; q < nq; q++) {
           const X = x[3 * q], Y = x[3 * q + 1], Z = x[3 * q + 2];
-          const gq = part.g(X, Y, Z, normal[0], normal[1], normal[2]);
+          const gq = normal ? part.g(X, Y, Z, normal[0], normal[1], normal[2]) : part.g(X, Y, Z, fgeo!.normals[3 * q], fgeo!.normals[3 * q + 1], fgeo!.normals[3 * q + 2]);
           checkFinite(gq, 'boundary flux g', c, x, q);
           const w = wds[q];
           for (let i = 0; i < n; i++) Fe[i] += w * gq * vals[q * n + i];

@@ -4,11 +4,13 @@ import { lagrangeElement } from '../element/lagrange.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { FunctionSpace } from './types.ts';
 import { numberEdges } from './edges.ts';
+import { numberFaces } from './faces.ts';
 import { mapReferencePoint } from '../geometry/map.ts';
 
 /** Builds the continuous Lagrange space of the given degree on a mesh.
- *  Global numbering: vertex dofs first (dof = vertex index), then edge dofs (k-1 per edge, ordered from the
- *  edge's lower-numbered vertex to the higher, so neighbouring cells agree on orientation), then cell interiors. */
+ *  Global numbering from the element's dofs per entity: vertex dofs first (dof = vertex index), then edge dofs (k-1
+ *  per edge, ordered from the edge's lower-numbered vertex to the higher, so neighbouring cells agree on
+ *  orientation), then face dofs (3D cells; at most one per face, so no orientation is needed), then cell interiors. */
 export function lagrangeSpace(mesh: Mesh, degree: number): FunctionSpace {
   const el = lagrangeElement(mesh.cellKind, degree);
   return buildSpace(mesh, el);
@@ -23,10 +25,15 @@ export function buildSpace(mesh: Mesh, el: LagrangeElement): FunctionSpace {
   const ne = el.edges.length;
   const pe = el.perEdge;
   const pi = el.perInterior;
-  // Degree 1 has no edge dofs: the edges need not be numbered.
+  const nf = el.faces.length;
+  const pf = el.perFace;
+  if (pf > 1) throw new Error(`internal: ${pf} dofs per face need an orientation rule; at most 1 is supported`);
+  // Degree 1 has no edge dofs: the edges need not be numbered (nor faces without face dofs).
   const { nEdges, cellEdges } = pe > 0 ? numberEdges(mesh, el.edges) : { nEdges: 0, cellEdges: new Int32Array(0) };
+  const { nFaces, cellFaces } = pf > 0 ? numberFaces(mesh, el.faces) : { nFaces: 0, cellFaces: new Int32Array(0) };
   const edgeBase = nVertices;
-  const interiorBase = nVertices + nEdges * pe;
+  const faceBase = nVertices + nEdges * pe;
+  const interiorBase = faceBase + nFaces * pf;
   const nDofs = interiorBase + nCells * pi;
   const cellDofs = new Int32Array(nCells * nLoc);
   for (let c = 0; c < nCells; c++) {
@@ -38,7 +45,8 @@ export function buildSpace(mesh: Mesh, el: LagrangeElement): FunctionSpace {
       const g = edgeBase + cellEdges[c * ne + e] * pe;
       for (let j = 0; j < pe; j++) cellDofs[o + vpc + e * pe + j] = a < b ? g + j : g + pe - 1 - j;
     }
-    for (let j = 0; j < pi; j++) cellDofs[o + vpc + ne * pe + j] = interiorBase + c * pi + j;
+    for (let f = 0; f < nf * pf; f++) cellDofs[o + vpc + ne * pe + f] = faceBase + cellFaces[c * nf + f];
+    for (let j = 0; j < pi; j++) cellDofs[o + vpc + ne * pe + nf * pf + j] = interiorBase + c * pi + j;
   }
   const dim = mesh.dim;
   // Degree 1: the dofs are the vertices.

@@ -3,19 +3,23 @@ import type { CellKind } from '../../mesh/types.ts';
 import { CELL_DIM } from '../../mesh/types.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { LagrangeElement } from './types.ts';
-import { lagrangeNodes, REFERENCE_EDGES, REFERENCE_FACETS } from './nodes.ts';
+import { lagrangeNodes, REFERENCE_EDGES, REFERENCE_FACES, REFERENCE_FACETS } from './nodes.ts';
 import { monomialExponents } from './monomials.ts';
 
 const SUPPORTED: Record<CellKind, number[]> = {
   interval: [1, 2, 3],
   triangle: [1, 2, 3],
   quadrilateral: [1, 2],
-  tetrahedron: [1, 2],
+  tetrahedron: [1, 2, 3],
+  hexahedron: [1, 2],
 };
 
 const cache = new Map<string, LagrangeElement>();
 
-/** The Lagrange element of degree k on a reference cell (P_k on simplices, Q_k on quadrilaterals).
+/** The Lagrange element of degree k on a reference cell (P_k on simplices, Q_k on quadrilaterals and hexahedra).
+ *  P3 on tetrahedra has one node at each face centroid and none inside (20 dofs); Q2 on hexahedra has vertices, edge
+ *  midpoints, face centres and the body centre (27 dofs). Degrees that would put more than one node inside a face
+ *  (P4 tetrahedra, Q3 hexahedra) are not offered: their face dofs would need an orientation rule.
  *  Basis = monomials times the inverse of the nodal Vandermonde matrix, so that φ_i(x_j) = δ_ij
  *  (the classical nodal construction; Ciarlet 1978, The Finite Element Method for Elliptic Problems, §2.2). */
 export function lagrangeElement(cell: CellKind, degree: number): LagrangeElement {
@@ -28,7 +32,7 @@ export function lagrangeElement(cell: CellKind, degree: number): LagrangeElement
     );
   }
   const dim = CELL_DIM[cell];
-  const { nodes, perEdge, perInterior } = lagrangeNodes(cell, degree);
+  const { nodes, perEdge, perFace, perInterior } = lagrangeNodes(cell, degree);
   const exps = monomialExponents(cell, degree);
   const n = nodes.length;
   if (exps.length !== n) throw new Error(`internal: ${exps.length} monomials for ${n} nodes`);
@@ -61,24 +65,30 @@ export function lagrangeElement(cell: CellKind, degree: number): LagrangeElement
 
   const edges = REFERENCE_EDGES[cell];
   const facetVertices = REFERENCE_FACETS[cell];
+  const faces = REFERENCE_FACES[cell];
   const nv = vertexCount(cell);
-  const facetDofs = facetVertices.map((fv) => {
+  // In 3D the facets are the faces (REFERENCE_FACES = REFERENCE_FACETS), so facet f also holds face f's dofs.
+  const faceBase = nv + edges.length * perEdge;
+  const facetDofs = facetVertices.map((fv, f) => {
     const dofs = [...fv];
     edges.forEach(([a, b], e) => {
       if (fv.includes(a) && fv.includes(b)) for (let j = 0; j < perEdge; j++) dofs.push(nv + e * perEdge + j);
     });
+    if (faces.length > 0) for (let j = 0; j < perFace; j++) dofs.push(faceBase + f * perFace + j);
     return dofs;
   });
 
   const el: LagrangeElement = {
     cell,
-    family: cell === 'quadrilateral' ? 'Q' : 'P',
+    family: cell === 'quadrilateral' || cell === 'hexahedron' ? 'Q' : 'P',
     degree,
     dim,
     nDofs: n,
     nodes: Float64Array.from(nodes.flat()),
     edges,
     perEdge,
+    faces,
+    perFace,
     perInterior,
     facetDofs,
     facetVertices,
@@ -89,7 +99,7 @@ export function lagrangeElement(cell: CellKind, degree: number): LagrangeElement
 }
 
 function vertexCount(cell: CellKind): number {
-  return cell === 'interval' ? 2 : cell === 'triangle' ? 3 : 4;
+  return cell === 'interval' ? 2 : cell === 'triangle' ? 3 : cell === 'hexahedron' ? 8 : 4;
 }
 
 function monomial(x: number[], e: number[]): number {

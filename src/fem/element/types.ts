@@ -1,8 +1,10 @@
 import type { CellKind } from '../../mesh/types.ts';
 
-/** A continuous Lagrange element: data plus one evaluator.
+/** A continuous Lagrange element: data plus one evaluator. It declares its dofs per mesh entity (one per vertex,
+ *  perEdge per edge, perFace per face of a 3D cell, perInterior inside), so that one dof map serves every element.
  *  Local dofs are ordered: vertices, then edges (k-1 per edge, from the edge's first local vertex to its second),
- *  then interior nodes. In 1D the cell's interior nodes come after the two vertices. */
+ *  then faces (3D cells; in the order of `faces`), then interior nodes. In 1D the cell's interior nodes come after
+ *  the two vertices. */
 export interface LagrangeElement {
   cell: CellKind;
   family: 'P' | 'Q';
@@ -15,8 +17,12 @@ export interface LagrangeElement {
   edges: number[][];
   /** Dofs per vertex (1), per edge (k-1 in 2D/3D), per cell interior. */
   perEdge: number;
+  /** Local vertex lists of each 2D face of a 3D cell, in local dof order ([] for 1D and 2D cells). */
+  faces: number[][];
+  /** Dofs inside each face of a 3D cell (0 in 1D/2D; at most 1, so that no orientation is needed). */
+  perFace: number;
   perInterior: number;
-  /** Local dofs that lie on each facet (vertices + edge dofs of that facet), per local facet index. */
+  /** Local dofs that lie on each facet (vertices + edge dofs + face dofs of that facet), per local facet index. */
   facetDofs: number[][];
   /** Local vertex indices of each facet. */
   facetVertices: number[][];

@@ -2,6 +2,7 @@ import type { FunctionSpace } from '../dofmap/types.ts';
 import { cellJacobian } from '../geometry/jacobian.ts';
 import type { DiscreteField } from './types.ts';
 import type { ScalarFn } from '../assemble/types.ts';
+import { AFFINE_CELL } from '../../mesh/types.ts';
 
 /** The finite element function Σ U_i φ_i of a Lagrange space. */
 export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
@@ -13,7 +14,7 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
   const J = new Float64Array(9), invJ = new Float64Array(9);
   const gref = new Float64Array(3);
   const local = new Float64Array(n);
-  const affine = mesh.cellKind !== 'quadrilateral';
+  const affine = AFFINE_CELL[mesh.cellKind];
   const linear = mesh.cellKind === 'triangle' && el.degree === 1 && n === 3;
   return {
     mesh,

@@ -4,6 +4,7 @@ import type { LagrangeElement } from '../element/types.ts';
 import { cellJacobian } from './jacobian.ts';
 import { mapReferencePoint } from './map.ts';
 import { RungsInputError } from '../../errors.ts';
+import { AFFINE_CELL } from '../../mesh/types.ts';
 
 /** Basis values, physical gradients, physical points and weights×|detJ| of one element on one cell at the points
  *  of one rule. Buffers are allocated once per (element, rule) and refilled per cell: no allocation per point. */
@@ -45,7 +46,7 @@ const xp = new Float64Array(3);
 /** Refills cv for cell c. Throws naming the cell when it is inverted or degenerate. */
 export function reinitCell(cv: CellValues, mesh: Mesh, c: number, withGrads = true): void {
   const { nq, n, dim, rule, values: _v, refGrads, grads, x, wdet } = cv;
-  const affine = mesh.cellKind !== 'quadrilateral';
+  const affine = AFFINE_CELL[mesh.cellKind];
   const pts = rule.points, coords = mesh.coords;
   const v0 = mesh.cells[c * mesh.verticesPerCell] * dim;
   let det = 0;
@@ -65,7 +66,7 @@ export function reinitCell(cv: CellValues, mesh: Mesh, c: number, withGrads = tr
       }
     } else {
       mapReferencePoint(mesh, c, pts, q * dim, xp);
-      x[q * 3] = xp[0]; x[q * 3 + 1] = xp[1]; x[q * 3 + 2] = 0;
+      x[q * 3] = xp[0]; x[q * 3 + 1] = xp[1]; x[q * 3 + 2] = dim > 2 ? xp[2] : 0;
     }
     if (!withGrads) continue;
     const o = q * n * dim;

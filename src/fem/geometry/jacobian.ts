@@ -10,7 +10,24 @@ function q1Grads(s: number, t: number, g: Float64Array): void {
 
 const q1g = new Float64Array(8);
 
-/** Jacobian J[d*dim + r] = ∂x_d/∂ξ_r of cell c at reference point ref[off..] (ignored for simplices),
+/** Reference gradients of the trilinear (Q1) geometry map of a hexahedron at (s, t, u): g[3v + r] = ∂N_v/∂ξ_r of
+ *  N_v = (s or 1 − s)(t or 1 − t)(u or 1 − u), vertices in the order of src/mesh/types.ts. */
+export function hexahedronMapGradients(s: number, t: number, u: number, g: Float64Array): void {
+  const s0 = 1 - s, t0 = 1 - t, u0 = 1 - u;
+  g[0] = -t0 * u0; g[1] = -s0 * u0; g[2] = -s0 * t0;
+  g[3] = t0 * u0; g[4] = -s * u0; g[5] = -s * t0;
+  g[6] = t * u0; g[7] = s * u0; g[8] = -s * t;
+  g[9] = -t * u0; g[10] = s0 * u0; g[11] = -s0 * t;
+  g[12] = -t0 * u; g[13] = -s0 * u; g[14] = s0 * t0;
+  g[15] = t0 * u; g[16] = -s * u; g[17] = s * t0;
+  g[18] = t * u; g[19] = s * u; g[20] = s * t;
+  g[21] = -t * u; g[22] = s0 * u; g[23] = s0 * t;
+}
+
+const h1g = new Float64Array(24);
+
+/** Jacobian J[d*dim + r] = ∂x_d/∂ξ_r of cell c at reference point ref[off..] (ignored for simplices; bilinear map
+ *  for quadrilaterals, trilinear for hexahedra),
  *  its inverse invJ[r*dim + d] = ∂ξ_r/∂x_d, and the determinant (returned). */
 export function cellJacobian(
   mesh: Mesh, c: number, ref: ArrayLike<number>, off: number, J: Float64Array, invJ: Float64Array,
@@ -26,6 +43,18 @@ export function cellJacobian(
       cc += coords[p + 1] * q1g[2 * v]; d += coords[p + 1] * q1g[2 * v + 1];
     }
     J[0] = a; J[1] = b; J[2] = cc; J[3] = d;
+  } else if (mesh.cellKind === 'hexahedron') {
+    // Trilinear map: J[d*3 + r] = Σ_v x_v,d ∂N_v/∂ξ_r, varying from point to point.
+    hexahedronMapGradients(ref[off], ref[off + 1], ref[off + 2], h1g);
+    for (let k = 0; k < 9; k++) J[k] = 0;
+    for (let v = 0; v < 8; v++) {
+      const p = cells[base + v] * 3;
+      const g0 = h1g[3 * v], g1 = h1g[3 * v + 1], g2 = h1g[3 * v + 2];
+      for (let d = 0; d < 3; d++) {
+        const x = coords[p + d];
+        J[3 * d] += x * g0; J[3 * d + 1] += x * g1; J[3 * d + 2] += x * g2;
+      }
+    }
   } else {
     const v0 = cells[base] * dim;
     for (let r = 0; r < dim; r++) {

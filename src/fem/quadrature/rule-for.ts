@@ -4,18 +4,19 @@ import { gaussPointsForDegree } from './check-count.ts';
 import { collapsedTetrahedronRule, collapsedTriangleRule } from './collapsed-rules.ts';
 import { polishTriangleTable } from './polish-symmetric.ts';
 import { expandTriangleTable } from './symmetric-orbits.ts';
-import { intervalGaussRule, quadrilateralGaussRule } from './tensor-rules.ts';
+import { hexahedronGaussRule, intervalGaussRule, quadrilateralGaussRule } from './tensor-rules.ts';
 import { tetrahedronCentroidRule, tetrahedronFourPointRule, tetrahedronFourteenPointRule } from './tetrahedron-symmetric.ts';
 import { SYMMETRIC_TRIANGLE_TABLES } from './triangle-symmetric-tables.ts';
 import type { QuadratureRule } from './types.ts';
 
 /** Highest degree ruleFor accepts per cell: keeps the point count below ~10^5 (interval 4096 points,
- *  quadrilateral and triangle 200 x 200, tetrahedron 50^3). */
+ *  quadrilateral and triangle 200 x 200, tetrahedron and hexahedron 50^3). */
 export const MAX_RULE_DEGREE: Readonly<Record<CellKind, number>> = {
   interval: 8191,
   quadrilateral: 399,
   triangle: 399,
   tetrahedron: 99,
+  hexahedron: 99,
 };
 
 const CELL_KINDS = Object.keys(MAX_RULE_DEGREE) as CellKind[];
@@ -67,7 +68,7 @@ export function symmetricTetrahedronRules(): QuadratureRule[] {
 
 /**
  * The cheapest rule (fewest points) exact to `degree` on the reference `cell`: total degree for the
- * interval, triangle and tetrahedron, degree in each variable (Q_degree) for the quadrilateral.
+ * interval, triangle and tetrahedron, degree in each variable (Q_degree) for the quadrilateral and hexahedron.
  * On a tie a symmetric rule wins over a collapsed one. The returned rule is cached and shared: do not
  * modify its arrays.
  */
@@ -101,6 +102,8 @@ function select(cell: CellKind, degree: number): QuadratureRule {
       return cached(`interval/gauss/${n}`, () => intervalGaussRule(n));
     case 'quadrilateral':
       return cached(`quadrilateral/gauss/${n}`, () => quadrilateralGaussRule(n));
+    case 'hexahedron':
+      return cached(`hexahedron/gauss/${n}`, () => hexahedronGaussRule(n));
     case 'triangle':
       return cheapest(TRIANGLE_CANDIDATES, degree, n * n, () =>
         cached(`triangle/collapsed/${n}`, () => collapsedTriangleRule(n)),
@@ -126,4 +129,27 @@ function cheapest(
   }
   if (best !== undefined && best.nPoints <= collapsedPoints) return best.build();
   return collapsed();
+}
+
+/** The shape of the facets of each cell kind (null: a point, no rule needed). */
+export const FACET_CELL: Readonly<Record<CellKind, CellKind | null>> = {
+  interval: null,
+  triangle: 'interval',
+  quadrilateral: 'interval',
+  tetrahedron: 'triangle',
+  hexahedron: 'quadrilateral',
+};
+
+/** ruleFor on the reference facet of `cell` (an interval for 2D cells, the reference triangle for tetrahedra, the
+ *  unit square for hexahedra, whose faces are quadrilaterals); null for intervals, whose facets are points. The
+ *  weights sum to the reference facet's measure (1, 1/2 or 1). */
+export function facetRuleFor(cell: CellKind, degree: number): QuadratureRule | null {
+  if (!Object.hasOwn(FACET_CELL, cell)) {
+    throw new RungsInputError(
+      `facetRuleFor(cell, degree): cell must be one of ${CELL_KINDS.join(', ')}, got ${JSON.stringify(cell)}`,
+      'facetRuleFor.cell',
+    );
+  }
+  const facet = FACET_CELL[cell];
+  return facet === null ? null : ruleFor(facet, degree);
 }

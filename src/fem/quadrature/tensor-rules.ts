@@ -37,3 +37,31 @@ export function quadrilateralGaussRule(n: number): QuadratureRule {
     source: `tensor Gauss–Legendre ${n}x${n} (Stroud 1971, product rules)`,
   };
 }
+
+/** n x n x n tensor Gauss–Legendre rule on [0,1]^3, exact for Q_(2n-1): degree <= 2n - 1 in each variable
+ *  separately (Stroud 1971, product rules). Points x-fastest, then y, then z. */
+export function hexahedronGaussRule(n: number): QuadratureRule {
+  const line = gaussJacobiOnUnit(n, 0);
+  const points = new Float64Array(3 * n * n * n);
+  const weights = new Float64Array(n * n * n);
+  let q = 0;
+  for (let k = 0; k < n; k++) {
+    for (let j = 0; j < n; j++) {
+      for (let i = 0; i < n; i++) {
+        points[3 * q] = line.points[i]!;
+        points[3 * q + 1] = line.points[j]!;
+        points[3 * q + 2] = line.points[k]!;
+        weights[q] = line.weights[i]! * line.weights[j]! * line.weights[k]!;
+        q++;
+      }
+    }
+  }
+  return {
+    cell: 'hexahedron',
+    degree: 2 * n - 1,
+    nPoints: n * n * n,
+    points,
+    weights,
+    source: `tensor Gauss–Legendre ${n}x${n}x${n} (Stroud 1971, product rules)`,
+  };
+}

@@ -3,11 +3,14 @@
  *  (Lanczos 1950; Saad 2003, Iterative Methods for Sparse Linear Systems, §6.6). The largest Ritz value approaches
  *  λ_max from below, so the estimate is inflated slightly and capped by Gershgorin's bound. */
 import { mulberry32 } from '../random.ts';
+import { spmv } from '../csr.ts';
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
+/** strong = null: the whole of A (then dF must be its diagonal), ρ(D⁻¹A); its products run as the kernel spmv
+ *  when every array lives in the allocator's WebAssembly memory (same bits as csr.ts's spmv). */
 export function lanczosSpectralRadius(
-  A: Csr, strong: Uint8Array, dF: Float64Array, steps: number, gershgorin: number, alloc: Allocator = heapAllocator,
+  A: Csr, strong: Uint8Array | null, dF: Float64Array, steps: number, gershgorin: number, alloc: Allocator = heapAllocator,
 ): number {
   const n = A.nRows;
   const k = Math.min(steps, n);
@@ -21,6 +24,8 @@ export function lanczosSpectralRadius(
   let v = alloc.f64(n, false);
   let vPrev = alloc.f64(n); // zero: the first step subtracts β₋₁ v₋₁ = 0 · v₋₁
   const w = alloc.f64(n, false);
+  const Au = strong ? null : alloc.f64(n, false);
+  const wasm = Au && alloc.wasm && alloc.wasm.owns(rowPtr, colIdx, values, u, Au) ? alloc.wasm.kernels : null;
   let nrm = 0;
   for (let i = 0; i < n; i++) { v[i] = rand() - 0.5; nrm += v[i] * v[i]; }
   nrm = Math.sqrt(nrm);
@@ -32,7 +37,15 @@ export function lanczosSpectralRadius(
   for (let j = 0; j < k; j++) {
     // w = B v − β_{j−1} v_{j−1}, α_j = w·v
     let a = 0;
-    for (let i = 0; i < n; i++) {
+    if (!strong) {
+      if (wasm) wasm.spmv(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, u.byteOffset, Au!.byteOffset);
+      else spmv(A, u, Au!);
+      for (let i = 0; i < n; i++) {
+        const wi = s[i] * Au![i] - betaPrev * vPrev[i];
+        w[i] = wi;
+        a += wi * v[i];
+      }
+    } else for (let i = 0; i < n; i++) {
       let acc = dF[i] * u[i];
       for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) if (strong[p]) acc += values[p] * u[colIdx[p]];
       const wi = s[i] * acc - betaPrev * vPrev[i];
@@ -52,6 +65,7 @@ export function lanczosSpectralRadius(
     betaPrev = b;
   }
   alloc.free(s); alloc.free(u); alloc.free(v); alloc.free(vPrev); alloc.free(w);
+  if (Au) alloc.free(Au);
   const lmax = largestTridiagonalEigenvalue(alpha, beta, m);
   return Math.min(gershgorin, 1.05 * lmax);
 }

@@ -25,6 +25,20 @@ export interface AmgOptions {
   kernels?: 'wasm' | 'javascript';
   /** Whether A is symmetric; decides the coarsest solver (Cholesky or LU). Checked from A when absent. */
   symmetric?: boolean;
+  /** Unknowns per node for a system of PDEs, interleaved node-major (unknown = node·blockSize + component). Above 1
+   *  the strength graph and the aggregates are built on nodes (system.ts). Default 1. */
+  blockSize?: number;
+  /** The near-null space: m vectors with one entry per unknown that A maps to (nearly) zero, carried exactly by the
+   *  tentative prolongator; for elasticity the rigid-body modes (rigid-body-modes.ts). Default: the constant in each
+   *  of the blockSize components. Given (or with blockSize > 1, or nodeOf), the system path of system.ts is used;
+   *  without any of the three the scalar path is unchanged (the system path with blockSize 1 differs from it: its
+   *  strength test counts |a_ij|, not only negative couplings). */
+  nearNullSpace?: Float64Array[];
+  /** The node of each unknown (any non-negative integers; equal values share a node), for reduced systems in which
+   *  only some components of a node were eliminated, so that the unknowns are no longer whole blocks of blockSize.
+   *  Takes the place of the interleaved numbering; blockSize, when given, bounds the unknowns of a node. Needs
+   *  nearNullSpace. */
+  nodeOf?: Int32Array;
 }
 
 /** One level of the hierarchy: its operator, the data of its smoother, the prolongator that carries its unknowns to
@@ -88,6 +102,8 @@ export interface AmgStats {
   perLevel: AmgLevelInfo[];
   /** How the coarsest level is solved, e.g. 'cholesky (n = 143)'. */
   coarseSolver: string;
+  /** Size m of the near-null space on the system path (absent on the scalar path). */
+  nearNullSpace?: number;
   /** Set when coarsening stalled or the coarsest operator was singular (and a pseudo-inverse was used). */
   notes: string[];
 }

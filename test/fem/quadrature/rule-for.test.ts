@@ -15,8 +15,8 @@ describe('ruleFor input errors', () => {
     expect(() => ruleFor('interval', '3' as unknown as number)).toThrow(RungsInputError);
   });
   it('an unknown cell is rejected, listing the valid cells', () => {
-    expect(() => ruleFor('hexahedron' as CellKind, 2)).toThrow(RungsInputError);
-    expect(() => ruleFor('hexahedron' as CellKind, 2)).toThrow(/interval, quadrilateral, triangle, tetrahedron/);
+    expect(() => ruleFor('prism' as CellKind, 2)).toThrow(RungsInputError);
+    expect(() => ruleFor('prism' as CellKind, 2)).toThrow(/interval, quadrilateral, triangle, tetrahedron, hexahedron/);
   });
   it('the error says where it came from', () => {
     try {
@@ -65,7 +65,7 @@ describe('ruleFor picks cheap rules', () => {
     expect(ruleFor('interval', 6)).toBe(ruleFor('interval', 7));
   });
   it('the points array has nPoints * dim entries and names a source', () => {
-    const dims: Record<CellKind, number> = { interval: 1, quadrilateral: 2, triangle: 2, tetrahedron: 3 };
+    const dims: Record<CellKind, number> = { interval: 1, quadrilateral: 2, triangle: 2, tetrahedron: 3, hexahedron: 3 };
     for (const cell of ['interval', 'quadrilateral', 'triangle', 'tetrahedron'] as const) {
       for (const d of [0, 3, 9]) {
         const rule = ruleFor(cell, d);

@@ -1,0 +1,105 @@
+import type { Csr } from '../../linalg/types.ts';
+import { facetsWithTags } from '../../mesh/tags.ts';
+import { RungsInputError } from '../../errors.ts';
+import { facetClosureDofs } from '../dofmap/dofmap.ts';
+import { locateFacets } from '../geometry/facets.ts';
+import type { MixedSpace } from '../space/types.ts';
+
+/** Unknowns fixed by Dirichlet data and their values (full length; zero where free). */
+export interface Constraints {
+  fixed: Uint8Array;
+  values: Float64Array;
+}
+
+export function noConstraints(nDofs: number): Constraints {
+  return { fixed: new Uint8Array(nDofs), values: new Float64Array(nDofs) };
+}
+
+/** Fixes the unknowns of one field on the boundary facets with the given tags to the nodal values of g (Dirichlet
+ *  data interpolated at the boundary nodes; common practice, e.g. Brenner & Scott 2008 §5.5). `components` picks
+ *  which components are fixed (default all): a roller fixes one. g writes the field's components into out. */
+export function fixBoundary(
+  space: MixedSpace, cons: Constraints, field: number, tags: readonly string[],
+  g: (x: number, y: number, z: number, out: Float64Array) => void, components?: readonly number[],
+): void {
+  if (tags.length === 0) return;
+  const f = space.fields[field];
+  const { scalar, components: nc } = f.space;
+  const mesh = space.mesh, dim = mesh.dim;
+  const which = components ?? Array.from({ length: nc }, (_, i) => i);
+  for (const i of which) if (!(Number.isInteger(i) && i >= 0 && i < nc)) throw new RungsInputError(`component ${i} of field '${f.name}' does not exist; it has ${nc}`);
+  const fc = locateFacets(mesh);
+  const nodes = facetClosureDofs(scalar, fc.cell, fc.local, facetsWithTags(mesh, tags));
+  const X = scalar.dofCoords;
+  const out = new Float64Array(nc);
+  for (const g0 of nodes) {
+    g(X[g0 * dim], dim > 1 ? X[g0 * dim + 1] : 0, dim > 2 ? X[g0 * dim + 2] : 0, out);
+    for (const i of which) {
+      const v = out[i];
+      if (!Number.isFinite(v)) throw new RungsInputError(`Dirichlet value of '${f.name}'${nc > 1 ? `[${i + 1}]` : ''} is ${v} at the boundary node (${Array.from(X.subarray(g0 * dim, g0 * dim + dim), (t) => t.toPrecision(6)).join(', ')})`);
+      const u = f.offset + g0 * nc + i;
+      cons.fixed[u] = 1;
+      cons.values[u] = v;
+    }
+  }
+}
+
+/** The linear system on the free unknowns: rows and columns of fixed unknowns removed, their values moved to the
+ *  right-hand side (b_free − A_free,fixed · g), so a symmetric matrix stays symmetric and a definite one definite. */
+export interface ReducedSystem {
+  A: Csr;
+  b: Float64Array;
+  /** reduced[u] = row of unknown u, or −1 when fixed. */
+  reduced: Int32Array;
+  /** free[r] = unknown of row r. */
+  free: Int32Array;
+  constraints: Constraints;
+}
+
+/** Dirichlet elimination as its own step after assembly. */
+export function eliminate(A: Csr, b: Float64Array, cons: Constraints): ReducedSystem {
+  const n = A.nRows;
+  const reduced = new Int32Array(n);
+  let m = 0;
+  for (let u = 0; u < n; u++) reduced[u] = cons.fixed[u] ? -1 : m++;
+  const free = new Int32Array(m);
+  for (let u = 0; u < n; u++) if (reduced[u] >= 0) free[reduced[u]] = u;
+  const rowPtr = new Int32Array(m + 1);
+  const { rowPtr: rp, colIdx: ci, values: av } = A;
+  for (let r = 0; r < m; r++) {
+    const u = free[r];
+    let k = 0;
+    for (let s = rp[u]; s < rp[u + 1]; s++) if (reduced[ci[s]] >= 0) k++;
+    rowPtr[r + 1] = rowPtr[r] + k;
+  }
+  const colIdx = new Int32Array(rowPtr[m]);
+  const values = new Float64Array(rowPtr[m]);
+  const rb = new Float64Array(m);
+  const g = cons.values;
+  for (let r = 0; r < m; r++) {
+    const u = free[r];
+    let k = rowPtr[r];
+    let s0 = b[u];
+    for (let s = rp[u]; s < rp[u + 1]; s++) {
+      const col = reduced[ci[s]];
+      if (col >= 0) { colIdx[k] = col; values[k] = av[s]; k++; } else s0 -= av[s] * g[ci[s]];
+    }
+    rb[r] = s0;
+  }
+  return { A: { nRows: m, nCols: m, rowPtr, colIdx, values }, b: rb, reduced, free, constraints: cons };
+}
+
+/** The full vector of unknowns from the free ones and the fixed values. */
+export function expand(sys: ReducedSystem, x: Float64Array): Float64Array {
+  const u = sys.constraints.values.slice();
+  const free = sys.free;
+  for (let r = 0; r < free.length; r++) u[free[r]] = x[r];
+  return u;
+}
+
+/** The free entries of a full vector. */
+export function restrictToFree(sys: ReducedSystem, v: Float64Array): Float64Array {
+  const out = new Float64Array(sys.free.length);
+  for (let r = 0; r < out.length; r++) out[r] = v[sys.free[r]];
+  return out;
+}

@@ -1,0 +1,83 @@
+import type { Mesh } from '../../mesh/types.ts';
+import type { SolveStats } from '../../linalg/types.ts';
+import { solveSystem, AUTO_DIRECT_MAX_N, type SolveSystemOptions } from '../../linalg/index.ts';
+import { lagrangeSpace } from '../dofmap/dofmap.ts';
+import { singleField } from '../space/space.ts';
+import type { MixedSpace } from '../space/types.ts';
+import { assembleForm } from '../form/assemble.ts';
+import { elasticityTerm } from '../form/terms/elasticity.ts';
+import { boundaryLoadTerm, sourceTerm } from '../form/terms/loads.ts';
+import type { NormalData, PointData } from '../form/terms/types.ts';
+import { eliminate, expand, fixBoundary, noConstraints, type ReducedSystem } from '../constraints/dirichlet.ts';
+import type { Form } from '../form/types.ts';
+import { systemDegrees } from './quadrature-degrees.ts';
+import { reducedRigidBodyModes } from '../../linalg/amg/rigid-body-modes.ts';
+
+export interface ElasticityInput {
+  mesh: Mesh;
+  degree: number;
+  lambda: PointData;
+  mu: PointData;
+  /** Body force f (dim components). */
+  source: PointData;
+  /** Displacement fixed on these tags to the values of `value` (all components). */
+  dirichlet?: { tags: readonly string[]; value: PointData };
+  /** Traction σn given on these tags. */
+  traction?: { tags: readonly string[]; value: NormalData };
+  /** Polynomial degrees of λ, μ (null: not polynomials) and of f, to choose the quadrature. */
+  hints?: { coefficients?: number | null; source?: number | null };
+  solver?: Omit<SolveSystemOptions, 'symmetric'>;
+  /** Use the rigid-body modes as the multigrid's near-null space (default true; false only to show why they
+   *  matter). */
+  rigidBodyModes?: boolean;
+}
+
+export interface ElasticitySolution {
+  space: MixedSpace;
+  system: ReducedSystem;
+  /** Interleaved displacement unknowns: component i at node g is coefficients[g·dim + i]. */
+  coefficients: Float64Array;
+  solver: SolveStats;
+  seconds: { space: number; assemble: number; solve: number };
+}
+
+/** The weak form of −∇·σ(u) = f with traction data: (σ(u), ε(v)) = (f, v) + ∫ t·v. */
+export function elasticityForm(space: MixedSpace, input: Omit<ElasticityInput, 'mesh' | 'degree' | 'solver'>, degree: number): Form {
+  const dim = space.mesh.dim;
+  const d = systemDegrees(space.mesh.cellKind, degree, input.hints?.coefficients ?? null, input.hints?.source ?? null);
+  return {
+    matrix: [elasticityTerm(0, input.lambda, input.mu, d.gradGrad)],
+    vector: [sourceTerm(0, dim, input.source, d.source)],
+    facetVector: input.traction && input.traction.tags.length ? [boundaryLoadTerm(0, dim, input.traction.tags, input.traction.value, d.source)] : [],
+  };
+}
+
+/** Vector Lagrange elements of degree k for linear elasticity in displacement form; CG with smoothed aggregation
+ *  that knows the rigid-body modes (Vaněk, Mandel & Brezina 1996). Not locking-free: as λ/μ grows, the error
+ *  constant grows (Babuška & Suri 1992). */
+export function solveElasticity(input: ElasticityInput): ElasticitySolution {
+  const t0 = performance.now();
+  const { mesh } = input;
+  const dim = mesh.dim;
+  const scalar = lagrangeSpace(mesh, input.degree);
+  const space = singleField('u', scalar, dim);
+  const t1 = performance.now();
+  const { A, b } = assembleForm(space, elasticityForm(space, input, input.degree));
+  const cons = noConstraints(space.nDofs);
+  if (input.dirichlet) fixBoundary(space, cons, 0, input.dirichlet.tags, input.dirichlet.value);
+  const system = eliminate(A, b, cons);
+  const t2 = performance.now();
+  const amg = { ...input.solver?.amg };
+  if (input.rigidBodyModes !== false) {
+    Object.assign(amg, { blockSize: dim, ...reducedRigidBodyModes(scalar.dofCoords, dim as 2 | 3, scalar.nDofs, system.free) });
+  }
+  // Multigrid from a few hundred unknowns on: the incomplete factorisations that 'auto' takes for mid-sized scalar
+  // systems need 3–4 times the iterations on elasticity (measured: 95 against 23 CG iterations at 2178 unknowns).
+  const preconditioner = input.solver?.preconditioner ?? (system.A.nRows > AUTO_DIRECT_MAX_N ? 'amg' : undefined);
+  const { x, stats } = solveSystem(system.A, system.b, { ...input.solver, preconditioner, amg, symmetric: true });
+  const t3 = performance.now();
+  return {
+    space, system, coefficients: expand(system, x), solver: stats,
+    seconds: { space: (t1 - t0) / 1e3, assemble: (t2 - t1) / 1e3, solve: (t3 - t2) / 1e3 },
+  };
+}

@@ -1,0 +1,29 @@
+import type { FunctionSpace } from '../../fem/dofmap/types.ts';
+import { errorNormsOf } from '../../norms/errors.ts';
+import type { DiscreteField, NormValues } from '../../norms/types.ts';
+import type { Mesh } from '../../mesh/types.ts';
+import type { StudyProblem } from '../problem.ts';
+import { seconds } from './types.ts';
+import { interpolantField } from './scalar-lagrange.ts';
+
+/** The errors of a scalar discrete field and, in the same pass, of the nodal interpolant I_h u of that degree
+ *  (the best-approximation reference of Céa's lemma), with the Céa ratio for symmetric problems. */
+export function measureField(
+  field: DiscreteField, degree: number | undefined, mesh: Mesh, problem: StudyProblem, norms: readonly string[],
+  interpKnown: NormValues | null = null, interpolant?: DiscreteField, space?: FunctionSpace,
+): { output: { errors: Record<string, number>; interpolationErrors?: Record<string, number>; quasiOptimality: number | null }; seconds: number } {
+  const t = performance.now();
+  const exact = problem.exact!;
+  const errOpts = { k: problem.coefficients.k, c: problem.coefficients.c };
+  let interp = interpKnown;
+  const withInterp = !interp && degree !== undefined && degree > 0;
+  const interpField = withInterp ? (interpolant ?? interpolantField(mesh, degree, exact.u, space ?? null)) : null;
+  const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, errOpts);
+  if (interpErrs) interp = interpErrs;
+  const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, (v as unknown as Record<string, number>)[nm]]));
+  const quasi = problem.symmetric && interp && interp.energy > 0 ? errs.energy / interp.energy : null;
+  return {
+    output: { errors: pick(errs), interpolationErrors: interp ? pick(interp) : undefined, quasiOptimality: quasi },
+    seconds: seconds(t),
+  };
+}

@@ -1,0 +1,38 @@
+import { exactNorms } from '../../norms/errors.ts';
+import { fieldErrors } from '../../norms/field-errors.ts';
+import type { DiscreteField } from '../../norms/types.ts';
+import { solutionOf } from '../../equation/manufactured.ts';
+import type { StudyDeclaration } from '../declaration.ts';
+import type { StudyProblem } from '../problem.ts';
+import { builtInPreset } from '../expected.ts';
+import { systemData } from './system-data.ts';
+import { scalarOf } from './system-common.ts';
+
+/** The size of the exact solution in each norm rungs measures (the error of the zero field), on the first level's
+ *  mesh: the scale that round-off floors are judged against. Empty for an external code's own norms. */
+export function normScales(decl: StudyDeclaration, problem: StudyProblem): Record<string, number> {
+  const degree = decl.discretization.degree ?? 2;
+  const quadrature = 2 * degree + 8;
+  if (problem.exact) return exactNorms(decl.domain.mesh(decl.ladder.n[0]), problem.exact, { degree: quadrature }) as unknown as Record<string, number>;
+  if (decl.discretization.kind !== 'lagrange' || !problem.derived) return {};
+  const mesh = decl.domain.mesh(decl.ladder.n[0]);
+  const preset = builtInPreset(decl);
+  if (preset === 'nonlinear-diffusion') return exactNorms(mesh, solutionOf(problem.derived), { degree: quadrature }) as unknown as Record<string, number>;
+  const data = systemData(decl.name, problem.derived);
+  const zero = (components: number): DiscreteField => ({
+    mesh, nDofs: 0, degree: 0, components,
+    evaluate(_c, _p, n, v, g) { v.fill(0, 0, n * components); g.fill(0); },
+  });
+  const u = data.exact('u');
+  const opts = preset === 'linear-elasticity'
+    ? { divergence: true, degree: quadrature, elasticity: { lambda: scalarOf(data.point('coef_lambda')), mu: scalarOf(data.point('coef_mu')) } }
+    : { divergence: true, degree: quadrature };
+  const [eu] = fieldErrors([zero(mesh.dim)], u, opts);
+  const out: Record<string, number> = { L2_u: eu.L2, H1semi_u: eu.H1semi, H1_u: eu.H1, maxNodal_u: Number.NaN, div_u: eu.div ?? Number.NaN };
+  if (eu.energy !== undefined) out.energy = eu.energy;
+  if (preset === 'stokes') {
+    const [ep] = fieldErrors([zero(1)], data.exact('p'), { meanFree: problem.pde.meanFree?.includes('p') ?? false, degree: quadrature });
+    out.L2_p = ep.L2;
+  }
+  return out;
+}

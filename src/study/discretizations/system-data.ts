@@ -1,0 +1,58 @@
+import { parse } from 'mathjs';
+import { RungsInputError } from '../../errors.ts';
+import { compileBundle, dataBundle } from '../../equation/bundle.ts';
+import type { DerivedProblem } from '../../equation/derive.ts';
+import { differentiate } from '../../exact/differentiate.ts';
+import { compileOutputs } from '../../exact/compile.ts';
+import type { NormalData, PointData } from '../../fem/form/terms/types.ts';
+import type { SolutionDependent } from '../../fem/discretizations/nonlinear-diffusion.ts';
+import type { ExactField } from '../../norms/types.ts';
+
+/** The derived data of a system as point functions for rungs's own solvers: the same compiled functions the
+ *  preflight check and values-at use (src/equation/bundle.ts), at t = 0 (steady problems). */
+export interface SystemData {
+  point(name: string): PointData;
+  normal(name: string): NormalData;
+  has(name: string): boolean;
+  exact(field: string): ExactField;
+}
+
+export function systemData(study: string, derived: DerivedProblem): SystemData {
+  const fns = compileBundle(dataBundle(study, derived)).functions;
+  const get = (name: string) => {
+    const f = fns.get(name);
+    if (!f) throw new Error(`internal: no generated function ${name}`);
+    return f;
+  };
+  const point = (name: string): PointData => {
+    const f = get(name).evaluate;
+    const args = new Float64Array(4);
+    return (x, y, z, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = 0; f(args, out); };
+  };
+  const normal = (name: string): NormalData => {
+    const f = get(name).evaluate;
+    const args = new Float64Array(7);
+    return (x, y, z, nx, ny, nz, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = 0; args[4] = nx; args[5] = ny; args[6] = nz; f(args, out); };
+  };
+  return {
+    point, normal,
+    has: (name) => fns.has(name),
+    exact(field) {
+      const components = get(`exact_${field}`).outputs;
+      return { components, value: point(`exact_${field}`), grad: point(`grad_${field}`) };
+    },
+  };
+}
+
+/** κ(u) or r(u) of the nonlinear preset with its derivative in u, compiled from the preset's formula. */
+export function solutionDependent(text: string, path: string): SolutionDependent {
+  let node;
+  try {
+    node = parse(text);
+  } catch (err) {
+    throw new RungsInputError(`${path}: cannot parse '${text}': ${(err as Error).message}`, path);
+  }
+  const f = compileOutputs(['u', 'x', 'y', 'z', 't'], [node, differentiate(node, 'u')]);
+  const args = new Float64Array(5), out2 = new Float64Array(2);
+  return (u, x, y, z, out) => { args[0] = u; args[1] = x; args[2] = y; args[3] = z; args[4] = 0; f(args, out2); out[0] = out2[0]; out[1] = out2[1]; };
+}

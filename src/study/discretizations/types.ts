@@ -1,0 +1,52 @@
+import type { Mesh } from '../../mesh/types.ts';
+import type { SolveStats } from '../../linalg/types.ts';
+import type { StudyDeclaration } from '../declaration.ts';
+import type { StudyProblem } from '../problem.ts';
+import type { LevelContext } from '../context.ts';
+import type { LevelResult } from '../result.ts';
+
+/** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
+export interface LevelEnvironment {
+  out: string;
+  /** The folder holding the study's generated manufactured data ({data}, RUNGS_DATA), when written. */
+  data?: string;
+}
+
+/** Everything one level of a study needs, the mesh already made. */
+export interface LevelInput {
+  decl: StudyDeclaration;
+  file: string;
+  problem: StudyProblem;
+  index: number;
+  n: number;
+  mesh: Mesh;
+  /** The norms the study measures (or, for an external code, the errors it reports). */
+  norms: readonly string[];
+  solver: LevelContext['solver'];
+  env: LevelEnvironment;
+}
+
+/** What a discretization hands back for one level: its unknowns and errors, and how it solved. */
+export interface LevelOutput {
+  dofs: number;
+  /** The code's own h and cell count, when it meshes for itself (external codes); else the runner's mesh. */
+  h?: number;
+  cells?: number;
+  errors: Record<string, number>;
+  interpolationErrors?: Record<string, number>;
+  quasiOptimality?: number | null;
+  solver?: SolveStats | null;
+  algebraic?: LevelResult['algebraic'];
+  quantities?: Record<string, number>;
+  seconds: { assemble: number; solve: number; errors: number; [phase: string]: number };
+}
+
+/** Every kind of discretization — rungs's own elements for each equation, a user's TypeScript solve(level), an
+ *  external code — is one object behind this interface; the level runner only meshes and times. */
+export interface LevelDiscretization {
+  /** What it is, for messages and reports (e.g. "vector P2 elasticity"). */
+  label: string;
+  run(input: LevelInput): Promise<LevelOutput>;
+}
+
+export const seconds = (t0: number): number => (performance.now() - t0) / 1e3;
