@@ -2,6 +2,7 @@ import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
+import { expandSweeps, judgeSweeps, type SweepVerdict } from '../study/sweep.ts';
 import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
 import type { StudyResult } from '../study/result.ts';
@@ -33,6 +34,8 @@ export interface Execution {
   notRun: string[];
   /** Levels reused from an earlier run (--resume), per study. */
   reused: Map<string, number[]>;
+  /** The robustness verdict of each study that swept a coefficient (its members are among the results). */
+  sweeps: SweepVerdict[];
 }
 
 /** Exit status of a run stopped by a signal: 128 + its number (SIGINT 130, SIGTERM 143), as shells report it. */
@@ -157,7 +160,7 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   };
   const run = opts.run;
   const stopped = () => run?.interrupted != null;
-  const empty = (): Execution => ({ results: [], problems, interrupted: run?.interrupted ?? null, incomplete: new Set(), notRun: [], reused: new Map() });
+  const empty = (): Execution => ({ results: [], problems, interrupted: run?.interrupted ?? null, incomplete: new Set(), notRun: [], reused: new Map(), sweeps: [] });
   let files: string[];
   try {
     files = findStudyFiles(paths);
@@ -178,6 +181,10 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     const shown = relative(process.cwd(), file) || file;
     try { loadedStudies.push(await loadStudy(file)); } catch (err) { problem(asProblem(err, '', shown)); }
   }
+  // A study that sweeps a coefficient runs as one study per value (src/study/sweep.ts).
+  const expandedStudies = expandSweeps(loadedStudies);
+  loadedStudies.length = 0;
+  loadedStudies.push(...expandedStudies);
   // One name in two files would write the same report files and baseline entry: neither runs, the others do.
   const clashes = nameClashes(loadedStudies);
   // Nothing the previous run wrote may pass for this run's result: its summary and index go, and so do the reports of
@@ -263,18 +270,21 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
       const r = completeStudy(p);
       if (cut) incomplete.add(r.study);
       results.push(r);
-      opts.onResult?.(r);
     } catch (err) {
       // Too few levels to analyse is what an early stop gives: the finished levels are still reported.
       if (cut) { incomplete.add(p.result.study); results.push(p.result); continue; }
       problem(asProblem(err, p.result.study, p.loaded.file));
     }
   }
+  // Sweeps over a coefficient: is the error constant bounded toward the limit? Judged before any result is shown, since
+  // the sweep's verdict decides whether its members are as expected.
+  const sweeps = judgeSweeps(results, new Map(prepared.map((p) => [p.result.study, p.loaded.declaration])), Object.fromEntries(prepared.map((p) => [p.result.study, p.expected])));
+  for (const r of results) opts.onResult?.(r);
   if (stopped()) for (const l of loadedStudies) {
     const name = l.declaration.name;
     if (!prepared.some((p) => p.loaded === l) && !problems.some((q) => q.study === name)) notRun.push(name);
   }
-  return { results, problems, interrupted: run?.interrupted ?? null, incomplete, notRun, reused };
+  return { results, problems, interrupted: run?.interrupted ?? null, incomplete, notRun, reused, sweeps };
 }
 
 /** Private level folders (src/external/level.ts) that a killed run left in a study's folder. Called while holding the
@@ -391,7 +401,7 @@ async function runParallel(prepared: PreparedStudy[], jobs: number, ctx: RunCont
     const all = Promise.all(tasks.map(async ({ p, index }) => {
       try {
         if (ctx.stopped()) return;
-        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data });
+        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data, member: p.loaded.declaration.sweepMember?.index });
         if (failed(p) || closed) return;
         addLevel(p, level);
         progress.levelDone(p.result.study, level, p.total);

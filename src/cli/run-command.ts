@@ -7,6 +7,7 @@ import { runStatus } from '../study/runner.ts';
 import { problemLine, useColor } from './output.ts';
 import { flawLines } from './flaws.ts';
 import { formatQuantityReports } from '../fit/quantity-terminal.ts';
+import type { SweepVerdict } from '../study/sweep.ts';
 
 export interface RunFlags {
   levels?: number;
@@ -57,6 +58,7 @@ export async function runCommand(paths: string[], flags: RunFlags): Promise<numb
     else if (results.length) {
       process.stdout.write(formatStudyTable(results, { color, summaryOnly: true }) + '\n');
       for (const line of flawLines(results)) process.stdout.write(line + '\n');
+      for (const v of execution.sweeps) process.stdout.write(sweepLine(v) + '\n');
     }
     if (execution.interrupted) {
       process.stderr.write(`stopped: ${interrupted}\n`);
@@ -81,4 +83,13 @@ export function interruptionText(e: Execution): string | null {
     e.notRun.length ? `not run: ${e.notRun.join(', ')}` : '',
   ].filter(Boolean);
   return `${parts.join('; ')}. rungs run --resume reuses the finished levels.`;
+}
+
+/** One line per sweep: robust or not in its coefficient, and whether that is what the study declares. */
+export function sweepLine(v: SweepVerdict): string {
+  const worst = v.findings.reduce((a, f) => (f.growth > a.growth ? f : a), v.findings[0]);
+  const what = v.robust ? 'robust' : 'NOT robust';
+  return `${v.asExpected ? '✓' : '✗'} sweep ${v.group} over ${v.coefficient} = ${v.values.join(', ')}: ${what}` +
+    `${worst ? ` (largest growth of the error constant ×${worst.growth.toPrecision(3)}, ${worst.norm})` : ''}` +
+    `${v.asExpected ? '' : ` — the study declares it ${v.expected}`}`;
 }

@@ -2,6 +2,7 @@
 import { loadStudy, type LoadedStudy } from '../study/load.ts';
 import { buildProblem, type StudyProblem } from '../study/problem.ts';
 import { runLevel } from '../study/level.ts';
+import { sweepMember } from '../study/sweep.ts';
 import { solverSettings } from '../study/runner.ts';
 import type { NormName } from '../study/declaration.ts';
 import type { LevelResult } from '../study/result.ts';
@@ -15,6 +16,8 @@ export interface LevelTask {
   norms: string[];
   /** The study's generated manufactured data folder, when written by the main thread. */
   data?: string;
+  /** For a study that sweeps a coefficient: which value (src/study/sweep.ts). */
+  member?: number;
 }
 
 export type LevelReply =
@@ -23,18 +26,22 @@ export type LevelReply =
 
 const cache = new Map<string, Promise<{ loaded: LoadedStudy; problem: StudyProblem }>>();
 
-function prepared(file: string) {
-  let hit = cache.get(file);
+function prepared(file: string, member: number | undefined) {
+  const key = member === undefined ? file : `${file}\u0000${member}`;
+  let hit = cache.get(key);
   if (!hit) {
-    hit = loadStudy(file).then((loaded) => ({ loaded, problem: buildProblem(loaded.declaration, loaded.file) }));
-    cache.set(file, hit);
+    hit = loadStudy(file).then((loaded) => {
+      const decl = member === undefined ? loaded.declaration : sweepMember(loaded.declaration, member);
+      return { loaded: { file: loaded.file, declaration: decl }, problem: buildProblem(decl, loaded.file) };
+    });
+    cache.set(key, hit);
   }
   return hit;
 }
 
 export default async function runLevelTask(task: LevelTask): Promise<LevelReply> {
   try {
-    const { loaded, problem } = await prepared(task.file);
+    const { loaded, problem } = await prepared(task.file, task.member);
     const decl = loaded.declaration;
     const level = await runLevel(decl, loaded.file, problem, task.index, task.norms as NormName[], solverSettings(decl), { out: task.out, data: task.data });
     return { ok: true, level };

@@ -125,6 +125,21 @@ export interface StudyDeclaration {
   /** Memory (MB = 2^20 bytes) one level may take; a level estimated above it is refused before it is meshed, and the
    *  other studies still run (default: the memory available when the level starts; see src/study/memory-budget.ts). */
   memoryBudgetMB?: number;
+  /** Robustness in a parameter: the whole ladder is run for each value of one scalar coefficient (ordered toward its
+   *  limit: λ → ∞, a Péclet number → ∞), each as a study of its own named `<name>-<coefficient>-<value>`, and rungs
+   *  says whether the error constant e/h^p stays within `growth` (default 10) over the sweep (Babuška & Suri 1992).
+   *  `expect: 'not-robust'` declares a demonstration of locking: then the sweep must find it, and the orders of the
+   *  members are reported without deciding. */
+  sweep?: SweepDeclaration;
+  /** Set by rungs on each study a sweep expands into (not written by users). */
+  sweepMember?: { group: string; coefficient: string; value: number; index: number; count: number; expect: 'robust' | 'not-robust'; growth: number };
+}
+
+export interface SweepDeclaration {
+  coefficient: string;
+  values: number[];
+  expect?: 'robust' | 'not-robust';
+  growth?: number;
 }
 
 /** Declares a study; the default export of a *.study.ts file. Validation happens when rungs loads it. */

@@ -48,4 +48,6 @@ export interface StudyResult {
   versions: Record<string, string>;
   startedAt: string;
   seconds: number;
+  /** For a member of a sweep over a coefficient: the sweep's robustness verdict (the same for every member). */
+  robustness?: import('./sweep.ts').SweepVerdict;
 }

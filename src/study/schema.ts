@@ -101,6 +101,12 @@ export const studySchema = z.object({
   }).strict().optional(),
   baselineTolerance: z.number().positive().optional(),
   memoryBudgetMB: z.number().positive({ message: 'expected a positive number of megabytes (2^20 bytes), such as 4096' }).finite().optional(),
+  sweep: z.object({
+    coefficient: z.string().min(1),
+    values: z.array(z.number().finite()).min(2, { message: 'a sweep needs at least two values of the coefficient' }),
+    expect: z.enum(['robust', 'not-robust']).optional(),
+    growth: z.number().gt(1).finite().optional(),
+  }).strict().optional(),
 }).strict().superRefine((s, ctx) => {
   if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
     ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });
@@ -119,6 +125,13 @@ export const studySchema = z.object({
       ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: '${nm}' is the external code's own error norm, so give its expected order (expected: { ${nm}: 2 })` });
     }
   });
+  if (s.sweep) {
+    const own = s.pde ? Object.keys((s.pde as StudyDeclaration['pde'])!.coefficients ?? {}) : Object.keys(s.coefficients ?? {}).filter((k) => k !== 'b');
+    if (!own.includes(s.sweep.coefficient)) {
+      ctx.addIssue({ code: 'custom', path: ['sweep', 'coefficient'], message: `'${s.sweep.coefficient}' is not a scalar coefficient of this study; valid: ${own.join(', ') || '(none: declare the coefficient first)'}` });
+    }
+    if (new Set(s.sweep.values).size !== s.sweep.values.length) ctx.addIssue({ code: 'custom', path: ['sweep', 'values'], message: 'the values repeat; give distinct values in the order they approach the limit' });
+  }
   for (const rule of ['aboveOrder', 'fewLevels'] as const) {
     for (const k of Object.keys(s.allow?.[rule] ?? {})) {
       const own = s.norms ?? defaultNorms(s as unknown as StudyDeclaration);
