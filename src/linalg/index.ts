@@ -19,8 +19,8 @@ export type { AmgOptions, AmgStats, AmgSetupResult, AmgHierarchy, AmgLevel } fro
 export { directSolve, directFactor, type DirectFactor } from './direct/direct-solve.ts';
 export { reverseCuthillMcKee } from './direct/rcm.ts';
 export {
-  solveSystem, autoChoice, AUTO_DIRECT_MAX_N, AUTO_AMG_MIN_N, METHODS, PRECONDITIONERS,
-  type SolveSystemOptions, type SolveSystemResult, type MethodName, type PreconditionerName,
+  solveSystem, createLinearSolver, autoChoice, AUTO_DIRECT_MAX_N, AUTO_AMG_MIN_N, METHODS, PRECONDITIONERS,
+  type SolveSystemOptions, type SolveSystemResult, type MethodName, type PreconditionerName, type LinearSolver,
 } from './solve.ts';
 export { mulberry32 } from './random.ts';
 export { minres, minresWorkspace, type MinresOptions, type MinresWorkspace, type SymmetricOperator } from './minres.ts';

@@ -60,7 +60,21 @@ export function autoChoice(n: number, symmetric: boolean): { method: Exclude<Met
   return { method: 'gmres', preconditioner: n > AUTO_AMG_MIN_N ? 'amg' : 'ilu0' };
 }
 
-export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions): SolveSystemResult {
+/** A linear solver set up once for a matrix and used for many right-hand sides (Newton steps with a frozen
+ *  Jacobian, time steps): the method and preconditioner are chosen and built once (the multigrid hierarchy lives
+ *  until dispose). Each solve gives the same bits as solveSystem with the same options. */
+export interface LinearSolver {
+  method: Exclude<MethodName, 'auto'>;
+  preconditioner: Exclude<PreconditionerName, 'auto'>;
+  /** Hierarchy figures when the multigrid preconditioner was built. */
+  amg?: AmgStats;
+  /** Solves A x = b from x0 (zero when absent); stopWhen replaces the one given at setup for this solve. */
+  solve(b: Float64Array, opts?: { x0?: Float64Array; stopWhen?: SolveOptions['stopWhen'] }): SolveSystemResult;
+  /** Frees the preconditioner (the multigrid arena's memory goes to the next setup). */
+  dispose(): void;
+}
+
+export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearSolver {
   const { symmetric } = options;
   if (typeof symmetric !== 'boolean') throw new RungsInputError('solveSystem: option symmetric (true/false) is required', WHERE);
   const methodOpt = options.method ?? 'auto';
@@ -79,12 +93,22 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
   if (method === 'cg' && !symmetric) {
     throw new RungsInputError("solveSystem: method 'cg' needs a symmetric matrix; use 'gmres' or 'bicgstab' for symmetric: false", WHERE);
   }
-  const x = new Float64Array(n);
-  if (options.x0) {
-    if (options.x0.length !== n) throw new RungsInputError(`solveSystem: x0 has length ${options.x0.length}, expected ${n}`, WHERE);
-    x.set(options.x0);
+  const start = (b: Float64Array, x0: Float64Array | undefined): Float64Array => {
+    if (b.length !== n) throw new RungsInputError(`solveSystem: b has length ${b.length}, expected ${n}`, WHERE);
+    const x = new Float64Array(n);
+    if (x0) {
+      if (x0.length !== n) throw new RungsInputError(`solveSystem: x0 has length ${x0.length}, expected ${n}`, WHERE);
+      x.set(x0);
+    }
+    return x;
+  };
+  if (method === 'direct') {
+    return {
+      method, preconditioner: 'none',
+      solve: (b, opts = {}) => { const x = start(b, opts.x0 ?? options.x0); return { x, stats: directSolve(A, b, x) }; },
+      dispose: () => {},
+    };
   }
-  if (method === 'direct') return { x, stats: directSolve(A, b, x) };
 
   let precName = precOpt;
   if (precName === 'auto') precName = n > AUTO_AMG_MIN_N ? 'amg' : symmetric ? 'ic0' : 'ilu0';
@@ -103,6 +127,7 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
   let M: Preconditioner;
   let amg: AmgStats | undefined;
   let fallback: string | undefined;
+  let built: Exclude<PreconditionerName, 'auto'> = precName;
   switch (precName) {
     case 'none': M = identityPreconditioner; break;
     case 'jacobi': M = jacobiPreconditioner(A); break;
@@ -119,26 +144,46 @@ export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions
         // ≤ 0): fall back to ILU(0) rather than fail. Asked for explicitly, or on bad data, the error stands.
         if (!(precOpt === 'auto' && !symmetric && e instanceof RungsInputError && /positive diagonal/.test(e.message))) throw e;
         M = ilu0Preconditioner(A);
+        built = 'ilu0';
         fallback = `amg could not be built (${e.message}); ilu0 was used instead`;
       }
       break;
     }
   }
-  const setupSeconds = (performance.now() - t0) / 1000;
-  const solveOpts: SolveOptions = {
-    relTol: options.relTol, maxIter: options.maxIter, preconditioner: M, stopWhen: options.stopWhen, restart: options.restart,
-    skipSymmetryCheck: method === 'cg',
-  };
+  let setupSeconds = (performance.now() - t0) / 1000;
   const run = method === 'cg' ? cg : method === 'gmres' ? gmres : bicgstab;
-  let stats: SolveStats;
+  let disposed = false;
+  return {
+    method, preconditioner: built, amg,
+    solve(b, opts = {}) {
+      if (disposed) throw new Error('internal: a linear solver was used after dispose()');
+      const x = start(b, opts.x0 ?? options.x0);
+      const solveOpts: SolveOptions = {
+        relTol: options.relTol, maxIter: options.maxIter, preconditioner: M, stopWhen: opts.stopWhen ?? options.stopWhen, restart: options.restart,
+        skipSymmetryCheck: method === 'cg',
+      };
+      const stats = run(A, b, x, solveOpts);
+      // The setup is paid once: the first solve reports it, later ones 0.
+      stats.setupSeconds = setupSeconds;
+      setupSeconds = 0;
+      const notes = [stats.message, ...(amg?.notes ?? []), fallback].filter(Boolean);
+      if (notes.length > 0) stats.message = notes.join('; ');
+      return amg ? { x, stats, amg } : { x, stats };
+    },
+    dispose() {
+      if (disposed) return;
+      disposed = true;
+      M.dispose?.();
+    },
+  };
+}
+
+export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions): SolveSystemResult {
+  const solver = createLinearSolver(A, options);
   try {
-    stats = run(A, b, x, solveOpts);
+    return solver.solve(b);
   } finally {
     // The preconditioner lives only for this solve: the multigrid arena's memory (already resident) goes to the next.
-    M.dispose?.();
+    solver.dispose();
   }
-  stats.setupSeconds = setupSeconds;
-  const notes = [stats.message, ...(amg?.notes ?? []), fallback].filter(Boolean);
-  if (notes.length > 0) stats.message = notes.join('; ');
-  return amg ? { x, stats, amg } : { x, stats };
 }
