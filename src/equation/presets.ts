@@ -46,6 +46,28 @@ export function stokes(args: { nu: CoefficientValue; meanFree?: boolean }): PdeD
   };
 }
 
+/** Nearly incompressible linear elasticity in mixed form, displacement u and pressure p = −λ ∇·u (Herrmann's
+ *  formulation; Braess 2007, Finite Elements, ch. VI §3; Boffi, Brezzi & Fortin 2013, Mixed Finite Element Methods,
+ *  §8.12): −∇·(2μ ε(u) − pI) = f and ∇·u + p/λ = g. Solved by rungs's own Taylor–Hood elements it does not lock as
+ *  λ/μ → ∞ (Poisson's ratio → 1/2); at λ = ∞ it is Stokes flow with viscosity 2μ in the symmetric-gradient form.
+ *  The natural data (2μ ε(u) − pI)n are the traction.
+ *
+ *  What the study gives: the exact u and the exact p, both as formulas. The constraint equation's source g is derived
+ *  like every other: g = ∇·u + p/λ at the exact pair, so it vanishes when the given p is −λ ∇·u (write p out by hand
+ *  from u, e.g. u with ∇·u = 4xy/λ and p = '-4*x*y'), and otherwise it is handed to the solver (a consistent
+ *  discretization of another, equally valid manufactured problem). A displacement with ∇·u = O(1/λ) keeps p of
+ *  order one as λ grows, which is what a nearly incompressible material does. λ and μ are formulas or numbers,
+ *  μ > 0 and λ > 0. */
+export function nearlyIncompressibleElasticity(args: { lambda: CoefficientValue; mu: CoefficientValue }): PdeDeclaration {
+  return {
+    label: 'nearly incompressible elasticity',
+    fields: { u: 'vector', p: 'scalar' },
+    coefficients: { lambda: args.lambda, mu: args.mu },
+    equations: { momentum: { flux: '2*mu*sym(grad(u)) - p*I' }, mass: { rest: 'div(u) + p/lambda' } },
+    preset: { name: 'nearly-incompressible-elasticity', args },
+  };
+}
+
 /** Nonlinear diffusion −∇·(κ(u)∇u) + r(u) = f, with κ and r formulas in u (and x, y, z, t), e.g. κ = 1 + u^2,
  *  r = u^3. */
 export function nonlinearDiffusion(args: { conductivity: string; reaction?: string }): PdeDeclaration {

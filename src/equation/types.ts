@@ -31,4 +31,5 @@ export interface PdeDeclaration {
   preset?: { name: PresetName; args: Record<string, unknown> };
 }
 
-export type PresetName = 'diffusion-convection-reaction' | 'linear-elasticity' | 'stokes' | 'nonlinear-diffusion';
+export type PresetName = 'diffusion-convection-reaction' | 'linear-elasticity' | 'stokes' | 'nonlinear-diffusion'
+  | 'nearly-incompressible-elasticity';

@@ -1,5 +1,5 @@
 // Codes not written in TypeScript: run an external solver per level and read back its errors or its solution.
-export { external, type ExternalDiscretization, type ExternalOutput, type ExternalLevelOutput, type ExternalLevelRun } from './types.ts';
+export { external, type ExternalDiscretization, type ExternalFieldArray, type ExternalOutput, type ExternalLevelOutput, type ExternalLevelRun } from './types.ts';
 export {
   runLevelCommand, levelArgv, showArgv, runLevelsInParallel, DEFAULT_TIMEOUT_SECONDS, KILL_GRACE_SECONDS,
   type CommandSpec, type CommandRun, type CommandOptions,
@@ -13,7 +13,10 @@ export { externalDiscretizationSchema, quantityNamesSchema } from './schema.ts';
 export { parseLegacyVtk } from './vtk/legacy.ts';
 export { parseVtu } from './vtk/vtu.ts';
 export { parseVtkText, readVtkFile } from './vtk/read.ts';
-export { gridToField, MID_NODE_TOLERANCE, type VtkField, type VtkFieldOptions } from './vtk/to-field.ts';
+export {
+  gridToField, gridToFields, MID_NODE_TOLERANCE, VALUE_ROUND_OFF,
+  type VtkField, type VtkFieldOptions, type VtkFieldRequest, type VtkFields, type VtkFieldsOptions, type VtkSystemField,
+} from './vtk/to-field.ts';
 export { VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './vtk/cell-types.ts';
 export type { VtkGrid, VtkPointArray } from './vtk/grid.ts';
 export { tetrahedronBoundaryFacets } from '../mesh/boundary-faces.ts';

@@ -9,6 +9,7 @@ import { runLevelCommand, showArgv, SolversStopped } from './command.ts';
 import { prepareLevelFolder, readLevelOutput } from './output.ts';
 import { tailNote } from './tail.ts';
 import type { ExternalDiscretization, ExternalLevelRun } from './types.ts';
+import type { VtkFieldRequest } from './vtk/to-field.ts';
 import { levelLabel, type LevelRef } from './where.ts';
 
 export interface ExternalLevelInput {
@@ -26,6 +27,8 @@ export interface ExternalLevelInput {
   quantities?: readonly string[];
   /** The study's generated manufactured data ({data}, RUNGS_DATA), when written. */
   data?: string;
+  /** The fields of a system to read from the solver's VTK file (the study builds them from its pde and `fields`). */
+  fields?: readonly VtkFieldRequest[];
   signal?: AbortSignal;
 }
 
@@ -74,7 +77,7 @@ export async function runExternalLevel(spec: ExternalDiscretization, level: Exte
     const t = performance.now();
     const output = readLevelOutput(spec.output, work, {
       level: ref, h: level.h, norms: level.norms, quantities: level.quantities, degree: spec.degree, field: spec.field,
-      maxOutputBytes: spec.maxOutputBytes,
+      fields: level.fields, maxOutputBytes: spec.maxOutputBytes,
       context: `; command: ${showArgv(run.argv)}${tailNote(run.stderr, run.stdout)}`,
     });
     moveLevelIntoPlace(work, level.outDir, ref);

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import { parseErrorsCsv, parseErrorsJson, type ReportedErrors } from './errors-file.ts';
 import type { ExternalLevelOutput, ExternalOutput } from './types.ts';
-import { gridToField } from './vtk/to-field.ts';
+import { gridToField, gridToFields, type VtkFieldRequest } from './vtk/to-field.ts';
 import { readVtkFile } from './vtk/read.ts';
 import { checkOutputSize, outputLimit, type OutputLimit } from './vtk/limits.ts';
 import { levelLabel, placeOf, type LevelRef } from './where.ts';
@@ -39,6 +39,8 @@ export interface ReadOutputOptions {
   quantities?: readonly string[];
   degree?: number;
   field?: string;
+  /** The fields of a system to read from the VTK file (then `field` is not used). */
+  fields?: readonly VtkFieldRequest[];
   /** Text appended to "wrote no … file" messages (the command and its last output lines). */
   context?: string;
   /** Files above this many bytes are refused before they are read (default: from the memory available, see
@@ -75,7 +77,11 @@ export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: Rea
   }
   const solutionFile = firstExisting(dir, SOLUTION_FILES);
   if (!solutionFile) throw nothingWritten(dir, SOLUTION_FILES, ref, opts.context);
-  const vtk = gridToField(readVtkFile(solutionFile, ref, { limit }), { field: opts.field, degree: opts.degree, level: ref });
+  const grid = readVtkFile(solutionFile, ref, { limit });
+  const vtk = opts.fields?.length
+    ? { system: gridToFields(grid, { fields: opts.fields, degree: opts.degree, level: ref }) }
+    : gridToField(grid, { field: opts.field, degree: opts.degree, level: ref });
+  const mesh = 'system' in vtk ? vtk.system.mesh : vtk.mesh;
   // An errors file next to the solution may add quantities and the solver's own dof count.
   const extra = errorsFile ? readErrors(errorsFile, false) : null;
   if (!extra && opts.quantities?.length) {
@@ -88,13 +94,20 @@ export function readLevelOutput(protocol: ExternalOutput, dir: string, opts: Rea
   // The h the solver reports next to its mesh must be that mesh's h (its largest cell diameter).
   const warnings: string[] = [];
   if (extra && extra.h !== null) {
-    const gap = Math.abs(extra.h - vtk.mesh.h) / vtk.mesh.h;
+    const gap = Math.abs(extra.h - mesh.h) / mesh.h;
     if (gap > H_MISMATCH_FRACTION) {
       warnings.push(
         `${placeOf(ref, extra.file)}: h is ${extra.h}, but the largest cell diameter of the mesh in ${solutionFile} is ` +
-          `${Number(vtk.mesh.h.toPrecision(6))} (${(100 * gap).toFixed(1)}% apart); rungs uses the mesh's h — report the largest cell diameter, or leave h out`,
+          `${Number(mesh.h.toPrecision(6))} (${(100 * gap).toFixed(1)}% apart); rungs uses the mesh's h — report the largest cell diameter, or leave h out`,
       );
     }
+  }
+  if ('system' in vtk) {
+    const sys = vtk.system;
+    return {
+      kind: 'fields', file: solutionFile, mesh, fields: sys.fields, degree: sys.degree,
+      dofs: extra?.dofs ?? sys.dofs, h: mesh.h, quantities: extra?.quantities ?? {}, warnings,
+    };
   }
   return {
     kind: 'field', file: solutionFile, mesh: vtk.mesh, field: vtk.field, degree: vtk.degree,

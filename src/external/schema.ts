@@ -13,6 +13,10 @@ export const externalDiscretizationSchema = z.object({
   maxOutputBytes: z.number().int({ message: 'expected a whole number of bytes, such as 2e9' }).positive({ message: 'expected a positive number of bytes, such as 2e9' }).optional(),
   label: z.string().min(1).optional(),
   field: z.string().min(1).optional(),
+  fields: z.record(z.string(), z.union([
+    z.string().min(1),
+    z.object({ array: z.string().min(1), degree: z.number().int().min(1).max(2).optional() }).strict(),
+  ], { message: "expected the VTK array's name, or { array: '<name>', degree: 1 }" }), { message: "expected the VTK array of each field, such as { u: 'displacement', p: 'pressure' }" }).optional(),
   cwd: z.string().min(1).optional(),
   env: z.record(z.string(), z.string()).optional(),
   preflight: z.union([z.string().min(1), z.array(z.string()).min(1)], { message: 'expected a command string or argv words that writes {out}/preflight.csv' }).optional(),

@@ -2,6 +2,7 @@ import type { Mesh } from '../mesh/types.ts';
 import type { DiscreteField } from '../norms/types.ts';
 import type { FunctionSpace } from '../fem/dofmap/types.ts';
 import type { CommandRun } from './command.ts';
+import type { VtkSystemField } from './vtk/to-field.ts';
 
 /** How the external solver hands its level back: its own measured errors, or its discrete solution as VTK. */
 export type ExternalOutput = 'errors' | 'vtk';
@@ -21,8 +22,14 @@ export interface ExternalDiscretization {
    *  before it is read (default: the memory available divided by what reading costs per byte, about 8). */
   maxOutputBytes?: number;
   label?: string;
-  /** VTK point-data array holding the solution (default: the only scalar array). */
+  /** VTK point-data array holding the solution of a scalar equation (default: the only scalar array). */
   field?: string;
+  /** The VTK point-data array of each field of the study's pde, for a system: `{ u: 'displacement', p: 'pressure' }`
+   *  (default: the array named like the field). A vector field takes an array with one component per dimension (in
+   *  2D also three, the third zero to round-off); a scalar field a one-component array. `{ array, degree }` gives a
+   *  field's polynomial degree where it is not the preset's (Taylor–Hood: the pressure has the study's degree − 1, read
+   *  from the corners of the quadratic cells, its other nodes checked to hold its linear interpolation). */
+  fields?: Record<string, string | ExternalFieldArray>;
   /** Working folder of the solver (default: the folder rungs runs in). */
   cwd?: string;
   /** Extra environment variables for the solver. */
@@ -30,6 +37,13 @@ export interface ExternalDiscretization {
   /** A command run once before the ladder (same placeholders; RUNGS_PREFLIGHT=1): it writes its own source and
    *  boundary data at points of its choosing to {out}/preflight.csv, which rungs compares with the derived data. */
   preflight?: string | string[];
+}
+
+/** A field's VTK array with the polynomial degree to read it with. */
+export interface ExternalFieldArray {
+  array: string;
+  /** 1 or the cells' degree; default: the preset's (Taylor–Hood pressure: degree − 1), else the cells'. */
+  degree?: number;
 }
 
 /** Declares an external solver, for a study's `discretization` field. */
@@ -61,6 +75,19 @@ export type ExternalLevelOutput =
       fieldName: string;
       /** The Lagrange space of the field, for the nodal interpolant of the exact solution. */
       space: FunctionSpace;
+      quantities: Record<string, number>;
+    }
+  | {
+      /** The fields of a system, all on the cells of one VTK file. */
+      kind: 'fields';
+      file: string;
+      mesh: Mesh;
+      fields: VtkSystemField[];
+      /** Degree of the cells. */
+      degree: 1 | 2;
+      /** Unknowns of all fields (nodes × components), or the solver's own count from an errors.json beside the file. */
+      dofs: number;
+      h: number;
       quantities: Record<string, number>;
     };
 

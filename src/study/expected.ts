@@ -1,5 +1,5 @@
 import type { NormName, StudyDeclaration } from './declaration.ts';
-import { builtInNorms } from './discretizations/system-norms.ts';
+import { builtInNorms, externalFieldNorms } from './discretizations/system-norms.ts';
 import type { PresetName } from '../equation/types.ts';
 
 /** Expected order of each norm for degree-k Lagrange elements on a smooth solution and quasi-uniform meshes:
@@ -18,6 +18,9 @@ export function builtInPreset(decl: StudyDeclaration): PresetName {
 /** The norms a study measures when it names none: L2 and the H1 seminorm of its field(s), the pressure too. */
 export function defaultNorms(decl: StudyDeclaration): string[] {
   if (decl.discretization.kind === 'lagrange') return builtInNorms(builtInPreset(decl), 1).defaults;
+  // An external code's VTK solution of a system: the norms of its fields, as rungs's own elements measure them.
+  const fieldTable = externalFieldNorms(decl);
+  if (fieldTable) return fieldTable.defaults;
   return ['L2', 'H1semi'];
 }
 
@@ -25,7 +28,7 @@ export function defaultNorms(decl: StudyDeclaration): string[] {
 export function expectedOrders(decl: StudyDeclaration, norms: readonly string[]): Record<string, number | null> {
   const k = decl.discretization.degree;
   const derived: Record<string, number> | null = k !== undefined && k > 0
-    ? (decl.discretization.kind === 'lagrange' ? builtInNorms(builtInPreset(decl), k).orders : lagrangeOrders(k))
+    ? (decl.discretization.kind === 'lagrange' ? builtInNorms(builtInPreset(decl), k).orders : externalFieldNorms(decl)?.orders ?? lagrangeOrders(k))
     : null;
   const out: Record<string, number | null> = {};
   for (const nm of norms) out[nm] = decl.expected?.[nm] ?? derived?.[nm] ?? null;

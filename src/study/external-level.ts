@@ -1,10 +1,31 @@
 // An external level's output as a study level result: the errors the solver reported, or (for a VTK solution)
-// the errors of its field integrated with src/norms like any rungs field, with those of its nodal interpolant.
+// the errors of its field(s) integrated with src/norms like any rungs field, with those of the nodal interpolants on
+// the file's own nodes.
 import { errorNorms, type ErrorOptions } from '../norms/errors.ts';
+import { fieldErrors, type FieldErrorOptions, type FieldNormValues } from '../norms/field-errors.ts';
 import { interpolate, lagrangeField } from '../fem/field/lagrange-field.ts';
-import type { ExactSolution, NormValues } from '../norms/types.ts';
-import type { ExternalLevelRun } from '../external/index.ts';
+import { interpolateVector, vectorLagrangeField } from '../fem/field/vector-field.ts';
+import type { PointData } from '../fem/form/terms/types.ts';
+import type { DiscreteField, ExactField, ExactSolution, NormValues } from '../norms/types.ts';
+import type { ExternalLevelRun, VtkSystemField } from '../external/index.ts';
+import type { PresetName } from '../equation/types.ts';
 import type { LevelResult } from './result.ts';
+import { scalarOf } from './discretizations/system-common.ts';
+import { inverseLambdaPressureNorms, shearEnergyOptions } from './discretizations/mixed-elasticity.ts';
+
+/** What rungs needs to measure the fields of a system read from VTK: the exact field of each, which are mean-free,
+ *  and the preset with its Lamé coefficients for the elasticity energy norms. */
+export interface SystemMeasure {
+  exact: Readonly<Record<string, ExactField>>;
+  /** Fields fixed only up to a constant (their norms are those of the error less its mean). */
+  meanFree: readonly string[];
+  preset?: PresetName;
+  /** A pde with one scalar field names its norms without a suffix (L2, H1semi, …); otherwise L2_u, L2_p, …. */
+  lone: boolean;
+  /** λ and μ of the elasticity presets. */
+  lambda?: PointData;
+  mu?: PointData;
+}
 
 export interface ExternalResultOptions {
   /** 0-based level index and ladder parameter. */
@@ -19,6 +40,8 @@ export interface ExternalResultOptions {
   interpolation?: boolean;
   /** Symmetric problem: report ||u − u_h||_E / ||u − I_h u||_E (Céa's lemma bounds it by 1). */
   symmetric?: boolean;
+  /** The fields of a system (VTK output read with fields). */
+  system?: SystemMeasure;
 }
 
 /** A LevelResult row for an external level, and the quantities the solver reported. */
@@ -34,6 +57,13 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
     // The code's own errors, under the norm names the study declares (built-in names or its own).
     errors = pick(out.errors);
     cells = out.cells ?? Number.NaN;
+  } else if (out.kind === 'fields') {
+    cells = out.mesh.nCells;
+    if (!opts.system) throw new Error('internal: the fields of a system were read without what measures them');
+    const m = systemErrors(out.fields, opts.system, opts.interpolation ?? true);
+    errors = pick(m.errors);
+    interpolationErrors = m.interpolation ? pick(m.interpolation) : undefined;
+    quasiOptimality = m.quasiOptimality;
   } else if (!opts.exact) {
     errors = {};
     cells = out.mesh.nCells;
@@ -64,4 +94,71 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
     },
     quantities: { ...out.quantities },
   };
+}
+
+/**
+ * The norms of a system's fields as rungs's own elements measure them (src/study/discretizations/elasticity.ts,
+ * stokes.ts, mixed-elasticity.ts): per field the L2, H1 seminorm, H1 and largest nodal errors, the divergence of a
+ * vector field, mean-free norms for a mean-free field (the two-pass integral of fieldErrors), the energy norm of
+ * linear elasticity (with its Céa ratio against the interpolant) and the mixed energy norm of nearly incompressible
+ * elasticity; each field with the same quadrature as the built-in route (2k + ERROR_RULE_EXTRA for its own degree k).
+ * The interpolants are those of the exact fields on the file's own nodes, in each field's own space (a pressure read
+ * from the corners: its P1 interpolant).
+ */
+export function systemErrors(
+  fields: readonly VtkSystemField[], sys: SystemMeasure, withInterpolant: boolean,
+): { errors: Record<string, number>; interpolation: Record<string, number> | null; quasiOptimality: number | null } {
+  const errors: Record<string, number> = {};
+  const interp: Record<string, number> = {};
+  const interpolants = new Map<string, DiscreteField>();
+  const elastic = sys.preset === 'linear-elasticity' || sys.preset === 'nearly-incompressible-elasticity';
+  let energyU: [number, number] | null = null;
+  for (const f of fields) {
+    const exact = sys.exact[f.name];
+    if (!exact) throw new Error(`internal: no exact field for ${f.name}`);
+    const opts: FieldErrorOptions = { meanFree: sys.meanFree.includes(f.name) };
+    if (f.kind === 'vector') opts.divergence = true;
+    if (elastic && f.name === 'u') {
+      if (!sys.lambda || !sys.mu) throw new Error('internal: the elasticity norms need λ and μ');
+      opts.elasticity = sys.preset === 'linear-elasticity' ? { lambda: scalarOf(sys.lambda), mu: scalarOf(sys.mu) } : shearEnergyOptions(sys.mu);
+    }
+    const list = [f.field];
+    if (withInterpolant) {
+      const i = f.kind === 'scalar'
+        ? lagrangeField(f.space, interpolate(f.space, scalarOf(exact.value)))
+        : vectorLagrangeField(f.space, f.components, interpolateVector(f.space, f.components, exact.value));
+      interpolants.set(f.name, i);
+      list.push(i);
+    }
+    const [e, i] = fieldErrors(list, exact, opts);
+    const suffix = sys.lone ? '' : `_${f.name}`;
+    name(errors, e!, suffix);
+    if (i) name(interp, i, suffix);
+    if (elastic && f.name === 'u') energyU = [e!.energy!, i?.energy ?? Number.NaN];
+  }
+  let quasiOptimality: number | null = null;
+  if (sys.preset === 'linear-elasticity' && energyU) {
+    errors.energy = energyU[0];
+    interp.energy = energyU[1];
+    // Céa's lemma in the energy norm (Braess 2007, ch. II §4): the Galerkin solution is the best approximation.
+    quasiOptimality = withInterpolant && energyU[1] > 0 ? energyU[0] / energyU[1] : null;
+  } else if (sys.preset === 'nearly-incompressible-elasticity' && energyU) {
+    // (∫ 2μ ε(e_u):ε(e_u) + (1/λ) e_p²)^(1/2), as mixed-elasticity.ts measures it; no Céa ratio (indefinite system).
+    const p = fields.find((f) => f.name === 'p');
+    if (p && sys.lambda) {
+      const list = withInterpolant ? [p.field, interpolants.get('p')!] : [p.field];
+      const [pw, ipw] = inverseLambdaPressureNorms(list, sys.exact.p!, sys.lambda);
+      errors.energy = Math.sqrt(energyU[0] * energyU[0] + pw! * pw!);
+      interp.energy = ipw !== undefined ? Math.sqrt(energyU[1] * energyU[1] + ipw * ipw) : Number.NaN;
+    }
+  }
+  return { errors, interpolation: withInterpolant ? interp : null, quasiOptimality };
+}
+
+function name(into: Record<string, number>, v: FieldNormValues, suffix: string): void {
+  into[`L2${suffix}`] = v.L2;
+  into[`H1semi${suffix}`] = v.H1semi;
+  into[`H1${suffix}`] = v.H1;
+  into[`maxNodal${suffix}`] = v.maxNodal;
+  if (v.div !== undefined) into[`div${suffix}`] = v.div;
 }

@@ -70,7 +70,7 @@ function componentsOf(decl: StudyDeclaration): number {
   const preset = decl.pde?.preset?.name;
   const dim = decl.domain.dim;
   if (preset === 'linear-elasticity') return dim;
-  if (preset === 'stokes') return dim + 1;
+  if (preset === 'stokes' || preset === 'nearly-incompressible-elasticity') return dim + 1;
   return 1;
 }
 

@@ -33,7 +33,7 @@ export interface StudyProblem {
 }
 
 /** The presets rungs's own elements solve besides today's scalar equation (src/study/discretizations/). */
-const BUILT_IN_SYSTEMS = new Set(['linear-elasticity', 'stokes', 'nonlinear-diffusion']);
+const BUILT_IN_SYSTEMS = new Set(['linear-elasticity', 'stokes', 'nonlinear-diffusion', 'nearly-incompressible-elasticity']);
 
 const asFormula = (c: Coefficient | undefined): string | undefined => (c === undefined ? undefined : String(c));
 
@@ -87,7 +87,7 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
   if (decl.pde && !exact && decl.discretization.kind !== 'external' && !builtInSystem) {
     throw new RungsInputError(
       `${where}: discretization: ${decl.discretization.kind === 'lagrange' ? 'rungs\'s own elements solve' : 'a custom discretization (whose field rungs measures) takes'} ` +
-      `${decl.discretization.kind === 'lagrange' ? 'the steady presets diffusionConvectionReaction, linearElasticity, stokes and nonlinearDiffusion' : 'only the steady diffusionConvectionReaction preset'}; ` +
+      `${decl.discretization.kind === 'lagrange' ? 'the steady presets diffusionConvectionReaction, linearElasticity, nearlyIncompressibleElasticity, stokes and nonlinearDiffusion' : 'only the steady diffusionConvectionReaction preset'}; ` +
       `for ${pde.label ?? 'this pde'}${derived?.hasTime ? ' (it depends on t)' : ''} use external({ command, output: 'errors' }) and let the code report its own norms`, file);
   }
   if (builtInSystem && pde.preset!.name !== 'nonlinear-diffusion') {

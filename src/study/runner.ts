@@ -2,7 +2,7 @@ import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOp
 import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
-import { isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
+import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
 import { normScales } from './discretizations/norm-scales.ts';
 import { buildProblem } from './problem.ts';
 import type { LevelResult, StudyResult } from './result.ts';
@@ -64,7 +64,8 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
   const t0 = performance.now();
   const problem = buildProblem(decl, file);
   // Norms rungs measures need its own exact solution; an external code may report any norm it declares.
-  const measurable = problem.exact !== null || (decl.discretization.kind === 'lagrange' && problem.derived !== null);
+  const measurable = problem.exact !== null || (decl.discretization.kind === 'lagrange' && problem.derived !== null)
+    || (externalFieldNorms(decl) !== null && problem.derived !== null);
   const norms = (measurable ? decl.norms ?? defaultNorms(decl) : decl.norms ?? []) as NormName[];
   const expected = expectedOrders(decl, norms);
   const total = Math.min(decl.ladder.n.length, opts.levels ?? Infinity);
@@ -177,6 +178,8 @@ function finishAnalysis(
   // Floors of rungs's own discretization keep their treatment; the code under test's own residual (a custom or
   // external solve's reported stats) is a floor its setup must remove, so it goes in separately and is named.
   const builtIn = decl.discretization.kind === 'lagrange';
+  // rungs integrates the norms of an external code's VTK system itself: they are its own norms, global or pointwise.
+  const fieldNormsOfVtk = externalFieldNorms(decl) !== null;
   const allow = decl.allow ?? {};
   const analyses: SeriesAnalysis[] = [];
   for (const nm of norms) {
@@ -200,7 +203,8 @@ function finishAnalysis(
       scale: scale > 0 && Number.isFinite(scale) ? levels.map(() => scale) : undefined,
       // rungs's own norms of systems (L2_u, H1semi_u, L2_p, div_u) are global too; an external code's own names are
       // its business.
-      normKind: GLOBAL_NORMS.has(nm) || (builtIn && isGlobalNorm(nm)) ? 'global' : nm === 'maxNodal' || (builtIn && isPointwiseNorm(nm)) ? 'pointwise' : 'other',
+      normKind: GLOBAL_NORMS.has(nm) || ((builtIn || fieldNormsOfVtk) && isGlobalNorm(nm)) ? 'global'
+        : nm === 'maxNodal' || ((builtIn || fieldNormsOfVtk) && isPointwiseNorm(nm)) ? 'pointwise' : 'other',
       allowAboveOrder: allow.aboveOrder?.[nm],
       allowFewLevels: allow.fewLevels?.[nm],
     });

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { RungsInputError } from '../errors.ts';
 import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
-import { builtInNorms } from './discretizations/system-norms.ts';
+import { builtInNorms, externalFieldNorms } from './discretizations/system-norms.ts';
 import { defaultNorms } from './expected.ts';
 import { externalDiscretizationSchema, quantityNamesSchema } from '../external/schema.ts';
 
@@ -114,12 +114,17 @@ export const studySchema = z.object({
   // rungs's own elements measure the norms of their equation (L2_u, L2_p, … for systems); a custom field the
   // scalar ones; an external code may report any norm it declares with its order.
   const preset = (s.pde as StudyDeclaration['pde'])?.preset?.name;
+  // An external code's VTK solution of a system: rungs measures the norms of its fields (checkExternalFields).
+  const fieldTable = externalFieldNorms(s as unknown as StudyDeclaration);
   const measured: string[] = s.discretization.kind === 'lagrange' && preset
     ? Object.keys(builtInNorms(preset, 1).orders)
-    : NORM_NAMES;
+    : fieldTable?.names ?? NORM_NAMES;
+  if (s.discretization.kind === 'external') checkExternalFields(s as unknown as StudyDeclaration, ctx);
   (s.norms ?? []).forEach((nm, i) => {
     if (measured.includes(nm)) return;
-    if (s.discretization.kind !== 'external') {
+    if (fieldTable) {
+      ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures on the fields of ${preset ?? 'this pde'} (${measured.join(', ')}); with output: 'vtk' rungs integrates every error itself` });
+    } else if (s.discretization.kind !== 'external') {
       ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures${preset ? ` for ${preset}` : ''} (${measured.join(', ')}); other names are for errors an external code reports itself` });
     } else if (s.expected?.[nm] === undefined) {
       ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: '${nm}' is the external code's own error norm, so give its expected order (expected: { ${nm}: 2 })` });
@@ -143,6 +148,60 @@ export const studySchema = z.object({
     if (!names.includes(k)) ctx.addIssue({ code: 'custom', path: ['expected', k], message: `'${k}' is neither a norm (${NORM_NAMES.join(', ')}) nor a declared quantity` });
   }
 });
+
+type RefineContext = Parameters<Parameters<z.ZodType['superRefine']>[0]>[1];
+
+/** The `external` part: `field` names the VTK array of today's scalar equation, `fields` the arrays of a system's
+ *  fields (each a field of the pde); a Taylor–Hood preset needs the velocity degree to read its pressure with degree
+ *  − 1; every norm rungs measures on the fields needs an expected order, derived from the preset or declared. */
+function checkExternalFields(s: StudyDeclaration, ctx: RefineContext): void {
+  const d = s.discretization;
+  if (d.kind !== 'external') return;
+  const issue = (path: (string | number)[], message: string) => ctx.addIssue({ code: 'custom', path: ['discretization', ...path], message });
+  const pde = s.pde;
+  const preset = pde?.preset?.name;
+  const scalarEquation = !pde || preset === 'diffusion-convection-reaction';
+  const kinds: Record<string, string> = pde?.fields ?? { u: 'scalar' };
+  const names = Object.keys(kinds);
+  const listed = names.map((f) => `${f} (${kinds[f]})`).join(', ');
+  const lone = names.length === 1 && kinds[names[0]!] === 'scalar';
+  if (d.fields !== undefined) {
+    if (d.output !== 'vtk') {
+      issue(['fields'], "names the VTK arrays of the fields, but output is 'errors' (the code reports its own errors); use output: 'vtk' or leave fields out");
+      return;
+    }
+    if (scalarEquation) {
+      issue(['fields'], "today's scalar equation has one field: name its VTK array with field: '<array>'");
+      return;
+    }
+    if (d.field !== undefined) issue(['field'], `give the arrays of ${preset ?? 'the pde'} in fields only (fields: { ${names.map((f) => `${f}: '<array>'`).join(', ')} })`);
+    for (const key of Object.keys(d.fields)) {
+      if (!Object.hasOwn(kinds, key)) issue(['fields', key], `'${key}' is not a field of the study's pde; valid: ${listed}`);
+    }
+  }
+  if (d.output !== 'vtk' || scalarEquation) return;
+  if (d.field !== undefined && !lone) {
+    issue(['field'], `${pde!.label ?? 'the pde'} has the fields ${listed}: name their VTK arrays with fields: { ${names.map((f) => `${f}: '<array>'`).join(', ')} }`);
+  }
+  const taylorHood = preset === 'stokes' || preset === 'nearly-incompressible-elasticity';
+  const pArray = d.fields?.p;
+  if (taylorHood && (typeof pArray !== 'object' || pArray.degree === undefined)) {
+    if (d.degree === undefined) {
+      issue(['degree'], 'missing: give the velocity (displacement) degree k of the Taylor–Hood P_k–P_(k−1) elements, e.g. degree: 2; rungs reads the pressure with degree k − 1 and derives the expected orders from k');
+    } else if (d.degree < 2) {
+      issue(['degree'], `Taylor–Hood needs a velocity (displacement) degree of at least 2 (the pressure takes degree − 1); got ${d.degree}. A code of equal order declares the pressure's degree, fields: { p: { array: '<array>', degree: ${d.degree} } }, and its expected orders`);
+    }
+  }
+  // Every norm the study measures needs an order: from the preset and degree, or declared.
+  const table = externalFieldNorms(s)!;
+  for (const nm of s.norms ?? table.defaults) {
+    if (!table.names.includes(nm) || table.orders[nm] !== undefined || s.expected?.[nm] !== undefined) continue;
+    const why = preset && d.degree === undefined
+      ? 'give discretization.degree (the orders follow from the preset) or'
+      : `rungs derives no order for ${preset ? `'${nm}' of ${preset}` : 'a pde of the study\'s own'}:`;
+    ctx.addIssue({ code: 'custom', path: ['expected', nm], message: `missing: the expected order of '${nm}'; ${why} declare it (expected: { ${nm}: 2 })` });
+  }
+}
 
 /** Validates a study's default export; every problem names the file, the field path and what would be valid. */
 export function validateStudy(raw: unknown, file: string): StudyDeclaration {

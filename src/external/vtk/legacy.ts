@@ -1,7 +1,8 @@
 // Reader for legacy ASCII VTK files holding an unstructured grid ("VTK File Formats", Kitware: the legacy format
 // has a version line "# vtk DataFile Version x.y", a title line, ASCII or BINARY, then DATASET UNSTRUCTURED_GRID with
 // POINTS n type, CELLS, CELL_TYPES n, and attribute sections POINT_DATA n / CELL_DATA n holding SCALARS (with
-// LOOKUP_TABLE), VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS and FIELD arrays). Both cell layouts
+// LOOKUP_TABLE), VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS and FIELD arrays). Point data kept:
+// SCALARS (1 to 4 components), VECTORS (3 components) and FIELD arrays (any count); the others are skipped. Both cell layouts
 // are read: "CELLS n size" followed by "k i0 … ik-1" per cell (versions up to 4.2), and "CELLS nOffsets nConn" followed
 // by OFFSETS and CONNECTIVITY arrays (version 5.1).
 // Truncation is found by structure: every declared count must be met before the next keyword or the end of the file,
@@ -182,7 +183,17 @@ export function readLegacyVtk(source: ByteSource, file: string, ref?: LevelRef, 
         skipValues(4 * size, `RGBA entries of LOOKUP_TABLE (line ${at})`);
         break;
       }
-      case 'VECTORS':
+      case 'VECTORS': {
+        // VECTORS name type: three components per point (a 2D code writes z = 0; gridToFields checks that).
+        const count = requireSection('VECTORS');
+        const name = cur.need('the VECTORS name');
+        cur.need('the VECTORS data type');
+        cur.room(count * 3, `VECTORS ${name}`, at);
+        const values = new Float64Array(count * 3);
+        readNumbers(cur, count * 3, { what: `values of VECTORS ${name}`, declaredAt: at, item: 'value' }, values, false);
+        if (section === 'point') pointData.push({ name, components: 3, values, line: at });
+        break;
+      }
       case 'NORMALS':
       case 'TENSORS':
       case 'TENSORS6': {

@@ -1,5 +1,6 @@
-// Turns a VTK unstructured grid with nodal values into a rungs Mesh and a Lagrange DiscreteField, so that
-// src/norms integrates its errors exactly as for rungs's own solutions. VTK's node order (see cell-types.ts) is mapped
+// Turns a VTK unstructured grid with nodal values into a rungs Mesh and Lagrange DiscreteFields (one scalar field, or
+// the fields of a system — vector arrays, a pressure of lower degree on the corners — on the same cells), so that
+// src/norms integrates their errors exactly as for rungs's own solutions. VTK's node order (see cell-types.ts) is mapped
 // to rungs's local dof order (vertices, edges in REFERENCE_EDGES order, interior); cells listed with a negative
 // orientation are re-ordered, their mid-edge nodes following their edges.
 import { RungsInputError } from '../../errors.ts';
@@ -10,10 +11,11 @@ import { mapReferencePoint } from '../../fem/geometry/map.ts';
 import { meshFromArrays } from '../../mesh/from-arrays.ts';
 import { CELL_DIM, type Mesh } from '../../mesh/types.ts';
 import { lagrangeField } from '../../fem/field/lagrange-field.ts';
+import { vectorLagrangeField } from '../../fem/field/vector-field.ts';
 import type { DiscreteField } from '../../norms/types.ts';
 import { placeOf, type LevelRef } from '../where.ts';
 import { SUPPORTED_CELL_TYPES_TEXT, VTK_CELL_TYPES, vtkCellTypeName, type VtkCellType } from './cell-types.ts';
-import type { VtkGrid } from './grid.ts';
+import type { VtkGrid, VtkPointArray } from './grid.ts';
 import { edgeTable, faceTable } from './facet-table.ts';
 import { findOverlap } from './overlap.ts';
 
@@ -54,11 +56,98 @@ export interface VtkField {
 
 /** Builds the mesh and the discrete field of a VTK grid; every problem names the level, the file and the line. */
 export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField {
-  const { file } = grid;
-  const ref = opts.level;
-  const fail = (message: string, line?: number): never => {
-    throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
+  const fail = failure(grid, opts.level);
+  const t = checkCells(grid, opts.degree, fail);
+  const solution = pickArray(grid, opts.field, fail);
+  const g = buildGrid(grid, t, opts.level, fail);
+  const nodeValues = new Float64Array(g.nNodes);
+  const values = solution.values;
+  for (let p = 0; p < grid.nPoints; p++) {
+    const q = g.compact[p]!;
+    if (q >= 0) nodeValues[q] = values[p]!;
+  }
+  return { mesh: g.mesh, field: lagrangeField(g.space, nodeValues), degree: t.degree, dofs: g.nNodes, fieldName: solution.name, cellType: t, space: g.space };
+}
+
+/** One field of a system the study asks for in a VTK file. */
+export interface VtkFieldRequest {
+  /** The study's name of the field ('u', 'p'), for messages. */
+  name: string;
+  /** A scalar field takes a one-component array; a vector field one component per dimension of the mesh (or three,
+   *  the third zero to round-off, on a two-dimensional mesh: what VECTORS and most writers give). */
+  kind: 'scalar' | 'vector';
+  /** The point-data array holding it (default: the array named like the field; with one field, else the only array
+   *  of its shape). */
+  array?: string;
+  /** Polynomial degree of the field (default: the cells' own). 1 on quadratic cells: the field is the P1 / Q1
+   *  function of its corner values, and every other node must hold that function's value there to round-off
+   *  (VALUE_ROUND_OFF), as a Taylor–Hood code writes its pressure interpolated to all nodes of the quadratic mesh. */
+  degree?: number;
+}
+
+/** A field of a system read from a VTK file, as a rungs field with its Lagrange space. */
+export interface VtkSystemField {
+  name: string;
+  /** The point-data array it came from. */
+  array: string;
+  kind: 'scalar' | 'vector';
+  /** Components of the field (1, or the mesh dimension). */
+  components: number;
+  degree: 1 | 2;
+  field: DiscreteField;
+  /** The scalar Lagrange space of each component (the nodes the exact field is interpolated on). */
+  space: FunctionSpace;
+  /** Unknowns: the space's nodes times the components. */
+  dofs: number;
+  /** The field was taken from the corners of cells of higher degree (its other nodes checked to agree). */
+  fromCorners: boolean;
+}
+
+export interface VtkFields {
+  mesh: Mesh;
+  cellType: VtkCellType;
+  /** Degree of the cells. */
+  degree: 1 | 2;
+  fields: VtkSystemField[];
+  /** Unknowns of all fields together. */
+  dofs: number;
+}
+
+export interface VtkFieldsOptions {
+  fields: readonly VtkFieldRequest[];
+  /** Degree the study declares (of its first field: the displacement or velocity); the file's cells must have it. */
+  degree?: number;
+  level?: LevelRef;
+}
+
+/** Written values may carry the round-off of single precision (Float32 arrays: 2^-24 ≈ 6e-8 relative), so a third
+ *  component of a 2D vector or the mid-edge value of a linear field may miss its exact value by this fraction of the
+ *  array's largest value; a wrong array, a component order mixed up or a field that is not linear misses it by far
+ *  more (common practice, no source). */
+export const VALUE_ROUND_OFF = 1e-6;
+
+/** Builds the mesh and one discrete field per request (all on the same cells) from a VTK grid: vector fields from
+ *  arrays with several components, fields of lower degree from the corners of the cells. Every problem names the
+ *  level, the file, the array and what would be valid. */
+export function gridToFields(grid: VtkGrid, opts: VtkFieldsOptions): VtkFields {
+  const fail = failure(grid, opts.level);
+  if (opts.fields.length === 0) throw new Error('internal: gridToFields needs at least one field');
+  const t = checkCells(grid, opts.degree, fail);
+  const dim = CELL_DIM[t.cellKind];
+  const arrays = opts.fields.map((r) => pickFieldArray(grid, r, opts.fields.length, dim, t, fail));
+  const g = buildGrid(grid, t, opts.level, fail);
+  const fields = opts.fields.map((r, i) => systemField(grid, g, t, r, arrays[i]!, dim, fail));
+  return { mesh: g.mesh, cellType: t, degree: t.degree, fields, dofs: fields.reduce((s, f) => s + f.dofs, 0) };
+}
+
+function failure(grid: VtkGrid, ref: LevelRef | undefined): Fail {
+  return (message: string, line?: number): never => {
+    throw new RungsInputError(`${placeOf(ref, grid.file, line)}: ${message}`, grid.file);
   };
+}
+
+/** One cell type of rungs's, the declared degree, node counts and point indices in range. */
+function checkCells(grid: VtkGrid, degree: number | undefined, fail: Fail): VtkCellType {
   if (grid.nCells === 0) fail('the grid has no cells', grid.endLine);
 
   const type = VTK_CELL_TYPES[grid.types[0]!];
@@ -75,9 +164,9 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
       );
     }
   }
-  if (opts.degree !== undefined && opts.degree !== t.degree) {
+  if (degree !== undefined && degree !== t.degree) {
     fail(
-      `the study declares degree ${opts.degree}, but the cells are ${t.name} (degree ${t.degree}); write the solution on cells of its own ` +
+      `the study declares degree ${degree}, but the cells are ${t.name} (degree ${t.degree}); write the solution on cells of its own ` +
         'degree (a refined linear mesh of a quadratic solution would measure a different discretization)',
       grid.typeLines[0],
     );
@@ -92,9 +181,25 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
       if (p < 0 || p >= nPoints) fail(`cell ${c + 1} refers to point ${p}, but the file has points 0..${nPoints - 1}`, lines[j]);
     }
   }
+  return t;
+}
 
-  const solution = pickArray(grid, opts.field, fail);
-  const values = solution.values;
+/** The mesh of a grid and the Lagrange space of its nodes: `compact` maps a VTK point to its node (-1: unused),
+ *  the corners first (ascending point index, the mesh's vertices), then the other nodes. */
+interface BuiltGrid {
+  mesh: Mesh;
+  compact: Int32Array;
+  nVertices: number;
+  nNodes: number;
+  /** Node coordinates (nNodes·dim). */
+  coords: Float64Array;
+  /** Global node of each local dof of each cell, in rungs's local order. */
+  cellDofs: Int32Array;
+  space: FunctionSpace;
+}
+
+function buildGrid(grid: VtkGrid, t: VtkCellType, ref: LevelRef | undefined, fail: Fail): BuiltGrid {
+  const { file, offsets, connectivity, connectivityLines: lines, nPoints } = grid;
   const dim = CELL_DIM[t.cellKind];
 
   // Corners become mesh vertices (ascending point index), the other nodes follow; -1 marks unused points.
@@ -119,14 +224,11 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   checkFlat(grid, role, dim, fail);
 
   const coords = new Float64Array(nNodes * dim);
-  const nodeValues = new Float64Array(nNodes);
   for (let p = 0; p < nPoints; p++) {
     const q = compact[p]!;
     if (q < 0) continue;
     for (let d = 0; d < dim; d++) coords[q * dim + d] = grid.points[3 * p + d]!;
-    nodeValues[q] = values[p]!;
   }
-
   // Corners per cell in rungs's orientation; the node map follows the same permutation.
   const nc = t.corners;
   const cells = new Int32Array(grid.nCells * nc);
@@ -179,7 +281,7 @@ export function gridToField(grid: VtkGrid, opts: VtkFieldOptions = {}): VtkField
   if (t.degree > 1) checkNodePositions(mesh, element.nodes, cellDofs, nLoc, nc, coords, dim, grid, fail);
 
   const space: FunctionSpace = { mesh, element, nDofs: nNodes, cellDofs, dofCoords: coords, nEdges: 0 };
-  return { mesh, field: lagrangeField(space, nodeValues), degree: t.degree, dofs: nNodes, fieldName: solution.name, cellType: t, space };
+  return { mesh, compact, nVertices, nNodes, coords, cellDofs, space };
 }
 
 type Fail = (message: string, line?: number) => never;
@@ -201,6 +303,156 @@ function pickArray(grid: VtkGrid, wanted: string | undefined, fail: Fail): { nam
     chosen = scalars[0];
   }
   return { name: chosen!.name, values: chosen!.values };
+}
+
+/** A list of the file's point arrays for messages: 'a', 'b' (3 components). */
+function arrayList(grid: VtkGrid): string {
+  return grid.pointData.map((a) => `'${a.name}'${a.components > 1 ? ` (${a.components} components)` : ''}`).join(', ') || 'none';
+}
+
+/** Components a field's array may have: 1 for a scalar; for a vector the mesh dimension, or 3 on a lower-dimensional
+ *  mesh (the extra components must then be zero, checked once the used points are known). */
+function fits(kind: 'scalar' | 'vector', components: number, dim: number): boolean {
+  return kind === 'scalar' ? components === 1 : components === dim || (dim < 3 && components === 3);
+}
+
+function shapeText(kind: 'scalar' | 'vector', dim: number): string {
+  if (kind === 'scalar') return 'a one-component array (SCALARS name type 1, or a DataArray with NumberOfComponents="1")';
+  if (dim === 3) return 'three components (VECTORS name type, or NumberOfComponents="3")';
+  return `${dim} components, or 3 with the ${dim === 2 ? 'third' : 'second and third'} zero (what VECTORS and most writers give)`;
+}
+
+/** The point array of one requested field: named, else named like the field, else (one field) the only array of its
+ *  shape; its component count must fit the field. */
+function pickFieldArray(grid: VtkGrid, r: VtkFieldRequest, nFields: number, dim: number, t: VtkCellType, fail: Fail): VtkPointArray {
+  const at = grid.pointData[0]?.line ?? grid.endLine;
+  const what = `field ${r.name} (${r.kind === 'scalar' ? 'scalar' : `a vector of this ${dim}-dimensional mesh`})`;
+  let chosen: VtkPointArray | undefined;
+  if (r.array !== undefined) {
+    chosen = grid.pointData.find((a) => a.name === r.array);
+    if (!chosen) fail(`no point data named '${r.array}' for ${what}; the file has ${arrayList(grid)}`, at);
+  } else {
+    chosen = grid.pointData.find((a) => a.name === r.name);
+    if (!chosen && nFields === 1) {
+      const shaped = grid.pointData.filter((a) => fits(r.kind, a.components, dim));
+      if (shaped.length === 1) chosen = shaped[0];
+      else if (shaped.length > 1) fail(`several point arrays could hold ${what} (${shaped.map((a) => `'${a.name}'`).join(', ')}); name it with fields: { ${r.name}: '<array>' }`, shaped[1]!.line);
+    }
+    if (!chosen) {
+      fail(`no point data named '${r.name}' for ${what}; the file has ${arrayList(grid)}: name its array with fields: { ${r.name}: '<array>' }`, at);
+    }
+  }
+  const a = chosen!;
+  if (!fits(r.kind, a.components, dim)) {
+    fail(`point data '${a.name}' has ${a.components} component${a.components > 1 ? 's' : ''}, but ${what} on ${t.name} cells needs ${shapeText(r.kind, dim)}`, a.line);
+  }
+  return a;
+}
+
+/** One field of a system on the grid's nodes: vector components interleaved node by node, a third component of a 2D
+ *  vector checked to be zero, a field of lower degree than the cells taken from the corners and checked at the
+ *  other nodes. */
+function systemField(grid: VtkGrid, g: BuiltGrid, t: VtkCellType, r: VtkFieldRequest, a: VtkPointArray, dim: number, fail: Fail): VtkSystemField {
+  const nc = r.kind === 'scalar' ? 1 : dim;
+  const stride = a.components;
+  const src = a.values;
+  const { compact, nNodes, nVertices } = g;
+  const degree = r.degree ?? t.degree;
+  if (degree !== 1 && degree !== t.degree) {
+    fail(`field ${r.name} has degree ${degree}, but the cells are ${t.name} (degree ${t.degree}); a field can be read on cells of its own degree, ` +
+      'or of degree 1 from the corners of quadratic cells', grid.typeLines[0]);
+  }
+  // Largest value of the used points over the field's own components: the scale round-off is judged against.
+  let scale = 0;
+  for (let p = 0; p < grid.nPoints; p++) {
+    if (compact[p]! < 0) continue;
+    for (let i = 0; i < nc; i++) scale = Math.max(scale, Math.abs(src[p * stride + i]!));
+  }
+  if (stride > nc) {
+    const tol = VALUE_ROUND_OFF * scale;
+    for (let p = 0; p < grid.nPoints; p++) {
+      if (compact[p]! < 0) continue;
+      for (let i = nc; i < stride; i++) {
+        const v = src[p * stride + i]!;
+        if (!(Math.abs(v) <= tol)) {
+          const axis = 'xyz'[i];
+          fail(`point data '${a.name}' (field ${r.name}) has ${axis} component ${v} at point ${p} (${pointText(grid, p)}); a vector field of ` +
+            `this ${dim}-dimensional mesh has ${nc} component${nc > 1 ? 's' : ''}, and a written ${axis} component must be zero to round-off ` +
+            `(at most ${VALUE_ROUND_OFF.toExponential(0)} of the largest in-plane value, ${scale} here): the array does not hold the field ${r.name}, or ` +
+            'its components are in another order', a.line);
+        }
+      }
+    }
+  }
+  const full = new Float64Array(nNodes * nc);
+  for (let p = 0; p < grid.nPoints; p++) {
+    const q = compact[p]!;
+    if (q < 0) continue;
+    for (let i = 0; i < nc; i++) full[q * nc + i] = src[p * stride + i]!;
+  }
+  let space = g.space;
+  let coeffs = full;
+  const fromCorners = degree < t.degree;
+  if (fromCorners) {
+    space = cornerSpace(g, t);
+    coeffs = full.slice(0, nVertices * nc);
+    checkCornerField(grid, g, t, r, a, space, full, nc, scale, fail);
+  }
+  const field = r.kind === 'scalar' ? lagrangeField(space, coeffs) : vectorLagrangeField(space, nc, coeffs);
+  return { name: r.name, array: a.name, kind: r.kind, components: nc, degree: degree as 1 | 2, field, space, dofs: space.nDofs * nc, fromCorners };
+}
+
+function pointText(grid: VtkGrid, p: number): string {
+  return Array.from(grid.points.subarray(3 * p, 3 * p + 3)).map((x) => Number(x.toPrecision(12))).join(', ');
+}
+
+/** The degree-1 space on the corners of the cells (the mesh's vertices, numbered first). */
+function cornerSpace(g: BuiltGrid, t: VtkCellType): FunctionSpace {
+  const element = lagrangeElement(t.cellKind, 1);
+  const nLoc = g.space.element.nDofs, nc = t.corners;
+  const cellDofs = new Int32Array(g.mesh.nCells * nc);
+  for (let c = 0; c < g.mesh.nCells; c++) for (let i = 0; i < nc; i++) cellDofs[c * nc + i] = g.cellDofs[c * nLoc + i]!;
+  const dim = g.mesh.dim;
+  return { mesh: g.mesh, element, nDofs: g.nVertices, cellDofs, dofCoords: g.coords.slice(0, g.nVertices * dim), nEdges: 0 };
+}
+
+/** Every node of a cell that is not a corner must hold the degree-1 interpolation of the corner values there (the
+ *  average of its edge's corners for a mid-edge node, of the four corners for a quad's centre), to round-off. */
+function checkCornerField(
+  grid: VtkGrid, g: BuiltGrid, t: VtkCellType, r: VtkFieldRequest, a: VtkPointArray, corner: FunctionSpace, full: Float64Array,
+  nc: number, scale: number, fail: Fail,
+): void {
+  const high = g.space.element, nLoc = high.nDofs, nCorner = t.corners, dim = g.mesh.dim;
+  // Weights of the corners at each node of the cell of higher degree: the degree-1 basis at its reference nodes
+  // (tabulated once; the same for every cell).
+  const w = new Float64Array(nLoc * nCorner);
+  corner.element.tabulate(high.nodes, nLoc, w, new Float64Array(nLoc * nCorner * dim));
+  const tol = VALUE_ROUND_OFF * scale;
+  const pointOf = new Int32Array(g.nNodes);
+  for (let p = 0; p < grid.nPoints; p++) if (g.compact[p]! >= 0) pointOf[g.compact[p]!] = p;
+  for (let c = 0; c < g.mesh.nCells; c++) {
+    const o = c * nLoc;
+    for (let i = nCorner; i < nLoc; i++) {
+      const q = g.cellDofs[o + i]!;
+      for (let k = 0; k < nc; k++) {
+        let expected = 0;
+        for (let j = 0; j < nCorner; j++) expected += w[i * nCorner + j]! * full[g.cellDofs[o + j]! * nc + k]!;
+        const got = full[q * nc + k]!;
+        if (Math.abs(got - expected) > tol) {
+          const used: number[] = [];
+          for (let j = 0; j < nCorner; j++) if (w[i * nCorner + j]! !== 0) used.push(pointOf[g.cellDofs[o + j]!]!);
+          used.sort((x, y) => x - y);
+          const comp = nc > 1 ? ` component ${k + 1}` : '';
+          fail(`point data '${a.name}' (field ${r.name}, degree 1) is not a degree-1 field on the corners of the ${t.name} cells: point ${pointOf[q]} ` +
+            `(${pointText(grid, pointOf[q]!)}) holds${comp} ${got}, but the degree-1 interpolation of its cell's corners there ` +
+            `(${used.length === 2 ? `the average of points ${used[0]} and ${used[1]}` : `from points ${used.join(', ')}`}) is ${expected}, ${Math.abs(got - expected).toPrecision(3)} apart ` +
+            `(round-off allows ${VALUE_ROUND_OFF.toExponential(0)} of the array's largest value, ${scale}); write the degree-1 field interpolated to every node ` +
+            `(each mid-edge value the average of its edge's corners), or measure the degree-${t.degree} field the file holds with ` +
+            `fields: { ${r.name}: { array: '${a.name}', degree: ${t.degree} } }`, a.line);
+        }
+      }
+    }
+  }
 }
 
 /** Lower-dimensional meshes must be flat: 2D cells in a plane z = const, 1D cells on a line y = z = const. */

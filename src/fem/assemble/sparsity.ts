@@ -5,47 +5,98 @@ import type { FunctionSpace } from '../dofmap/types.ts';
  *  reduced[g] is the row of global dof g, or −1 for an eliminated (Dirichlet) dof. Built once per space
  *  from a dof → cells adjacency with a marker array: O(nnz), no map per entry. */
 export function buildSparsity(space: FunctionSpace, reduced: Int32Array, nReduced: number): Csr {
-  const { cellDofs, nDofs } = space;
-  const nLoc = space.element.nDofs;
-  const nCells = space.mesh.nCells;
+  return patternOfCells(space.nDofs, space.mesh.nCells, space.element.nDofs, space.cellDofs, reduced, nReduced);
+}
+
+/** Larger bounds than this many entries take two passes over the rows (count, then fill) instead of one pass into a
+ *  buffer of the bound's size. */
+const ONE_PASS_MAX_ENTRIES = 2 ** 28;
+
+/**
+ * CSR pattern (values zero) of the unknowns coupled through cells: row r holds, sorted, every unknown that shares a
+ * cell with the unknown of row r. cellDofs lists nLocal unknowns per cell; reduced (optional) renumbers them, −1
+ * dropping an unknown from rows and columns (null: every unknown is its own row). O(nnz) with a dof → cells
+ * adjacency and a marker array, no map per entry.
+ *
+ * Memory: on these machines memory touched for the first time costs up to 3 ms per MB (DEVELOPERS.md), so the
+ * buffers are laid out to be touched once. The column indices go in one pass into a buffer sized by the bound
+ * nCells · nLocal² (one entry per pair of a cell's unknowns); pages never written are never touched and cost address
+ * space only, as the multigrid arena's reservation does (src/linalg/kernels). The values then take the pages the
+ * adjacency used (one buffer, the larger of the two sizes; zeroed). colIdx and values may therefore be views of
+ * longer buffers; nothing in rungs reads a CSR array's buffer.
+ */
+export function patternOfCells(
+  nDofs: number, nCells: number, nLoc: number, cellDofs: Int32Array, reduced: Int32Array | null, nReduced: number,
+  onePassMaxEntries = ONE_PASS_MAX_ENTRIES,
+): Csr {
   const start = new Int32Array(nDofs + 1);
-  for (let i = 0; i < cellDofs.length; i++) start[cellDofs[i] + 1]++;
+  for (let i = 0; i < nCells * nLoc; i++) start[cellDofs[i] + 1]++;
   for (let g = 0; g < nDofs; g++) start[g + 1] += start[g];
   const fill = start.slice(0, nDofs);
-  const adj = new Int32Array(cellDofs.length);
+  const bound = nCells * nLoc * nLoc;
+  const onePass = bound <= onePassMaxEntries;
+  // The adjacency and, later, the values share one buffer (see above).
+  const shared = new ArrayBuffer(Math.max(4 * nCells * nLoc, onePass ? 8 * bound : 0));
+  const adj = new Int32Array(shared, 0, nCells * nLoc);
   for (let c = 0; c < nCells; c++) for (let i = 0; i < nLoc; i++) adj[fill[cellDofs[c * nLoc + i]]++] = c;
 
-  const rowOf = new Int32Array(nReduced); // reduced row → global dof
-  for (let g = 0; g < nDofs; g++) if (reduced[g] >= 0) rowOf[reduced[g]] = g;
+  const rowOf = new Int32Array(nReduced); // row → global dof
+  if (reduced) { for (let g = 0; g < nDofs; g++) if (reduced[g] >= 0) rowOf[reduced[g]] = g; } else for (let g = 0; g < nDofs; g++) rowOf[g] = g;
   const mark = new Int32Array(nReduced).fill(-1);
   const rowPtr = new Int32Array(nReduced + 1);
-  for (let r = 0; r < nReduced; r++) {
-    const g = rowOf[r];
-    let count = 0;
-    for (let s = start[g]; s < start[g + 1]; s++) {
-      const c = adj[s];
-      for (let j = 0; j < nLoc; j++) {
-        const col = reduced[cellDofs[c * nLoc + j]];
-        if (col >= 0 && mark[col] !== r) { mark[col] = r; count++; }
+  let colIdx: Int32Array;
+  if (onePass) {
+    const cols = new Int32Array(bound);
+    let k = 0;
+    for (let r = 0; r < nReduced; r++) {
+      const g = rowOf[r];
+      const k0 = k;
+      for (let s = start[g]; s < start[g + 1]; s++) {
+        const o = adj[s] * nLoc;
+        for (let j = 0; j < nLoc; j++) {
+          const d = cellDofs[o + j];
+          const col = reduced ? reduced[d] : d;
+          if (col >= 0 && mark[col] !== r) { mark[col] = r; cols[k++] = col; }
+        }
       }
+      sortRange(cols, k0, k);
+      rowPtr[r + 1] = k;
     }
-    rowPtr[r + 1] = rowPtr[r] + count;
-  }
-  const colIdx = new Int32Array(rowPtr[nReduced]);
-  mark.fill(-1);
-  for (let r = 0; r < nReduced; r++) {
-    const g = rowOf[r];
-    let k = rowPtr[r];
-    for (let s = start[g]; s < start[g + 1]; s++) {
-      const c = adj[s];
-      for (let j = 0; j < nLoc; j++) {
-        const col = reduced[cellDofs[c * nLoc + j]];
-        if (col >= 0 && mark[col] !== r) { mark[col] = r; colIdx[k++] = col; }
+    colIdx = cols.subarray(0, k);
+  } else {
+    for (let r = 0; r < nReduced; r++) {
+      const g = rowOf[r];
+      let count = 0;
+      for (let s = start[g]; s < start[g + 1]; s++) {
+        const o = adj[s] * nLoc;
+        for (let j = 0; j < nLoc; j++) {
+          const d = cellDofs[o + j];
+          const col = reduced ? reduced[d] : d;
+          if (col >= 0 && mark[col] !== r) { mark[col] = r; count++; }
+        }
       }
+      rowPtr[r + 1] = rowPtr[r] + count;
     }
-    sortRange(colIdx, rowPtr[r], rowPtr[r + 1]);
+    colIdx = new Int32Array(rowPtr[nReduced]);
+    mark.fill(-1);
+    for (let r = 0; r < nReduced; r++) {
+      const g = rowOf[r];
+      let k = rowPtr[r];
+      for (let s = start[g]; s < start[g + 1]; s++) {
+        const o = adj[s] * nLoc;
+        for (let j = 0; j < nLoc; j++) {
+          const d = cellDofs[o + j];
+          const col = reduced ? reduced[d] : d;
+          if (col >= 0 && mark[col] !== r) { mark[col] = r; colIdx[k++] = col; }
+        }
+      }
+      sortRange(colIdx, rowPtr[r], rowPtr[r + 1]);
+    }
   }
-  return { nRows: nReduced, nCols: nReduced, rowPtr, colIdx, values: new Float64Array(colIdx.length) };
+  const nnz = rowPtr[nReduced];
+  // Only the adjacency's pages hold anything: zero those; the rest of the buffer is still untouched (zero).
+  const values = shared.byteLength >= 8 * nnz ? new Float64Array(shared, 0, nnz).fill(0, 0, Math.ceil((nCells * nLoc) / 2)) : new Float64Array(nnz);
+  return { nRows: nReduced, nCols: nReduced, rowPtr, colIdx, values };
 }
 
 /** Insertion sort of a short row (rows hold tens of entries). */

@@ -65,7 +65,7 @@ export function solveElasticity(input: ElasticityInput): ElasticitySolution {
   const { A, b } = assembleForm(space, elasticityForm(space, input, input.degree));
   const cons = noConstraints(space.nDofs);
   if (input.dirichlet) fixBoundary(space, cons, 0, input.dirichlet.tags, input.dirichlet.value);
-  const system = eliminate(A, b, cons);
+  const system = eliminate(A, b, cons, { inPlace: true });
   const t2 = performance.now();
   const amg = { ...input.solver?.amg };
   if (input.rigidBodyModes !== false) {

@@ -5,7 +5,9 @@ import { collapsedTetrahedronRule, collapsedTriangleRule } from './collapsed-rul
 import { polishTriangleTable } from './polish-symmetric.ts';
 import { expandTriangleTable } from './symmetric-orbits.ts';
 import { hexahedronGaussRule, intervalGaussRule, quadrilateralGaussRule } from './tensor-rules.ts';
-import { tetrahedronCentroidRule, tetrahedronFourPointRule, tetrahedronFourteenPointRule } from './tetrahedron-symmetric.ts';
+import {
+  tetrahedronCentroidRule, tetrahedronFourPointRule, tetrahedronFourteenPointRule, tetrahedronTwentyFourPointRule,
+} from './tetrahedron-symmetric.ts';
 import { SYMMETRIC_TRIANGLE_TABLES } from './triangle-symmetric-tables.ts';
 import type { QuadratureRule } from './types.ts';
 
@@ -54,6 +56,7 @@ const TETRAHEDRON_CANDIDATES: readonly Candidate[] = [
   { degree: 1, nPoints: 1, build: () => cached('tetrahedron/symmetric/1', tetrahedronCentroidRule) },
   { degree: 2, nPoints: 4, build: () => cached('tetrahedron/symmetric/2', tetrahedronFourPointRule) },
   { degree: 5, nPoints: 14, build: () => cached('tetrahedron/symmetric/5', tetrahedronFourteenPointRule) },
+  { degree: 6, nPoints: 24, build: () => cached('tetrahedron/symmetric/6', tetrahedronTwentyFourPointRule) },
 ];
 
 /** The fully symmetric triangle rules (positive weights, interior points), ascending degree. */

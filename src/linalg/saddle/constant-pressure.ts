@@ -33,6 +33,20 @@ export function constantPressureIsFree(B: Csr): boolean {
   return maxAbs > 0 && maxSum <= CONSTANT_MODE_TOL * maxAbs;
 }
 
+/** Whether C·1 = 0 (|C·1|_∞ at most CONSTANT_MODE_TOL of the largest absolute row sum of C): a pressure block C that
+ *  does not see the constant pressure (a stabilising pressure Laplacian), unlike C = M/λ. */
+export function constantInKernelOf(C: Csr): boolean {
+  const { nRows, rowPtr, values } = C;
+  let maxSum = 0, maxAbs = 0;
+  for (let i = 0; i < nRows; i++) {
+    let s = 0, a = 0;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) { s += values[k]; a += Math.abs(values[k]); }
+    maxSum = Math.max(maxSum, Math.abs(s));
+    maxAbs = Math.max(maxAbs, a);
+  }
+  return maxSum <= CONSTANT_MODE_TOL * maxAbs;
+}
+
 /** The mean constraint, checked and with 1ᵀw precomputed. */
 export interface MeanConstraint {
   w: Float64Array;
@@ -42,16 +56,29 @@ export interface MeanConstraint {
 
 /** Checks the caller's statement and the constraint against B; returns the constraint when the pressure needs one. */
 export function meanConstraintFor(
-  B: Csr, w: Float64Array | undefined, stated: boolean | undefined,
+  B: Csr, w: Float64Array | undefined, stated: boolean | undefined, C?: Csr,
 ): MeanConstraint | null {
   const np = B.nRows;
-  const free = constantPressureIsFree(B);
+  const freeInB = constantPressureIsFree(B);
+  // With a pressure block C (the system [[A, Bᵀ], [B, −C]]) the constant is free only when C·1 = 0 as well.
+  const fixedByC = C !== undefined && freeInB && !constantInKernelOf(C);
+  const free = freeInB && !fixedByC;
+  if (fixedByC && stated === true) {
+    throw new RungsInputError(
+      'saddle point: pressureDeterminedUpToConstant is true, but the pressure block C fixes the constant (Bᵀ·1 = 0 and ' +
+        'C·1 ≠ 0, e.g. C = M/λ of a nearly incompressible material); set it to false and give no meanConstraint', WHERE);
+  }
+  if (fixedByC && w) {
+    throw new RungsInputError(
+      'saddle point: meanConstraint was given, but the pressure block C already determines the pressure (C·1 ≠ 0); ' +
+        'a mean constraint would over-determine it: leave meanConstraint out', WHERE);
+  }
   if (stated !== undefined && stated !== free) {
     throw new RungsInputError(
       stated
         ? 'saddle point: pressureDeterminedUpToConstant is true, but Bᵀ·1 ≠ 0: the constant pressure is not free ' +
           '(some velocity boundary is not fixed, e.g. an outflow boundary); set it to false and give no meanConstraint'
-        : 'saddle point: pressureDeterminedUpToConstant is false, but Bᵀ·1 = 0: the pressure is fixed only up to a ' +
+        : `saddle point: pressureDeterminedUpToConstant is false, but Bᵀ·1 = 0${C ? ' and C·1 = 0' : ''}: the pressure is fixed only up to a ` +
           'constant (the velocity is fixed on the whole boundary); set it to true and give meanConstraint',
       WHERE);
   }
@@ -65,7 +92,7 @@ export function meanConstraintFor(
   }
   if (!w) {
     throw new RungsInputError(
-      'saddle point: the pressure is determined only up to a constant (Bᵀ·1 = 0: the velocity is fixed on the whole ' +
+      `saddle point: the pressure is determined only up to a constant (Bᵀ·1 = 0${C ? ' and C·1 = 0' : ''}: the velocity is fixed on the whole ` +
         'boundary), and no meanConstraint was given; give meanConstraint = the integrals of the pressure basis ' +
         'functions (the solution then has wᵀp = 0, mean pressure zero)', WHERE);
   }

@@ -1,17 +1,22 @@
 /** The saddle-point solver: MINRES (minres.ts) with the block-diagonal preconditioner (block-preconditioner.ts) on
  *  K = [[A, Bᵀ], [B, 0]] applied block by block (block-operator.ts), the mean constraint by projections
- *  (constant-pressure.ts). setupSaddlePointSolver builds everything once; solveSaddlePoint is the one-shot form. */
+ *  (constant-pressure.ts); with a pressure block C, K = [[A, Bᵀ], [B, −C]] and the pressure block of the
+ *  preconditioner approximates (M/ν + C)⁻¹ (pressure-block.ts). setupSaddlePointSolver builds everything once; solveSaddlePoint is the one-shot form. */
 import { RungsInputError } from '../../errors.ts';
 import { amgSetup } from '../amg/setup.ts';
 import { assertFiniteMatrix, isSymmetric } from '../csr.ts';
 import { CG_SYMMETRY_TOL } from '../cg.ts';
-import { minres, minresWorkspace } from '../minres.ts';
+import { minres, minresWorkspace, type SymmetricOperator } from '../minres.ts';
 import type { Csr } from '../types.ts';
 import { allFinite } from '../vector.ts';
 import { saddlePointOperator } from './block-operator.ts';
-import { BLOCK_PRECONDITIONER_NAME, blockDiagonalPreconditioner } from './block-preconditioner.ts';
-import { meanConstraintFor, removeConstant, removeMeanOfDatum } from './constant-pressure.ts';
-import { pressureMassApproximation } from './pressure-mass.ts';
+import { BLOCK_PRECONDITIONER_NAME, blockDiagonalPreconditioner, type BlockPreconditioner } from './block-preconditioner.ts';
+import { constantPressureIsFree, meanConstraintFor, removeConstant, removeMeanOfDatum } from './constant-pressure.ts';
+import { pressureMassApproximation, type MassApproximation } from './pressure-mass.ts';
+import {
+  PRESSURE_BLOCK_PRECONDITIONER_NAME, checkPressureBlock, constantPressureMode, pressureBlockPreconditioner,
+  saddlePointOperatorWithPressureBlock, schurApproximation,
+} from './pressure-block.ts';
 import type { SaddlePointInput, SaddlePointOptions, SaddlePointResult, SaddlePointSolver } from './types.ts';
 
 const WHERE = 'linalg/saddle';
@@ -38,18 +43,33 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
   if (!(viscosity > 0 && Number.isFinite(viscosity))) {
     throw new RungsInputError(`saddle point: viscosity must be a positive number (it scales the Schur approximation M/ν), got ${viscosity}`, WHERE);
   }
-  const constraint = meanConstraintFor(B, opts.meanConstraint, opts.pressureDeterminedUpToConstant);
-  const mass = pressureMassApproximation(M, opts.pressureMass ?? 'chebyshev', opts.chebyshevSteps);
-  const K = saddlePointOperator(A, B);
-  const amg = amgSetup(A, { ...opts.amg, symmetric: true });
-  const P = blockDiagonalPreconditioner(nu, np, amg.preconditioner, mass, viscosity, constraint);
+  const C = opts.pressureBlock;
+  if (C) checkPressureBlock(C, np);
+  const constraint = meanConstraintFor(B, opts.meanConstraint, opts.pressureDeterminedUpToConstant, C);
+  let mass: MassApproximation, K: SymmetricOperator, amg: ReturnType<typeof amgSetup>, P: BlockPreconditioner;
+  let constantApart = false;
+  if (!C) {
+    // C = 0 (Stokes): unchanged, bit for bit.
+    mass = pressureMassApproximation(M, opts.pressureMass ?? 'chebyshev', opts.chebyshevSteps);
+    K = saddlePointOperator(A, B);
+    amg = amgSetup(A, { ...opts.amg, symmetric: true });
+    P = blockDiagonalPreconditioner(nu, np, amg.preconditioner, mass, viscosity, constraint);
+  } else {
+    // [[A, Bᵀ], [B, −C]]: Chebyshev on M/ν + C, the constant apart when only C sees it (pressure-block.ts).
+    mass = pressureMassApproximation(schurApproximation(M, C, viscosity), opts.pressureMass ?? 'chebyshev', opts.chebyshevSteps);
+    K = saddlePointOperatorWithPressureBlock(A, B, C);
+    amg = amgSetup(A, { ...opts.amg, symmetric: true });
+    constantApart = !constraint && opts.separateConstantPressure !== false && constantPressureIsFree(B);
+    const constant = constantApart ? constantPressureMode(M, C) : null;
+    P = pressureBlockPreconditioner(nu, np, amg.preconditioner, mass, constraint, constant);
+  }
   const workspace = minresWorkspace(nu + np);
   const b = new Float64Array(nu + np);
   let setupSeconds = (performance.now() - t0) / 1000;
   let disposed = false;
 
   return {
-    nu, np, amg: amg.stats, pressureMass: mass.name,
+    nu, np, amg: amg.stats, pressureMass: mass.name, constantPressureApart: constantApart,
     solve(f, g, x0) {
       if (disposed) throw new RungsInputError('saddle point: this solver was disposed; set up a new one', WHERE);
       const t1 = performance.now();
@@ -78,7 +98,7 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
       });
       // wᵀp = 0 exactly: the iterates lie in Y up to round-off; Π does not change the residual.
       if (constraint) removeConstant(constraint, xp);
-      stats.preconditioner = BLOCK_PRECONDITIONER_NAME;
+      stats.preconditioner = C ? PRESSURE_BLOCK_PRECONDITIONER_NAME : BLOCK_PRECONDITIONER_NAME;
       stats.setupSeconds = setupSeconds;
       const notes = [stats.message, ...amg.stats.notes].filter(Boolean);
       if (notes.length > 0) stats.message = notes.join('; ');
@@ -87,6 +107,7 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
         seconds: { setup: setupSeconds, solve: (performance.now() - t1) / 1000 },
         amg: amg.stats,
         ...(removedMean !== undefined ? { removedMean } : {}),
+        ...(C ? { constantPressureApart: constantApart } : {}),
       };
       setupSeconds = 0;
       return result;
@@ -100,7 +121,7 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
   };
 }
 
-/** Solves [[A, Bᵀ], [B, 0]] [u; p] = [f; g] once (set up, solve, free the multigrid memory). */
+/** Solves [[A, Bᵀ], [B, 0]] [u; p] = [f; g] (or [[A, Bᵀ], [B, −C]] with opts.pressureBlock) once (set up, solve, free the multigrid memory). */
 export function solveSaddlePoint(input: SaddlePointInput): SaddlePointResult {
   const { A, B, M, f, g, x0, ...opts } = input;
   const solver = setupSaddlePointSolver(A, B, M, opts);

@@ -1,4 +1,5 @@
-/** Inputs, options and results of the saddle-point solver for [[A, Bᵀ], [B, 0]] [u; p] = [f; g]. */
+/** Inputs, options and results of the saddle-point solver for [[A, Bᵀ], [B, 0]] [u; p] = [f; g], or
+ *  [[A, Bᵀ], [B, −C]] with a pressure block C. */
 import type { AmgOptions, AmgStats } from '../amg/types.ts';
 import type { Csr, SolveOptions, SolveStats } from '../types.ts';
 import type { PressureMassSolve } from './pressure-mass.ts';
@@ -23,6 +24,13 @@ export interface SaddlePointOptions {
   chebyshevSteps?: number;
   /** Extra stopping test after each MINRES iteration (x is the block vector [u; p]). */
   stopWhen?: SolveOptions['stopWhen'];
+  /** C, np × np, symmetric positive semidefinite: the system is [[A, Bᵀ], [B, −C]] (C = M/λ for nearly
+   *  incompressible elasticity). The pressure block of the preconditioner then approximates (M/ν + C)⁻¹
+   *  (pressure-block.ts). When C·1 ≠ 0 it fixes the constant pressure: no meanConstraint. Absent: C = 0. */
+  pressureBlock?: Csr;
+  /** With a pressure block that alone sees the constant pressure (Bᵀ·1 = 0, C·1 ≠ 0): treat the constant apart in
+   *  the preconditioner (default true; false only to show why: MINRES counts then grow with 1ᵀC1's smallness). */
+  separateConstantPressure?: boolean;
 }
 
 export interface SaddlePointInput extends SaddlePointOptions {
@@ -50,6 +58,8 @@ export interface SaddlePointResult {
   removedMean?: number;
   /** Figures of the velocity multigrid hierarchy. */
   amg: AmgStats;
+  /** With a pressure block only: whether the preconditioner treated the constant pressure apart. */
+  constantPressureApart?: boolean;
 }
 
 /** Set up once (multigrid, pressure block, checks), then solve for many right-hand sides (Newton, time steps). */
@@ -59,6 +69,8 @@ export interface SaddlePointSolver {
   amg: AmgStats;
   /** Which pressure block is used, e.g. 'chebyshev(4)'. */
   pressureMass: string;
+  /** True when the preconditioner treats the constant pressure apart (a pressure block C alone fixes it). */
+  constantPressureApart: boolean;
   solve(f: Float64Array, g: Float64Array, x0?: { u: Float64Array; p: Float64Array }): SaddlePointResult;
   /** Frees the multigrid memory; the solver cannot be used afterwards. */
   dispose(): void;

@@ -7,6 +7,8 @@ import type { StudyProblem } from '../problem.ts';
 import { builtInPreset } from '../expected.ts';
 import { systemData } from './system-data.ts';
 import { scalarOf } from './system-common.ts';
+import { externalFieldNorms } from './system-norms.ts';
+import { inverseLambdaPressureNorms, shearEnergyOptions } from './mixed-elasticity.ts';
 
 /** The size of the exact solution in each norm rungs measures (the error of the zero field), on the first level's
  *  mesh: the scale that round-off floors are judged against. Empty for an external code's own norms. */
@@ -14,7 +16,9 @@ export function normScales(decl: StudyDeclaration, problem: StudyProblem): Recor
   const degree = decl.discretization.degree ?? 2;
   const quadrature = 2 * degree + 8;
   if (problem.exact) return exactNorms(decl.domain.mesh(decl.ladder.n[0]), problem.exact, { degree: quadrature }) as unknown as Record<string, number>;
-  if (decl.discretization.kind !== 'lagrange' || !problem.derived) return {};
+  // rungs's own systems, and an external system's VTK fields measured with the same norms (a preset's fields u, p).
+  const measuredHere = decl.discretization.kind === 'lagrange' || (externalFieldNorms(decl) !== null && decl.pde?.preset !== undefined);
+  if (!measuredHere || !problem.derived) return {};
   const mesh = decl.domain.mesh(decl.ladder.n[0]);
   const preset = builtInPreset(decl);
   if (preset === 'nonlinear-diffusion') return exactNorms(mesh, solutionOf(problem.derived), { degree: quadrature }) as unknown as Record<string, number>;
@@ -26,10 +30,20 @@ export function normScales(decl: StudyDeclaration, problem: StudyProblem): Recor
   const u = data.exact('u');
   const opts = preset === 'linear-elasticity'
     ? { divergence: true, degree: quadrature, elasticity: { lambda: scalarOf(data.point('coef_lambda')), mu: scalarOf(data.point('coef_mu')) } }
-    : { divergence: true, degree: quadrature };
+    : preset === 'nearly-incompressible-elasticity'
+      ? { divergence: true, degree: quadrature, elasticity: shearEnergyOptions(data.point('coef_mu')) }
+      : { divergence: true, degree: quadrature };
   const [eu] = fieldErrors([zero(mesh.dim)], u, opts);
   const out: Record<string, number> = { L2_u: eu.L2, H1semi_u: eu.H1semi, H1_u: eu.H1, maxNodal_u: Number.NaN, div_u: eu.div ?? Number.NaN };
   if (eu.energy !== undefined) out.energy = eu.energy;
+  if (preset === 'nearly-incompressible-elasticity') {
+    // Mixed energy (∫ 2μ ε:ε + (1/λ) p²)^(1/2) of the exact pair, and ‖p‖ (src/study/discretizations/mixed-elasticity.ts).
+    const exactP = data.exact('p');
+    const [ep] = fieldErrors([zero(1)], exactP, { degree: quadrature });
+    const [pw] = inverseLambdaPressureNorms([zero(1)], exactP, data.point('coef_lambda'), quadrature);
+    out.L2_p = ep.L2;
+    out.energy = Math.sqrt(eu.energy! * eu.energy! + pw * pw);
+  }
   if (preset === 'stokes') {
     const [ep] = fieldErrors([zero(1)], data.exact('p'), { meanFree: problem.pde.meanFree?.includes('p') ?? false, degree: quadrature });
     out.L2_p = ep.L2;

@@ -9,13 +9,19 @@ import type { PresetName } from '../../equation/types.ts';
  *    estimates per component; the energy norm is (∫ 2μ ε:ε + λ (∇·e)²)^(1/2), bounded by C‖e‖_H1, with C growing
  *    with λ/μ: locking; Babuška & Suri 1992);
  *  - Stokes, Taylor–Hood P_k–P_(k−1): L2_u k+1, H1semi_u / H1_u / div_u k, L2_p k (the pressure mean removed on
- *    both sides; Girault & Raviart 1986, ch. II §4; Elman, Silvester & Wathen 2014, Thm 3.13 for k = 2). */
+ *    both sides; Girault & Raviart 1986, ch. II §4; Elman, Silvester & Wathen 2014, Thm 3.13 for k = 2);
+ *  - nearly incompressible elasticity, Taylor–Hood P_k–P_(k−1) for (u, p = −λ∇·u): the same orders as Stokes, with
+ *    constants independent of λ (Braess 2007, ch. VI §3, Thm 3.6, numbering from memory; Boffi, Brezzi & Fortin
+ *    2013, §8.12), and energy k, the energy norm being (∫ 2μ ε(e_u):ε(e_u) + (1/λ) e_p²)^(1/2), the displacement
+ *    energy norm with λ(∇·e)² written through the pressure (equal for the exact pair, where λ(∇·u)² = p²/λ). */
 export function builtInNorms(preset: PresetName, k: number): { orders: Record<string, number>; defaults: string[] } {
   switch (preset) {
     case 'linear-elasticity':
       return { orders: { L2_u: k + 1, H1semi_u: k, H1_u: k, energy: k, div_u: k, maxNodal_u: k + 1 }, defaults: ['L2_u', 'H1semi_u', 'energy'] };
     case 'stokes':
       return { orders: { L2_u: k + 1, H1semi_u: k, H1_u: k, div_u: k, L2_p: k }, defaults: ['L2_u', 'H1semi_u', 'L2_p'] };
+    case 'nearly-incompressible-elasticity':
+      return { orders: { L2_u: k + 1, H1semi_u: k, H1_u: k, div_u: k, L2_p: k, energy: k }, defaults: ['L2_u', 'H1semi_u', 'L2_p'] };
     case 'nonlinear-diffusion':
       return { orders: { L2: k + 1, H1semi: k, H1: k, maxNodal: k + 1 }, defaults: ['L2', 'H1semi'] };
     case 'diffusion-convection-reaction':
@@ -31,4 +37,50 @@ export function isGlobalNorm(name: string): boolean {
 /** Pointwise norms (nodal values may superconverge). */
 export function isPointwiseNorm(name: string): boolean {
   return /^maxNodal(_[A-Za-z][A-Za-z0-9_]*)?$/.test(name);
+}
+
+/** The norms rungs integrates itself on the fields of a pde read from an external code's VTK solution, with their
+ *  expected orders for degree k (the study's degree: the displacement's or velocity's) where the preset gives them. */
+export interface FieldNormTable {
+  /** Every norm measured: per field f, L2_f, H1semi_f, H1_f, maxNodal_f, and div_f for a vector field (a lone scalar
+   *  field without the suffix: L2, H1semi, …); energy for the elasticity presets. A mean-free field's norms are those
+   *  of its error less the error's mean. */
+  names: string[];
+  /** Expected orders: those of rungs's own elements for the preset (builtInNorms); none for a pde of the study's own. */
+  orders: Record<string, number>;
+  /** The norms measured when the study names none. */
+  defaults: string[];
+}
+
+/** The table for the fields of a pde (see FieldNormTable). */
+export function fieldNorms(fields: Readonly<Record<string, 'scalar' | 'vector'>>, preset: PresetName | undefined, k: number | undefined): FieldNormTable {
+  const entries = Object.entries(fields);
+  const lone = entries.length === 1 && entries[0]![1] === 'scalar';
+  const names: string[] = [];
+  const defaults: string[] = [];
+  for (const [f, kind] of entries) {
+    const s = lone ? '' : `_${f}`;
+    names.push(`L2${s}`, `H1semi${s}`, `H1${s}`, `maxNodal${s}`);
+    if (kind === 'vector') names.push(`div${s}`);
+    defaults.push(`L2${s}`, `H1semi${s}`);
+  }
+  const elastic = preset === 'linear-elasticity' || preset === 'nearly-incompressible-elasticity';
+  if (elastic) names.push('energy');
+  const own = preset !== undefined && preset !== 'diffusion-convection-reaction';
+  const table = own ? builtInNorms(preset, k ?? 1) : null;
+  const orders = table && k !== undefined ? Object.fromEntries(Object.entries(table.orders).filter(([nm]) => names.includes(nm))) : {};
+  return { names, orders, defaults: table ? table.defaults.filter((nm) => names.includes(nm)) : defaults };
+}
+
+/** The field norms of a study whose external code writes its solution as VTK for a pde other than today's scalar
+ *  equation (which keeps its own path); null for every other study. */
+export function externalFieldNorms(decl: {
+  discretization: { kind: string; output?: string; degree?: number };
+  pde?: { fields: Readonly<Record<string, 'scalar' | 'vector'>>; preset?: { name: PresetName } };
+}): FieldNormTable | null {
+  const d = decl.discretization;
+  if (d.kind !== 'external' || d.output !== 'vtk' || !decl.pde) return null;
+  const preset = decl.pde.preset?.name;
+  if (preset === 'diffusion-convection-reaction') return null;
+  return fieldNorms(decl.pde.fields, preset, d.degree);
 }
