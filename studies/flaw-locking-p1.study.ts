@@ -22,7 +22,7 @@ export default defineStudy({
   ladder: { n: [4, 8, 16, 32, 64] },
   norms: ['L2_u', 'H1semi_u', 'energy'],
   expect: { verdict: 'below-order', flaw: 'P1 displacement elements lock when the material is nearly incompressible' },
-  // The same ladder at λ/μ = 1, 100 and 1e4 (Poisson's ratio 0.25, 0.495, 0.49995): the error constant must grow
-  // toward the incompressible limit, and it does.
-  sweep: { coefficient: 'lambda', values: [1, 1e2, 1e4], expect: 'not-robust' },
+  // The same ladder at λ/μ = 1 and 1e4 (Poisson's ratio 0.25 and 0.49995): the error constant must grow toward the
+  // incompressible limit, and it does.
+  sweep: { coefficient: 'lambda', values: [1, 1e4], expect: 'not-robust' },
 });

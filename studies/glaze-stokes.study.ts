@@ -16,6 +16,6 @@ export default defineStudy({
     p: '10*cos(pi*x)*cos(pi*y)',
   },
   discretization: lagrange({ degree: 2 }),
-  ladder: { n: [4, 8, 16, 32, 64] },
+  ladder: { n: [4, 8, 16, 32] },
   norms: ['L2_u', 'H1semi_u', 'L2_p'],
 });

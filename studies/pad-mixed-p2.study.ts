@@ -21,7 +21,8 @@ export default defineStudy({
   discretization: lagrange({ degree: 2 }),
   ladder: { n: [4, 8, 16, 32] },
   norms: ['L2_u', 'H1semi_u', 'L2_p', 'energy'],
-  // λ/μ = 1e2, 1e4, 1e6 toward the incompressible limit: the error constant stays bounded (away from λ = 1e4 the
-  // constraint equation gets a derived source ∇·u + p/λ ≠ 0, which the solver is handed like any other datum).
-  sweep: { coefficient: 'lambda', values: [1e2, 1e4, 1e6] },
+  // λ/μ = 1e2 and 1e6, either side of the pad's 1e4, toward the incompressible limit: the error constant stays bounded
+  // (away from λ = 1e4 the constraint equation gets a derived source ∇·u + p/λ ≠ 0, which the solver is handed like
+  // any other datum).
+  sweep: { coefficient: 'lambda', values: [1e2, 1e6] },
 });

@@ -82,7 +82,9 @@ export function judgeSweeps(results: StudyResult[], declarations: ReadonlyMap<st
     verdicts.push(verdict);
     for (const r of members) {
       r.robustness = verdict;
-      r.warnings.push(...findings.filter((f) => !f.robust || expect === 'robust').map((f) => `sweep over ${coefficient}: ${f.reason}`));
+      // A growing constant is worth a warning in every member's report; a bounded one is in `robustness` and the
+      // sweep's line.
+      r.warnings.push(...findings.filter((f) => !f.robust).map((f) => `sweep over ${coefficient}: ${f.reason}`));
       r.asExpected = verdict.asExpected && (expect === 'not-robust' || r.asExpected);
     }
   }
