@@ -60,10 +60,11 @@ export function tetrahedronFourteenPointRule(): QuadratureRule {
 
 /**
  * 24-point rule exact to degree 6 with positive weights and interior points: three orbits (a, a, a, 1-3a) and one
- * orbit (a, a, b, 1-2a-b) of 12 points. Keast 1986 ("Moderate-degree tetrahedral quadrature formulas", CMAME 55,
- * rule 7 of degree 6), weights scaled to the reference volume 1/6; values (16 digits) from memory, the monomial test
- * confirms them (test/fem/quadrature/tetrahedron-degree6.test.ts). Replaces the 64-point collapsed rule at degree 6
- * (the error integrals of P1 on tetrahedra use degree 2k + 4 = 6).
+ * orbit (a, a, b, 1-2a-b) of 12 points; Keast 1986 ("Moderate-degree tetrahedral quadrature formulas", Comput.
+ * Methods Appl. Mech. Engrg. 55), its 24-point rule of degree 6, weights for the reference volume 1/6. Values
+ * (16 digits) from memory; the monomial test confirms them (test/fem/quadrature/tetrahedron-degree6.test.ts).
+ * Replaces the 64-point collapsed rule at degree 6 (the error integrals of P1 on tetrahedra use degree 2k + 4 = 6,
+ * the load of P2 with a non-polynomial source k + k + 2 = 6).
  */
 export function tetrahedronTwentyFourPointRule(): QuadratureRule {
   const points: number[] = [];
@@ -92,6 +93,6 @@ export function tetrahedronTwentyFourPointRule(): QuadratureRule {
     nPoints: 24,
     points: Float64Array.from(points),
     weights: Float64Array.from(weights),
-    source: 'Keast 1986, rule 7, degree 6, 24 points',
+    source: 'Keast 1986, degree 6, 24 points',
   };
 }

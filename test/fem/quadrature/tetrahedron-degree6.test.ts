@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { collapsedTetrahedronRule, ruleFor, tetrahedronTwentyFourPointRule } from '../../../src/fem/quadrature/index.ts';
 import { ruleMoment, tetrahedronMoment, worstErrorOfDegree, worstSimplexError } from './exact-moments.ts';
 
-describe('the 24-point tetrahedron rule of degree 6 (Keast 1986, rule 7)', () => {
+describe('the 24-point tetrahedron rule of degree 6 (Keast 1986)', () => {
   const rule = tetrahedronTwentyFourPointRule();
 
   it('integrates every monomial x^a y^b z^c with a+b+c <= 6 to 1e-14 (Dirichlet 1839: a! b! c!/(a+b+c+3)!)', () => {
