@@ -28,8 +28,9 @@
  *
  *  Nothing is allocated per application: work vectors are taken once at setup. */
 import { RungsInputError } from '../../errors.ts';
-import { assertFiniteMatrix, csrFromTriplets, isSymmetric, transpose } from '../csr.ts';
+import { assertFiniteMatrix, csrFromTriplets, isSymmetric } from '../csr.ts';
 import { CG_SYMMETRY_TOL } from '../cg.ts';
+import { saddlePointOperator } from './block-operator.ts';
 import type { SymmetricOperator } from '../minres.ts';
 import type { Csr, Preconditioner } from '../types.ts';
 import { CONSTANT_MODE_TOL, type MeanConstraint } from './constant-pressure.ts';
@@ -102,30 +103,7 @@ export function constantPressureMode(M: Csr, C: Csr): ConstantPressureMode {
 
 /** K = [[A, Bᵀ], [B, −C]] applied block by block (Bᵀ transposed once at setup); allocates nothing per product. */
 export function saddlePointOperatorWithPressureBlock(A: Csr, B: Csr, C: Csr): SymmetricOperator {
-  const nu = A.nRows, np = B.nRows;
-  const Bt = transpose(B);
-  const { rowPtr: ap, colIdx: ac, values: av } = A;
-  const { rowPtr: tp, colIdx: tc, values: tv } = Bt;
-  const { rowPtr: bp, colIdx: bc, values: bv } = B;
-  const { rowPtr: cp, colIdx: cc, values: cv } = C;
-  return {
-    n: nu + np,
-    apply(x: Float64Array, y: Float64Array): void {
-      for (let i = 0; i < nu; i++) {
-        let s = 0;
-        for (let k = ap[i]; k < ap[i + 1]; k++) s += av[k] * x[ac[k]];
-        for (let k = tp[i]; k < tp[i + 1]; k++) s += tv[k] * x[nu + tc[k]];
-        y[i] = s;
-      }
-      // y_p = B x_u − C x_p
-      for (let i = 0; i < np; i++) {
-        let s = 0;
-        for (let k = bp[i]; k < bp[i + 1]; k++) s += bv[k] * x[bc[k]];
-        for (let k = cp[i]; k < cp[i + 1]; k++) s -= cv[k] * x[nu + cc[k]];
-        y[nu + i] = s;
-      }
-    },
-  };
+  return saddlePointOperator(A, B, C);
 }
 
 export interface PressureBlockPreconditioner extends Preconditioner {
