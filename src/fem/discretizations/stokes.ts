@@ -68,7 +68,8 @@ export function solveStokes(input: StokesInput): StokesSolution {
   });
   const cons = noConstraints(space.nDofs);
   if (input.dirichlet) fixBoundary(space, cons, 0, input.dirichlet.tags, input.dirichlet.value);
-  const sys = eliminate(K, b, cons);
+  // K is not needed after elimination: compacted in place (same bits, no second copy of the matrix).
+  const sys = eliminate(K, b, cons, { inPlace: true });
   let mu = 0;
   for (let u = 0; u < space.fields[1].offset; u++) if (!cons.fixed[u]) mu++;
   const { A, B, cNonzeros } = splitTwoFields(sys.A, mu);
