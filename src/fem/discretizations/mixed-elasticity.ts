@@ -4,8 +4,7 @@ import { RungsInputError } from '../../errors.ts';
 import { solveSaddlePoint } from '../../linalg/saddle/index.ts';
 import type { AmgOptions } from '../../linalg/amg/types.ts';
 import { reducedRigidBodyModes } from '../../linalg/amg/rigid-body-modes.ts';
-import { lagrangeSpace } from '../dofmap/dofmap.ts';
-import { mixedSpace, singleField, vectorSpace } from '../space/space.ts';
+import { singleField } from '../space/space.ts';
 import type { MixedSpace } from '../space/types.ts';
 import { assembleForm } from '../form/assemble.ts';
 import { elasticityTerm } from '../form/terms/elasticity.ts';
@@ -14,9 +13,8 @@ import { massTerm } from '../form/terms/mass.ts';
 import { boundaryLoadTerm, sourceTerm } from '../form/terms/loads.ts';
 import type { NormalData, PointData } from '../form/terms/types.ts';
 import type { Form } from '../form/types.ts';
-import { eliminate, fixBoundary, noConstraints } from '../constraints/dirichlet.ts';
 import { NON_POLYNOMIAL_EXTRA, systemDegrees } from './quadrature-degrees.ts';
-import { splitTwoFields } from './blocks.ts';
+import { taylorHoodSpace, eliminateTaylorHood, expandTaylorHood } from './taylor-hood.ts';
 
 export interface MixedElasticityInput {
   mesh: Mesh;
@@ -116,18 +114,10 @@ export function solveMixedElasticity(input: MixedElasticityInput): MixedElastici
   if (!(Number.isInteger(k) && k >= 2)) throw new RungsInputError(`Taylor–Hood needs a displacement degree of at least 2 (the pressure takes degree − 1), got ${k}`);
   const dim = mesh.dim;
   const t0 = performance.now();
-  const uScalar = lagrangeSpace(mesh, k);
-  const pScalar = lagrangeSpace(mesh, k - 1);
-  const space = mixedSpace([{ name: 'u', space: vectorSpace(uScalar, dim) }, { name: 'p', space: vectorSpace(pScalar, 1) }]);
+  const { velocity: uScalar, pressure: pScalar, space } = taylorHoodSpace(mesh, k);
   const t1 = performance.now();
   const { A: K, b } = assembleForm(space, mixedElasticityForm(space, input));
-  const cons = noConstraints(space.nDofs);
-  if (input.dirichlet) fixBoundary(space, cons, 0, input.dirichlet.tags, input.dirichlet.value);
-  // K is not needed after elimination: compacted in place (same bits, no second copy of the matrix).
-  const sys = eliminate(K, b, cons, { inPlace: true });
-  let mu = 0;
-  for (let u = 0; u < space.fields[1].offset; u++) if (!cons.fixed[u]) mu++;
-  const { A, B } = splitTwoFields(sys.A, mu);
+  const { cons, sys, mu, A, B } = eliminateTaylorHood(space, K, b, input.dirichlet);
   const C = negatedTrailingBlock(sys.A, mu);
   // The pressure mass matrix weighted by 1/(2μ): with C = (1/λ) M the preconditioner's pressure block is
   // M_{1/(2μ)} + C = ∫ (1/(2μ) + 1/λ) q_i q_j (viscosity 1 in the solver's M/ν + C).
@@ -147,12 +137,9 @@ export function solveMixedElasticity(input: MixedElasticityInput): MixedElastici
     relTol: input.solver?.relTol, maxIter: input.solver?.maxIter, amg,
   });
   const t3 = performance.now();
-  const full = cons.values.slice();
-  for (let r = 0; r < mu; r++) full[sys.free[r]] = res.u[r];
-  for (let r = mu; r < sys.free.length; r++) full[sys.free[r]] = res.p[r - mu];
-  const off = space.fields[1].offset;
+  const { velocity: displacement, pressure } = expandTaylorHood(space, cons, sys, mu, res.u, res.p);
   return {
-    space, displacement: full.slice(0, off), pressure: full.slice(off), solver: res.stats,
+    space, displacement, pressure, solver: res.stats,
     constantPressureApart: res.constantPressureApart === true,
     seconds: { space: (t1 - t0) / 1e3, assemble: (t2 - t1) / 1e3, solve: (t3 - t2) / 1e3 },
   };

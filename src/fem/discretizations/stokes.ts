@@ -3,8 +3,7 @@ import type { SolveStats } from '../../linalg/types.ts';
 import { RungsInputError } from '../../errors.ts';
 import { solveSaddlePoint } from '../../linalg/saddle/index.ts';
 import type { AmgOptions } from '../../linalg/amg/types.ts';
-import { lagrangeSpace } from '../dofmap/dofmap.ts';
-import { mixedSpace, singleField, vectorSpace } from '../space/space.ts';
+import { singleField } from '../space/space.ts';
 import type { MixedSpace } from '../space/types.ts';
 import { assembleForm } from '../form/assemble.ts';
 import { viscousTerm } from '../form/terms/viscous.ts';
@@ -12,9 +11,8 @@ import { pressureDivergenceTerms } from '../form/terms/divergence.ts';
 import { massTerm } from '../form/terms/mass.ts';
 import { boundaryLoadTerm, sourceTerm } from '../form/terms/loads.ts';
 import type { NormalData, PointData } from '../form/terms/types.ts';
-import { eliminate, fixBoundary, noConstraints } from '../constraints/dirichlet.ts';
 import { systemDegrees } from './quadrature-degrees.ts';
-import { splitTwoFields } from './blocks.ts';
+import { taylorHoodSpace, eliminateTaylorHood, expandTaylorHood } from './taylor-hood.ts';
 
 export interface StokesInput {
   mesh: Mesh;
@@ -54,9 +52,7 @@ export function solveStokes(input: StokesInput): StokesSolution {
   if (!(Number.isInteger(k) && k >= 2)) throw new RungsInputError(`Taylor–Hood needs a velocity degree of at least 2 (the pressure takes degree − 1), got ${k}`);
   const dim = mesh.dim;
   const t0 = performance.now();
-  const velocityScalar = lagrangeSpace(mesh, k);
-  const pressureScalar = lagrangeSpace(mesh, k - 1);
-  const space = mixedSpace([{ name: 'u', space: vectorSpace(velocityScalar, dim) }, { name: 'p', space: vectorSpace(pressureScalar, 1) }]);
+  const { pressure: pressureScalar, space } = taylorHoodSpace(mesh, k);
   const t1 = performance.now();
   const d = systemDegrees(mesh.cellKind, k, input.hints?.coefficients ?? null, input.hints?.source ?? null);
   const negMass: PointData = (x, y, z, out) => { input.massSource(x, y, z, out); out[0] = -out[0]; };
@@ -66,13 +62,7 @@ export function solveStokes(input: StokesInput): StokesSolution {
     vector: [sourceTerm(0, dim, input.momentumSource, d.source), sourceTerm(1, 1, negMass, d.source)],
     facetVector: input.traction && input.traction.tags.length ? [boundaryLoadTerm(0, dim, input.traction.tags, input.traction.value, d.source)] : [],
   });
-  const cons = noConstraints(space.nDofs);
-  if (input.dirichlet) fixBoundary(space, cons, 0, input.dirichlet.tags, input.dirichlet.value);
-  // K is not needed after elimination: compacted in place (same bits, no second copy of the matrix).
-  const sys = eliminate(K, b, cons, { inPlace: true });
-  let mu = 0;
-  for (let u = 0; u < space.fields[1].offset; u++) if (!cons.fixed[u]) mu++;
-  const { A, B, cNonzeros } = splitTwoFields(sys.A, mu);
+  const { cons, sys, mu, A, B, cNonzeros } = eliminateTaylorHood(space, K, b, input.dirichlet);
   if (cNonzeros > 0) throw new Error('internal: the pressure–pressure block of Taylor–Hood Stokes is not empty');
   // Pressure mass matrix and the integrals of the pressure basis (the mean constraint).
   const pSpace = singleField('p', pressureScalar);
@@ -89,12 +79,9 @@ export function solveStokes(input: StokesInput): StokesSolution {
     relTol: input.solver?.relTol, maxIter: input.solver?.maxIter, amg: input.solver?.amg,
   });
   const t3 = performance.now();
-  const full = cons.values.slice();
-  for (let r = 0; r < mu; r++) full[sys.free[r]] = res.u[r];
-  for (let r = mu; r < sys.free.length; r++) full[sys.free[r]] = res.p[r - mu];
-  const off = space.fields[1].offset;
+  const { velocity, pressure } = expandTaylorHood(space, cons, sys, mu, res.u, res.p);
   return {
-    space, velocity: full.slice(0, off), pressure: full.slice(off), solver: res.stats,
+    space, velocity, pressure, solver: res.stats,
     seconds: { space: (t1 - t0) / 1e3, assemble: (t2 - t1) / 1e3, solve: (t3 - t2) / 1e3 },
   };
 }
