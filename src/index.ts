@@ -7,7 +7,7 @@ export type { LevelContext } from './study/context.ts';
 export { interval, rectangle, lShape, box, customDomain } from './study/domain.ts';
 export { external } from './external/types.ts';
 // The PDE as data: presets written in the equation language, and the types of a pde of your own.
-export { diffusionConvectionReaction, linearElasticity, nearlyIncompressibleElasticity, nonlinearDiffusion, stokes } from './equation/presets.ts';
+export { diffusionConvectionReaction, heat, linearElasticity, nearlyIncompressibleElasticity, nonlinearDiffusion, stokes } from './equation/presets.ts';
 export type { PdeDeclaration, EquationDeclaration, FieldKind, CoefficientValue } from './equation/types.ts';
 export type { StudyResult, LevelResult } from './study/result.ts';
 export type { DiscreteField, ExactSolution } from './norms/types.ts';

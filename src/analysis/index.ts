@@ -36,3 +36,13 @@ export {
   type ConvergenceKind,
 } from './gci.ts';
 export { analyseQuantity, type QuantityReport, type QuantityOptions } from './quantities.ts';
+export type { TimeAxis, TwoAxisAnalysis, TwoAxisFit } from './types.ts';
+export { fitTwoAxis, judgeTwoAxis, MIN_TWO_AXIS_POINTS, NEGLIGIBLE_SHARE, type TwoAxisOptions } from './two-axis.ts';
+export {
+  detectAxisFloor,
+  axisFloorReason,
+  MIN_FLOOR_LEVELS,
+  FLOOR_SHARE,
+  DIFFERENCE_TOLERANCE_FACTOR,
+  type AxisFloor,
+} from './time-floors.ts';

@@ -71,3 +71,40 @@ export interface SeriesAnalysis {
   reasons: string[];
   warnings: string[];
 }
+
+/** How a study with time refines: 'h' (mesh refined at a fixed fine Δt: the spatial order), 'dt' (time step refined
+ *  on a fixed fine mesh: the temporal order), 'coupled' (Δt = c·h^s on every rung: one fit in h), 'grid' (a two-axis
+ *  design of (h, Δt) pairs fitted jointly as e = C_h h^p + C_t Δt^q). */
+export type TimeAxis = 'h' | 'dt' | 'coupled' | 'grid';
+
+/** The joint fit of e = C_h h^p + C_t Δt^q over a two-axis design: nonlinear least squares on ln e, so that every
+ *  point weighs by its relative error (Kamm, Rider & Brock 2003, from memory). */
+export interface TwoAxisFit {
+  /** Spatial and temporal orders and their constants. */
+  p: number;
+  q: number;
+  Ch: number;
+  Ct: number;
+  /** Two-sided 95% confidence intervals of p and q. */
+  pInterval: [number, number];
+  qInterval: [number, number];
+  /** Residual standard deviation of ln e and its degrees of freedom (points − 4). */
+  sigma: number;
+  dof: number;
+  /** Points (levels) fitted. */
+  points: number;
+  converged: boolean;
+  /** Smallest and largest ratio C_t Δt^q / (C_h h^p) over the fitted points: how much each term weighs in the design
+   *  (a term negligible at every point leaves its order unidentifiable). Optional: fits built by hand may omit it. */
+  termRatio?: [number, number];
+}
+
+/** The verdict of one norm over a two-axis design: one per order, with reasons in words. */
+export interface TwoAxisAnalysis {
+  name: string;
+  fit: TwoAxisFit | null;
+  expected: { space: number | null; time: number | null };
+  tolerance: number;
+  verdict: { space: Verdict; time: Verdict };
+  reasons: string[];
+}

@@ -1,3 +1,4 @@
+import { ladderRungs, quickLevels } from '../study/time-ladder.ts';
 import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
@@ -201,7 +202,7 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     const clash = clashes.get(loaded);
     if (clash) { problem({ study: decl.name, file: loaded.file, message: clash }); continue; }
     try {
-      const levels = opts.quick ? Math.min(decl.ladder.quick ?? 3, decl.ladder.n.length) : opts.levels;
+      const levels = opts.quick ? quickLevels(decl) : opts.levels;
       const p = prepareStudy(loaded, { levels, out: opts.out });
       await preflightStudy(p);
       prepared.push(p);
@@ -342,7 +343,7 @@ function levelDofs(prepared: PreparedStudy[]): number[] {
   return prepared.flatMap((p) => {
     const d = p.loaded.declaration;
     const side = Math.max(1, ...d.domain.bbox.map(([a, b]) => b - a));
-    return d.ladder.n.slice(0, p.total).map((n) => (n * (d.discretization.degree ?? 1) * side) ** d.domain.dim);
+    return ladderRungs(d).slice(0, p.total).map(({ n }) => (n * (d.discretization.degree ?? 1) * side) ** d.domain.dim);
   });
 }
 
@@ -390,7 +391,9 @@ async function runParallel(prepared: PreparedStudy[], jobs: number, ctx: RunCont
   const pool = makeLevelPool(jobs);
   const tasks = prepared.flatMap((p) => Array.from({ length: p.total }, (_, index) => {
     const d = p.loaded.declaration;
-    const cost = d.ladder.n[index] ** d.domain.dim * (d.discretization.degree ?? 1) ** 2;
+    const rung = ladderRungs(d)[index]!;
+    // A level with time costs its steps' worth of solves.
+    const cost = rung.n ** d.domain.dim * (d.discretization.degree ?? 1) ** 2 * (rung.steps ?? 1);
     return { p, index, cost };
   }).filter((t) => !ctx.reusable.get(p)!.has(t.index)));
   tasks.sort((a, b) => b.cost - a.cost);

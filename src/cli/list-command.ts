@@ -1,6 +1,7 @@
 import { findStudyFiles, loadStudy } from '../study/load.ts';
 import { defaultNorms, expectedOrders } from '../study/expected.ts';
-import type { NormName } from '../study/declaration.ts';
+import type { NormName, StudyDeclaration } from '../study/declaration.ts';
+import { ladderRungs, timeAxis } from '../study/time-ladder.ts';
 import { RungsInputError } from '../errors.ts';
 import { problemLine } from './output.ts';
 
@@ -22,7 +23,7 @@ export async function listCommand(paths: string[]): Promise<number> {
       process.stdout.write(
         `${d.name}  (${shown})\n` +
         `  ${d.domain.label}; ${disc}\n` +
-        `  ladder n = ${d.ladder.n.join(', ')}${d.ladder.perturb ? ` perturbed by ${d.ladder.perturb.fraction}·h` : ''}\n` +
+        `  ladder n = ${d.ladder.n.join(', ')}${d.ladder.perturb ? ` perturbed by ${d.ladder.perturb.fraction}·h` : ''}${timeText(d)}\n` +
         `  expected orders: ${orders}${d.expect ? `; demonstrates: ${d.expect.flaw} (expects ${d.expect.verdict})` : ''}\n`,
       );
     } catch (err) {
@@ -32,4 +33,13 @@ export async function listCommand(paths: string[]): Promise<number> {
     }
   }
   return status;
+}
+
+/** "; T = 1, steps 16, 32, 64 (bdf2): refines Δt" for a study with time; '' for a steady one. */
+function timeText(d: StudyDeclaration): string {
+  if (!d.time) return '';
+  const steps = ladderRungs(d).map((r) => r.steps);
+  const distinct = [...new Set(steps)].join(', ');
+  const axis = { dt: 'refines Δt', h: 'refines h', coupled: `coupled Δt = ${d.ladder.coupled?.c}·h^${d.ladder.coupled?.exponent}`, grid: 'every (h, Δt) pair, fitted jointly' }[timeAxis(d)!];
+  return `; T = ${d.time.final}, steps ${distinct} (${d.time.stepper ?? `the code's own stepper, order ${d.time.order}`}): ${axis}`;
 }

@@ -47,7 +47,7 @@ program
   .option('--baseline <file>', 'baseline file (plain JSON) to compare each level\'s errors with')
   .option('--update-baseline', 'write the baseline file from this run instead of comparing')
   .option('--junit <file>', 'write JUnit XML: one test case per study and norm')
-  .option('--quick', 'run each study\'s short ladder (ladder.quick, default its 3 coarsest levels)')
+  .option('--quick', 'run each study\'s short ladder (ladder.quick, default its 3 coarsest levels; a two-axis design: every step count on its coarsest meshes)')
   .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
   .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())

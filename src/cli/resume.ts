@@ -3,6 +3,7 @@
 // study's declaration (without the ladder's list of n, which the level's own n replaces, so that changing one level's
 // n recomputes that level only), rungs's version, the level's index and n, and the norms measured. Levels are
 // independent of each other (DEVELOPERS.md: the solver target uses the level's own interpolation error).
+import { ladderRungs } from '../study/time-ladder.ts';
 import { createHash } from 'node:crypto';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -25,9 +26,9 @@ export interface LevelRecordEntry {
 
 /** The key of one level: what it computes from, and nothing it does not. */
 export function levelKey(decl: StudyDeclaration, index: number, norms: readonly string[]): string {
-  const { n: _n, quick: _quick, ...ladder } = decl.ladder;
+  const { n: _n, quick: _quick, steps: _steps, dt: _dt, ...ladder } = decl.ladder;
   const rest = declarationHash({ ...decl, ladder: ladder as StudyDeclaration['ladder'] });
-  const text = canonicalText({ declaration: rest, rungs: packageVersions().rungs, index, n: decl.ladder.n[index], norms: [...norms] });
+  const text = canonicalText({ declaration: rest, rungs: packageVersions().rungs, index, n: ladderRungs(decl)[index]!.n, steps: ladderRungs(decl)[index]!.steps, norms: [...norms] });
   return `sha256:${createHash('sha256').update(text).digest('hex')}`;
 }
 

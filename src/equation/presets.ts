@@ -78,3 +78,18 @@ export function nonlinearDiffusion(args: { conductivity: string; reaction?: stri
     preset: { name: 'nonlinear-diffusion', args },
   };
 }
+
+/** The heat equation ∂u/∂t − ∇·(k∇u) = f of one scalar field (a kiln rod or a tile heating up), with the
+ *  conductivity k a formula in x, y, z (or a number); the natural data k∇u·n. rungs's own elements advance it in
+ *  time with the study's stepper (time: { final, stepper }); an external code with its own. */
+export function heat(args: { k?: CoefficientValue } = {}): PdeDeclaration {
+  const coefficients: Record<string, CoefficientValue> = {};
+  if (args.k !== undefined) coefficients.k = args.k;
+  return {
+    label: 'heat equation',
+    fields: { u: 'scalar' },
+    coefficients,
+    equations: { balance: { flux: args.k !== undefined ? 'k*grad(u)' : 'grad(u)', rest: 'dt(u)' } },
+    preset: { name: 'heat', args },
+  };
+}

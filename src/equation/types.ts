@@ -32,4 +32,4 @@ export interface PdeDeclaration {
 }
 
 export type PresetName = 'diffusion-convection-reaction' | 'linear-elasticity' | 'stokes' | 'nonlinear-diffusion'
-  | 'nearly-incompressible-elasticity';
+  | 'nearly-incompressible-elasticity' | 'heat';

@@ -27,6 +27,8 @@ export interface ExternalLevelInput {
   quantities?: readonly string[];
   /** The study's generated manufactured data ({data}, RUNGS_DATA), when written. */
   data?: string;
+  /** Studies with time: the final time and the level's steps ({T}, {steps}, {dt}). */
+  time?: { T: number; steps: number; dt: number };
   /** The fields of a system to read from the solver's VTK file (the study builds them from its pde and `fields`). */
   fields?: readonly VtkFieldRequest[];
   signal?: AbortSignal;
@@ -69,7 +71,10 @@ export async function runExternalLevel(spec: ExternalDiscretization, level: Exte
     if (err instanceof RungsInputError) return new RungsInputError(err.message.split(work).join(level.outDir), err.where?.split(work).join(level.outDir));
     return err;
   };
-  const values = { study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: work, data: level.data };
+  const values = {
+    study: level.study, level: level.index + 1, n: level.n, h: level.h, degree: spec.degree, out: work, data: level.data,
+    ...(level.time ? { steps: level.time.steps, dt: level.time.dt, T: level.time.T } : {}),
+  };
   try {
     const run = await runLevelCommand({ command: spec.command, timeoutSeconds: spec.timeoutSeconds, cwd: spec.cwd, env: spec.env }, values, {
       level: ref, signal: level.signal,

@@ -15,9 +15,13 @@ export interface LevelValues {
   out: string;
   /** Folder holding the study's manufactured data as code (rungs_data.h, .f90, .py, …) and problem.json. */
   data?: string;
+  /** Studies with time: the number of equal time steps of the level, their size Δt = T/steps and the final time. */
+  steps?: number;
+  dt?: number;
+  T?: number;
 }
 
-export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study', 'data'] as const;
+export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study', 'data', 'steps', 'dt', 'T'] as const;
 export type PlaceholderName = (typeof PLACEHOLDERS)[number];
 
 /** Numbers as JavaScript prints them (shortest form that reads back to the same double). */
@@ -34,10 +38,17 @@ function valueOf(values: LevelValues, name: PlaceholderName, where: string): str
     }
     return values.data;
   }
+  if (name === 'steps' || name === 'dt' || name === 'T') {
+    const v = values[name];
+    if (v === undefined) {
+      throw new RungsInputError(`${where}: the command uses {${name}}, but the study has no time; give time: { final, order } and a time ladder (ladder.steps), or leave {${name}} out`, where);
+    }
+    return String(v);
+  }
   return String(values[name]);
 }
 
-/** Replaces {n} {h} {level} {degree} {out} {study} {data} inside one argv word; {{ and }} stand for literal braces. */
+/** Replaces {n} {h} {level} {degree} {out} {study} {data} {steps} {dt} {T} inside one argv word; {{ and }} stand for literal braces. */
 export function substituteWord(word: string, values: LevelValues, where = 'command'): string {
   let out = '';
   let i = 0;
@@ -81,5 +92,8 @@ export function levelEnvironment(values: LevelValues): Record<string, string> {
   };
   if (values.degree !== undefined) env.RUNGS_DEGREE = String(values.degree);
   if (values.data !== undefined) env.RUNGS_DATA = values.data;
+  if (values.steps !== undefined) env.RUNGS_STEPS = String(values.steps);
+  if (values.dt !== undefined) env.RUNGS_DT = String(values.dt);
+  if (values.T !== undefined) env.RUNGS_T = String(values.T);
   return env;
 }

@@ -2,6 +2,7 @@ import { stringify } from 'csv-stringify/sync';
 import type { StudyResult } from '../study/result.ts';
 import { levelNumber } from './numbers.ts';
 import { analysisOf, interpolatedNorms, normNames, rateAt } from './series.ts';
+import { hasTime } from './time.ts';
 import { normOutcomes } from './verdict.ts';
 
 type Cell = string | number | boolean | null | undefined;
@@ -39,9 +40,10 @@ const BYTES_PER_MIB = 1024 * 1024;
 /**
  * One row per level of one study. Columns, in order:
  * - `level` 1-based level number; `n` ladder parameter (cells per unit side, empty when the ladder is given by h);
- *   `h` mesh size; `dofs` degrees of freedom; `cells` mesh cells
+ *   `h` mesh size; for a study with time only: `steps` the number of equal time steps over [0, T] and `dt` their
+ *   size Δt = T/steps; `dofs` degrees of freedom; `cells` mesh cells
  * - per norm, in the study's order: `<norm>_error` error in that norm, `<norm>_rate` observed order between the
- *   previous level and this one (empty on the first level)
+ *   previous level and this one (empty on the first level; against Δt when the ladder refines Δt)
  * - per norm that has interpolation errors on some level: `<norm>_interp_error` error of the nodal interpolant
  * - `quasi_optimality` ||u-u_h||_E / ||u-I_h u||_E (empty when not computed)
  * - `solver_method`, `solver_preconditioner`, `solver_iterations`, `solver_residual` (final relative residual),
@@ -59,10 +61,13 @@ export function levelsCsv(result: StudyResult): string {
   const norms = normNames(result);
   const interpolated = interpolatedNorms(result);
   const phases = ['mesh', 'assemble', 'solve', 'errors', 'total'];
+  // Steady studies keep exactly the columns they always had.
+  const time = hasTime(result);
   const header = [
     'level',
     'n',
     'h',
+    ...(time ? ['steps', 'dt'] : []),
     'dofs',
     'cells',
     ...norms.flatMap((n) => [`${n}_error`, `${n}_rate`]),
@@ -82,6 +87,7 @@ export function levelsCsv(result: StudyResult): string {
     levelNumber(level.index),
     level.n,
     level.h,
+    ...(time ? [level.steps, level.dt] : []),
     level.dofs,
     level.cells,
     ...norms.flatMap((n) => [level.errors[n], rateAt(result, n, i)]),
@@ -118,19 +124,56 @@ export const SUMMARY_COLUMNS = [
   'reasons',
 ] as const;
 
+/** Columns summaryCsv adds after SUMMARY_COLUMNS when some study of the run has time. */
+export const SUMMARY_TIME_COLUMNS = [
+  'axis',
+  'space_expected',
+  'space_order',
+  'space_ci_low',
+  'space_ci_high',
+  'space_verdict',
+  'time_expected',
+  'time_order',
+  'time_ci_low',
+  'time_ci_high',
+  'time_verdict',
+] as const;
+
 /**
  * One row per study and analysed norm. Columns: `study`; `norm`; `expected` expected order (empty when none);
  * `fitted` fitted order; `ci_low`, `ci_high` its 95% confidence interval; `stderr` its standard error (empty with two
  * points); `fit_levels` 1-based levels used in the fit, space-separated; `tolerance` allowed |fitted - expected|;
  * `floor_from` first 1-based level on an error floor (empty when none); `verdict`; `expected_verdict` what the study
  * declared for this norm; `as_expected` true/false; `reasons` the analysis' reasons joined with '; '.
+ * When some study of the run has time, SUMMARY_TIME_COLUMNS follow (empty for a steady study): `axis` what the
+ * ladder refines (h, dt, coupled, grid; the fitted order above is in that variable, in h for a coupled path); for a
+ * two-axis design the joint fit e = C_h h^p + C_t Δt^q: `space_expected`, `space_order` p, `space_ci_low`,
+ * `space_ci_high` its 95% interval, `space_verdict`, and the same for q as `time_*`; its reasons are in `reasons`.
  */
 export function summaryCsv(results: readonly StudyResult[]): string {
   const rows: Cell[][] = [];
+  const withTime = results.some(hasTime);
   for (const result of results) {
     for (const o of normOutcomes(result)) {
       const a = analysisOf(result, o.norm)!;
       const fit = a.fit;
+      const joint = o.twoAxis;
+      const reasons = joint ? [...joint.reasons, ...a.reasons.filter((r) => !joint.reasons.includes(r))] : a.reasons;
+      const timeCells: Cell[] = !withTime
+        ? []
+        : [
+            result.time?.axis,
+            joint?.expected.space,
+            joint?.fit?.p,
+            joint?.fit?.pInterval[0],
+            joint?.fit?.pInterval[1],
+            joint?.verdict.space,
+            joint?.expected.time,
+            joint?.fit?.q,
+            joint?.fit?.qInterval[0],
+            joint?.fit?.qInterval[1],
+            joint?.verdict.time,
+          ];
       rows.push([
         result.study,
         o.norm,
@@ -145,11 +188,12 @@ export function summaryCsv(results: readonly StudyResult[]): string {
         a.verdict,
         o.expectedVerdict,
         o.asExpected,
-        a.reasons.join('; '),
+        reasons.join('; '),
+        ...timeCells,
       ]);
     }
   }
-  return toCsv([...SUMMARY_COLUMNS], rows);
+  return toCsv([...SUMMARY_COLUMNS, ...(withTime ? SUMMARY_TIME_COLUMNS : [])], rows);
 }
 
 /** Columns of quantitiesCsv, in order. */

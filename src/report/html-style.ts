@@ -72,3 +72,20 @@ a { color: #0550ae; }
   pre.inputs { white-space: pre-wrap; }
 }
 `;
+
+/** Added to the stylesheet only when the report holds a study with time, so that steady reports stay as they were:
+ *  the ladder's sentence, the wide two-panel plot of a two-axis design (its verdict cards in a row below it), and a
+ *  joint-fit table, each order in one cell of three lines (fit, expected, verdict). */
+export const TIME_CSS = `
+.time-design { font-size: 14px; margin: 0 0 12px; }
+.plot-row.plot-grid { grid-template-columns: minmax(0, 1fr); }
+.plot-row.plot-grid .glance { flex-direction: row; flex-wrap: wrap; margin-top: 0; }
+.plot-row.plot-grid figure svg { width: 100%; }
+table.joint-fits { width: 100%; }
+table.joint-fits td.order { white-space: nowrap; font-variant-numeric: tabular-nums; }
+table.joint-fits .order-expected { color: var(--muted); font-size: 12.5px; }
+table.joint-fits li.fit-constants { color: var(--muted); list-style: none; margin-left: -18px; font-size: 12.5px; }
+@media print {
+  .plot-row.plot-grid { grid-template-columns: minmax(0, 1fr); }
+}
+`;

@@ -1,13 +1,15 @@
 import type { StudyResult } from '../study/result.ts';
 import { compactJson } from './compact-json.ts';
 import type { InputProblem } from './input-problem.ts';
-import { REPORT_CSS } from './html-style.ts';
+import { REPORT_CSS, TIME_CSS } from './html-style.ts';
 import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, stderrText } from './numbers.ts';
 import { fileStem, normNames, rateAt } from './series.ts';
 import { svgPlot, type PlotOptions } from './svg.ts';
 import { normOutcomes, studyTally, verdictLabel, type NormOutcome } from './verdict.ts';
 import { escapeXml as esc } from './xml.ts';
 import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
+import type { TwoAxisAnalysis, Verdict } from '../analysis/types.ts';
+import { fitAxisSuffix, hasTime, jointOrderText, showsRates, stepsText, timeLine } from './time.ts';
 
 export type { InputProblem };
 
@@ -35,11 +37,22 @@ function verdictSpan(o: NormOutcome): string {
   return `<span class="verdict verdict-${o.analysis.verdict}">${esc(verdictLabel(o.analysis.verdict))}</span>`;
 }
 
+/** One verdict of a joint fit, with the axis it belongs to when `axis` is given: "h ✓ on-order". */
+function jointVerdictSpan(v: Verdict, axis = ''): string {
+  return `<span class="verdict verdict-${v}">${esc(`${axis ? `${axis} ` : ''}${verdictLabel(v)}`)}</span>`;
+}
+
+/** Both verdicts of a two-axis norm: "h ✓ on-order, Δt ✗ below-order". */
+function jointVerdicts(t: TwoAxisAnalysis): string {
+  return `${jointVerdictSpan(t.verdict.space, 'h')}, ${jointVerdictSpan(t.verdict.time, 'Δt')}`;
+}
+
 function outcomeBadge(ok: boolean, what = ok ? 'as expected' : 'not as expected'): string {
   return `<span class="outcome ${ok ? 'ok' : 'departure'}">${ok ? '✓' : '✗'} ${esc(what)}</span>`;
 }
 
 function fittedText(o: NormOutcome): string {
+  if (o.twoAxis) return `p ${jointOrderText(o.twoAxis.fit, 'p')}; q ${jointOrderText(o.twoAxis.fit, 'q')}`;
   const fit = o.analysis.fit;
   return fit ? `${fixed(fit.order)} ${intervalText(fit.ciLow, fit.ciHigh)}` : 'no fit';
 }
@@ -52,10 +65,13 @@ function overview(results: readonly StudyResult[]): string {
     }
     return outcomes.map((o, k) => {
       const studyCell = k === 0 ? `<td class="text study" rowspan="${outcomes.length}"><a href="#${anchor(r.study)}">${esc(r.study)}</a></td>` : '';
+      const expected = o.twoAxis
+        ? `${orderText(o.twoAxis.expected.space)} in h, ${orderText(o.twoAxis.expected.time)} in Δt`
+        : `${orderText(o.analysis.expected)}${fitAxisSuffix(r)}`;
       return (
         `<tr>${studyCell}<td class="text">${esc(o.norm)}</td>` +
-        `<td class="num">${esc(orderText(o.analysis.expected))}</td><td class="num">${esc(fittedText(o))}</td>` +
-        `<td class="text">${esc(o.expectedVerdict)}</td><td class="text">${verdictSpan(o)}</td>` +
+        `<td class="num">${esc(expected)}</td><td class="num">${esc(fittedText(o))}</td>` +
+        `<td class="text">${esc(o.expectedVerdict)}</td><td class="text">${o.twoAxis ? jointVerdicts(o.twoAxis) : verdictSpan(o)}</td>` +
         `<td class="text">${outcomeBadge(o.asExpected, o.asExpected ? 'as expected' : 'departure')}</td></tr>`
       );
     });
@@ -71,29 +87,81 @@ function overview(results: readonly StudyResult[]): string {
 
 function levelTable(r: StudyResult): string {
   const norms = normNames(r);
-  const head = ['level', 'h', 'dofs', 'cells', ...norms.flatMap((n) => [`${n} error`, `${n} rate`]), 'solver its', 'time (s)'];
+  const time = hasTime(r);
+  const rates = showsRates(r);
+  const head = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', 'cells', ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`])), 'solver its', 'time (s)'];
   const rows = r.levels.map((l, i) => {
     const cells = [
       String(levelNumber(l.index)),
       sci(l.h),
+      ...(time ? [stepsText(l), sci(l.dt)] : []),
       String(l.dofs),
       String(l.cells),
-      ...norms.flatMap((n) => [sci(l.errors[n]), fixed(rateAt(r, n, i))]),
+      ...norms.flatMap((n) => (rates ? [sci(l.errors[n]), fixed(rateAt(r, n, i))] : [sci(l.errors[n])])),
       l.solver ? String(l.solver.iterations) : '—',
       l.seconds.total === undefined ? '—' : fixed(l.seconds.total, 3),
     ];
     return `<tr>${cells.map((c) => `<td class="num">${esc(c)}</td>`).join('')}</tr>`;
   });
+  const caption = !time
+    ? 'Errors per level; the rate is the observed order between a level and the one before it.'
+    : r.time?.axis === 'dt'
+      ? 'Errors per level; steps over [0, T] and Δt = T/steps; the rate is the observed order in Δt between a level and the one before it.'
+      : !rates
+        ? 'Errors per (h, Δt) pair of the design; steps over [0, T] and Δt = T/steps. The joint fit below gives the orders.'
+        : 'Errors per level; steps over [0, T] and Δt = T/steps; the rate is the observed order between a level and the one before it.';
   return [
     '<table class="levels">',
-    '<caption>Errors per level; the rate is the observed order between a level and the one before it.</caption>',
+    `<caption>${esc(caption)}</caption>`,
     `<thead><tr>${head.map((h) => `<th>${esc(h)}</th>`).join('')}</tr></thead>`,
     `<tbody>${rows.join('\n')}</tbody>`,
     '</table>',
   ].join('\n');
 }
 
+/**
+ * A two-axis design: per norm the joint fit e = C_h h^p + C_t Δt^q, each order with its 95% interval, the expected
+ * value with its tolerance and its verdict, the constants and the residual, and the reasons (with the analysis'
+ * warnings and, when the norm departs, why).
+ */
+function jointFitTable(r: StudyResult): string {
+  const rows = normOutcomes(r).map((o) => {
+    const t = o.twoAxis;
+    const a = o.analysis;
+    if (!t) return `<tr><td class="text">${esc(o.norm)}</td><td class="text" colspan="2">no joint fit</td><td class="text">${verdictSpan(o)}</td></tr>`;
+    const fit = t.fit;
+    const constants = fit ? `C_h = ${sci(fit.Ch)}, C_t = ${sci(fit.Ct)}; residual σ = ${sci(fit.sigma)} over ${fit.points} points (${fit.dof} dof)` : '';
+    const notes = [
+      ...t.reasons.map((x) => `<li>${esc(x)}</li>`),
+      ...a.reasons.filter((x) => !t.reasons.includes(x)).map((x) => `<li>${esc(x)}</li>`),
+      ...a.warnings.map((x) => `<li class="warning">⚠ ${esc(x)}</li>`),
+      ...(fit && !fit.converged ? ['<li class="warning">⚠ the joint fit did not converge</li>'] : []),
+      ...(o.problem ? [`<li class="warning">✗ ${esc(o.problem)}</li>`] : []),
+      ...(constants ? [`<li class="fit-constants">${esc(constants)}</li>`] : []),
+    ];
+    // Each order in one cell, three lines: the fitted value with its interval, the expected value, the verdict.
+    const order = (which: 'p' | 'q', expected: number | null, verdict: Verdict) =>
+      `<td class="order" data-order="${which}"><div class="order-fit">${esc(`${which} = ${jointOrderText(fit, which)}`)}</div>` +
+      `<div class="order-expected">${esc(`expected ${orderText(expected)} ± ${t.tolerance}`)}</div>` +
+      `<div>${jointVerdictSpan(verdict)}</div></td>`;
+    return (
+      `<tr data-norm="${esc(o.norm)}"><td class="text">${esc(o.norm)}</td>` +
+      order('p', t.expected.space, t.verdict.space) +
+      order('q', t.expected.time, t.verdict.time) +
+      `<td class="text"><ul class="reasons">${notes.join('')}</ul></td></tr>`
+    );
+  });
+  return [
+    '<table class="fits joint-fits">',
+    '<caption>Joint fit e = C_h·h^p + C_t·Δt^q over every (h, Δt) pair: the spatial order p and the temporal order q with their 95% confidence intervals, the expected orders and a verdict for each; the constants and the residual of ln e close the reasons.</caption>',
+    '<thead><tr><th class="text">norm</th><th class="text">spatial order (in h)</th><th class="text">temporal order (in Δt)</th><th class="text">reasons</th></tr></thead>',
+    `<tbody>${rows.join('\n')}</tbody>`,
+    '</table>',
+  ].join('\n');
+}
+
 function fitTable(r: StudyResult): string {
+  if (r.time?.axis === 'grid') return jointFitTable(r);
   const rows = normOutcomes(r).map((o) => {
     const a = o.analysis;
     const fit = a.fit;
@@ -114,7 +182,7 @@ function fitTable(r: StudyResult): string {
   });
   return [
     '<table class="fits">',
-    '<thead><tr><th class="text">norm</th><th>fitted ± std. error</th><th>95% CI</th><th>fit levels</th><th>expected ± tol.</th><th class="text">verdict</th><th class="text">reasons</th></tr></thead>',
+    `<thead><tr><th class="text">norm</th><th>fitted${esc(fitAxisSuffix(r))} ± std. error</th><th>95% CI</th><th>fit levels</th><th>expected ± tol.</th><th class="text">verdict</th><th class="text">reasons</th></tr></thead>`,
     `<tbody>${rows.join('\n')}</tbody>`,
     '</table>',
   ].join('\n');
@@ -145,12 +213,24 @@ function quantitySection(r: StudyResult): string {
 function glance(r: StudyResult): string {
   const cards = normOutcomes(r).map((o) => {
     const a = o.analysis;
+    const t = o.twoAxis;
+    if (t) {
+      return (
+        `<div class="card ${o.asExpected ? 'ok' : 'departure'}" data-norm="${esc(o.norm)}">` +
+        `<div class="card-norm">${esc(o.norm)}</div>` +
+        `<div class="card-verdict">${verdictSpan(o)}</div>` +
+        `<div class="card-line">in h: p <strong>${esc(t.fit ? fixed(t.fit.p) : '—')}</strong>, expected ${esc(orderText(t.expected.space))}, ${jointVerdictSpan(t.verdict.space)}</div>` +
+        `<div class="card-line">in Δt: q <strong>${esc(t.fit ? fixed(t.fit.q) : '—')}</strong>, expected ${esc(orderText(t.expected.time))}, ${jointVerdictSpan(t.verdict.time)}</div>` +
+        `<div class="card-line">${o.asExpected ? '✓ as expected' : `✗ expected ${esc(o.expectedVerdict)}`}</div>` +
+        '</div>'
+      );
+    }
     return (
       `<div class="card ${o.asExpected ? 'ok' : 'departure'}" data-norm="${esc(o.norm)}">` +
       `<div class="card-norm">${esc(o.norm)}</div>` +
       `<div class="card-verdict">${verdictSpan(o)}</div>` +
       `<div class="card-line">fitted <strong>${esc(a.fit ? fixed(a.fit.order) : '—')}</strong>${a.fit ? ` ${esc(intervalText(a.fit.ciLow, a.fit.ciHigh))}` : ''}</div>` +
-      `<div class="card-line">expected ${esc(orderText(a.expected))} ± ${esc(String(a.tolerance))}</div>` +
+      `<div class="card-line">expected ${esc(orderText(a.expected))} ± ${esc(String(a.tolerance))}${esc(fitAxisSuffix(r))}</div>` +
       `<div class="card-line">${o.asExpected ? '✓ as expected' : `✗ expected ${esc(o.expectedVerdict)}`}</div>` +
       '</div>'
     );
@@ -179,19 +259,27 @@ function studySection(r: StudyResult, plot: PlotOptions | undefined): string {
   const warnings = r.warnings.length
     ? `<div class="warnings"><strong>⚠ Warnings</strong><ul>${r.warnings.map((w) => `<li>${esc(w)}</li>`).join('')}</ul></div>`
     : '';
+  const ladder = timeLine(r);
+  const grid = r.time?.axis === 'grid';
+  const caption = grid
+    ? 'Per norm, the error against h with a line per Δt (left) and against Δt with a line per mesh (right), on log-log axes; dashed: the joint fit e = C_h·h^p + C_t·Δt^q along each line.'
+    : r.time?.axis === 'dt'
+      ? 'Log-log plot of the error per norm against the time step Δt; each dashed triangle has the expected slope. Hollow markers sit on an error floor.'
+      : 'Log-log plot of the error per norm; each dashed triangle has the expected slope. Hollow markers sit on an error floor.';
   const inputs = compactJson(JSON.parse(JSON.stringify(r.inputs ?? {}, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v))), { width: 72 });
   return [
     `<section class="study" id="${anchor(r.study)}" data-study="${esc(r.study)}">`,
     `<div class="study-head"><h2>${esc(r.study)}</h2>${outcomeBadge(r.asExpected)}</div>`,
     r.description ? `<p>${esc(r.description)}</p>` : '',
     `<p class="facts">${facts.join(' · ')}</p>`,
-    '<div class="plot-row">',
-    `<figure>${svgPlot(r, plot)}<figcaption>Log-log plot of the error per norm; each dashed triangle has the expected slope. Hollow markers sit on an error floor.</figcaption></figure>`,
+    ...(ladder === null ? [] : [`<p class="time-design">${esc(ladder)}</p>`]),
+    grid ? '<div class="plot-row plot-grid">' : '<div class="plot-row">',
+    `<figure>${svgPlot(r, plot)}<figcaption>${esc(caption)}</figcaption></figure>`,
     glance(r),
     '</div>',
     '<h3>Levels</h3>',
     levelTable(r),
-    '<h3>Fitted orders</h3>',
+    grid ? '<h3>Joint fit in h and Δt</h3>' : '<h3>Fitted orders</h3>',
     fitTable(r),
     quantitySection(r),
     warnings,
@@ -228,7 +316,7 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
     '<meta charset="utf-8">',
     '<meta name="viewport" content="width=device-width, initial-scale=1">',
     `<title>${esc(title)}</title>`,
-    `<style>${REPORT_CSS}</style>`,
+    `<style>${REPORT_CSS}${results.some(hasTime) ? TIME_CSS : ''}</style>`,
     '</head>',
     '<body>',
     '<main>',
@@ -243,7 +331,7 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
     '<h2 id="overview">Overview</h2>',
     overview(results),
     ...results.map((r) => studySection(r, meta.plot)),
-    `<footer>Made by rungs. Errors are measured against manufactured exact solutions; rates and fitted orders are least-squares slopes of log error against log h.</footer>`,
+    `<footer>Made by rungs. Errors are measured against manufactured exact solutions; rates and fitted orders are least-squares slopes of log error against log h${results.some(hasTime) ? ' (against log Δt for ladders that refine the time step; two-axis designs are fitted jointly as e = C_h·h^p + C_t·Δt^q by nonlinear least squares on log e)' : ''}.</footer>`,
     '</main>',
     '</body>',
     '</html>',

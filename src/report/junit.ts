@@ -1,7 +1,8 @@
 import type { StudyResult } from '../study/result.ts';
 import type { InputProblem } from './input-problem.ts';
 import { fixed, intervalText, orderText } from './numbers.ts';
-import { normOutcomes } from './verdict.ts';
+import { normOutcomes, type NormOutcome } from './verdict.ts';
+import { fitAxisSuffix, jointFitText } from './time.ts';
 import { el, escapeAttribute, escapeXml } from './xml.ts';
 
 export interface JunitOptions {
@@ -38,12 +39,26 @@ function junitTimestamp(iso: string | undefined): string | undefined {
 }
 
 /**
+ * A norm of a two-axis design: the summary gives both orders of the joint fit and their verdicts; the case fails when
+ * either order's verdict does (normOutcomes), with that verdict as type and a message that quotes the reasons.
+ */
+function jointCase(o: NormOutcome): { summary: string; reasons: string[]; failure: { message: string; type: string } | null } {
+  const t = o.twoAxis!;
+  const summary = `${o.norm}: joint fit ${jointFitText(t, false)}`;
+  const reasons = [...t.reasons, ...o.analysis.reasons.filter((x) => !t.reasons.includes(x))];
+  const quoted = reasons.length ? `: ${reasons.join('; ')}` : '';
+  const failure = o.asExpected ? null : { message: `${o.norm}: ${o.problem}${quoted}`, type: o.departing ?? o.analysis.verdict };
+  return { summary, reasons, failure };
+}
+
+/**
  * JUnit XML: one <testsuite>, one <testcase classname="rungs.<study>" name="<norm>"> per study and norm.
  * A norm whose verdict is not the one the study expects gets a <failure type="<verdict>"> with the reasons, and so
  * does one the baseline comparison failed (type "regression", …); a baseline that cannot vouch for the norm makes it
  * an <error type="ladder-mismatch" …>. A study that failed on bad input gets a test case named "input" with an
- * <error>, and each problem of the whole run a test case of its own with an <error>. So the counts agree with the
- * exit status of `rungs check`: errors > 0 is status 2, else failures > 0 is status 1, else 0. A study's wall time
+ * <error>, and each problem of the whole run a test case of its own with an <error>. A norm of a two-axis (h, Δt)
+ * design fails when either order's verdict fails; its message names the order and quotes the joint fit's reasons.
+ * So the counts agree with the exit status of `rungs check`: errors > 0 is status 2, else failures > 0 is status 1, else 0. A study's wall time
  * is shared evenly among its norms (the norms are measured together, not one by one).
  */
 export function junitXml(results: readonly StudyResult[], options: JunitOptions): string {
@@ -86,12 +101,15 @@ export function junitXml(results: readonly StudyResult[], options: JunitOptions)
     judged.add(r.study);
     for (const o of outcomes) {
       const a = o.analysis;
-      const fit = a.fit ? `fitted ${fixed(a.fit.order)} ${intervalText(a.fit.ciLow, a.fit.ciHigh)}` : 'no fit';
-      const summary = `${o.norm}: ${fit}, expected order ${orderText(a.expected)}, verdict ${a.verdict}`;
       const own = ofStudy.filter((f) => f.norm === undefined || f.norm === o.norm);
+      const { summary, reasons, failure } = o.twoAxis ? jointCase(o) : {
+        summary: `${o.norm}: ${a.fit ? `fitted ${fixed(a.fit.order)} ${intervalText(a.fit.ciLow, a.fit.ciHigh)}${fitAxisSuffix(r)}` : 'no fit'}, expected order ${orderText(a.expected)}, verdict ${a.verdict}`,
+        reasons: a.reasons,
+        failure: null,
+      };
       const body = o.asExpected
-        ? caseBody(summary, a.reasons, own, null)
-        : caseBody(summary, [...a.reasons, ...a.warnings.map((w) => `warning: ${w}`), o.problem], own, {
+        ? caseBody(summary, reasons, own, null)
+        : caseBody(summary, [...reasons, ...a.warnings.map((w) => `warning: ${w}`), o.problem], own, failure ?? {
             message: `${summary} (expected ${o.expectedVerdict})`,
             type: a.verdict,
           });

@@ -1,4 +1,3 @@
-import { scaleLog, type ScaleLogarithmic } from 'd3-scale';
 import type { SeriesAnalysis } from '../analysis/types.ts';
 import type { LevelResult, StudyResult } from '../study/result.ts';
 import { marker } from './markers.ts';
@@ -8,9 +7,12 @@ import { seriesStyle } from './palette.ts';
 import { analysisOf, fileStem, normNames } from './series.ts';
 import { verdictLabel } from './verdict.ts';
 import { el, escapeXml } from './xml.ts';
+import { FONT, GRID, INK, logScale, MUTED, r2, xAxis, yAxis } from './svg-axes.ts';
+import { gridPlot } from './grid-plot.ts';
 
 export interface PlotOptions {
-  /** Abscissa: mesh size h (default) or degrees of freedom, for ladders whose h means little. */
+  /** Abscissa: mesh size h (default) or degrees of freedom, for ladders whose h means little. A ladder that refines
+   *  Δt on a fixed mesh is always plotted against Δt, and a two-axis design against both (grid-plot.ts). */
   x?: 'h' | 'dofs';
   /** Outer width in px (default 640). */
   width?: number;
@@ -18,13 +20,8 @@ export interface PlotOptions {
   plotHeight?: number;
 }
 
-const FONT = "system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif";
-const INK = '#1f2328';
-const MUTED = '#57606a';
-const GRID = '#d8dee4';
 const MARGIN = { left: 74, right: 22, top: 38, bottom: 52 };
 const LEGEND_ROW = 20;
-const r2 = (v: number) => Math.round(v * 100) / 100;
 
 interface Point {
   x: number;
@@ -40,8 +37,13 @@ interface Series {
   triangle: (PlacedTriangle & { label: string }) | null;
 }
 
-function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
-  const xOf = (l: LevelResult) => (axis === 'h' ? l.h : l.dofs);
+/** What the abscissa of the plot is. */
+type Abscissa = 'h' | 'dofs' | 'dt';
+
+const AXIS_WORDS: Record<Abscissa, string> = { h: 'mesh size h', dofs: 'degrees of freedom', dt: 'time step Δt' };
+
+function collectSeries(result: StudyResult, axis: Abscissa): Series[] {
+  const xOf = (l: LevelResult) => (axis === 'h' ? l.h : axis === 'dt' ? (l.dt ?? Number.NaN) : l.dofs);
   const series: Series[] = normNames(result).map((norm) => {
     const analysis = analysisOf(result, norm);
     const points = result.levels
@@ -60,77 +62,15 @@ function collectSeries(result: StudyResult, axis: 'h' | 'dofs'): Series[] {
   series.forEach((s, k) => {
     const p = s.analysis?.expected;
     if (p === null || p === undefined || !(p > 0)) return;
-    // Error ~ h^p, or ~ N^(-p/d) in d dimensions when plotted against dofs.
-    const slope = axis === 'h' ? p : -p / result.dim;
+    // Error ~ h^p (or Δt^q on a ladder in Δt, whose expected order is the temporal one), or ~ N^(-p/d) in d
+    // dimensions when plotted against dofs.
+    const slope = axis === 'dofs' ? -p / result.dim : p;
     const t = placeTriangle(logPoints[k], slope, logPoints.filter((_, j) => j !== k), placed);
     if (!t) return;
     placed.push(t);
     s.triangle = { ...t, label: orderText(Math.abs(slope)) };
   });
   return series;
-}
-
-function logScale(values: number[], range: [number, number]): ScaleLogarithmic<number, number> {
-  // A loop, not Math.min(...values): spreading 100k levels overflows the call stack.
-  let lo = Infinity, hi = -Infinity;
-  for (const v of values) { if (v < lo) lo = v; if (v > hi) hi = v; }
-  if (!(lo > 0) || !Number.isFinite(hi)) [lo, hi] = [0.1, 1];
-  // Below 1e-300 nice() would round a subnormal value down to a decade that is 0 in doubles (10^-324), and the ticks
-  // of log 0 are an array of infinite length; such values are drawn on the lower edge (clamp).
-  lo = Math.max(lo, 1e-300);
-  hi = Math.max(hi, lo);
-  if (lo === hi) [lo, hi] = [lo / 10, hi * 10];
-  // nice() widens the domain to whole decades, so every axis has at least two labelled powers of ten.
-  return scaleLog().domain([lo, hi]).range(range).nice().clamp(true);
-}
-
-function isDecade(v: number): boolean {
-  const k = Math.log10(v);
-  return Math.abs(k - Math.round(k)) < 1e-9;
-}
-
-/** "10" with a raised exponent; a real minus sign for negative exponents. */
-function powerLabel(v: number): string {
-  const k = Math.round(Math.log10(v));
-  const exponent = k < 0 ? `\u2212${-k}` : String(k);
-  return `10<tspan dy="-0.55em" font-size="0.72em">${exponent}</tspan>`;
-}
-
-function xAxis(scale: ScaleLogarithmic<number, number>, y0: number, yTop: number, label: string): string {
-  const ticks = scale.ticks().map((v) => {
-    const x = r2(scale(v));
-    const major = isDecade(v);
-    return el('g', { class: major ? 'tick tick-major' : 'tick tick-minor', 'data-value': v }, [
-      major ? el('line', { x1: x, x2: x, y1: yTop, y2: y0, stroke: GRID, 'stroke-width': 1 }) : '',
-      el('line', { x1: x, x2: x, y1: y0, y2: y0 + (major ? 6 : 3), stroke: INK, 'stroke-width': 1 }),
-      major ? `<text class="tick-label" x="${x}" y="${y0 + 21}" text-anchor="middle">${powerLabel(v)}</text>` : '',
-    ]);
-  });
-  const [a, b] = scale.range();
-  return el('g', { class: 'axis axis-x', 'font-size': 12, fill: INK }, [
-    ...ticks,
-    el('line', { class: 'domain', x1: a, x2: b, y1: y0, y2: y0, stroke: INK, 'stroke-width': 1 }),
-    el('text', { class: 'axis-label', x: r2((a + b) / 2), y: y0 + 42, 'text-anchor': 'middle', 'font-size': 13 }, escapeXml(label)),
-  ]);
-}
-
-function yAxis(scale: ScaleLogarithmic<number, number>, x0: number, xRight: number, label: string): string {
-  const ticks = scale.ticks().map((v) => {
-    const y = r2(scale(v));
-    const major = isDecade(v);
-    return el('g', { class: major ? 'tick tick-major' : 'tick tick-minor', 'data-value': v }, [
-      major ? el('line', { x1: x0, x2: xRight, y1: y, y2: y, stroke: GRID, 'stroke-width': 1 }) : '',
-      el('line', { x1: x0 - (major ? 6 : 3), x2: x0, y1: y, y2: y, stroke: INK, 'stroke-width': 1 }),
-      major ? `<text class="tick-label" x="${x0 - 9}" y="${y + 4}" text-anchor="end">${powerLabel(v)}</text>` : '',
-    ]);
-  });
-  const [b, a] = scale.range();
-  const mid = r2((a + b) / 2);
-  return el('g', { class: 'axis axis-y', 'font-size': 12, fill: INK }, [
-    ...ticks,
-    el('line', { class: 'domain', x1: x0, x2: x0, y1: a, y2: b, stroke: INK, 'stroke-width': 1 }),
-    el('text', { class: 'axis-label', x: 18, y: mid, 'text-anchor': 'middle', 'font-size': 13, transform: `rotate(-90 18 ${mid})` }, escapeXml(label)),
-  ]);
 }
 
 /** "L2: fitted 2.98 [2.95, 3.01], expected 3; verdict ✓ on-order" */
@@ -153,9 +93,11 @@ function describe(result: StudyResult, series: Series[], axisWord: string): stri
   );
 }
 
-/** An SVG log-log plot of error against h (or dofs) for each norm of one study, with expected-slope triangles. */
+/** An SVG log-log plot of error against h (or dofs, or Δt for a ladder in Δt) for each norm of one study, with
+ *  expected-slope triangles; a two-axis (h, Δt) design gets the plot of grid-plot.ts. */
 export function svgPlot(result: StudyResult, options: PlotOptions = {}): string {
-  const axis = options.x ?? 'h';
+  if (result.time?.axis === 'grid') return gridPlot(result, options);
+  const axis: Abscissa = result.time?.axis === 'dt' ? 'dt' : (options.x ?? 'h');
   const width = options.width ?? 640;
   const plotHeight = options.plotHeight ?? 340;
   const series = collectSeries(result, axis);
@@ -177,7 +119,7 @@ export function svgPlot(result: StudyResult, options: PlotOptions = {}): string 
   ]);
   const x = logScale(xs, [left, right]);
   const y = logScale(ys, [bottom, top]);
-  const axisWord = axis === 'h' ? 'mesh size h' : 'degrees of freedom';
+  const axisWord = AXIS_WORDS[axis];
   const id = `rungs-plot-${fileStem(result.study)}`;
 
   const lines = series.map((s, k) => {

@@ -3,14 +3,17 @@ import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, sciPa
 import { normNames, rateAt } from './series.ts';
 import { normOutcomes, verdictLabel } from './verdict.ts';
 import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
+import { fitAxisSuffix, hasTime, jointFitText, showsRates, stepsText, timeLine, type Notation } from './time.ts';
 
-/** "L2 fitted 3.01 [2.99, 3.02], expected 3: ✓ on-order" per norm; shared by both table captions. */
+/** "L2 fitted 3.01 [2.99, 3.02], expected 3: ✓ on-order" per norm; shared by both table captions. A ladder in Δt says
+ *  "fitted 1.00 [0.98, 1.02] in Δt"; a two-axis design gives its joint fit, "L2 joint fit p = …; q = …". */
 function fitSummaries(result: StudyResult, withSymbol: boolean): string[] {
   return normOutcomes(result).map((o) => {
-    const fit = o.analysis.fit;
-    const fitted = fit ? `fitted ${fixed(fit.order)} ${intervalText(fit.ciLow, fit.ciHigh)} over levels ${levelRangeText(fit.levels)}` : 'no fit';
-    const verdict = withSymbol ? verdictLabel(o.analysis.verdict) : o.analysis.verdict;
     const note = o.asExpected ? '' : ` (expected ${o.expectedVerdict})`;
+    if (o.twoAxis) return `${o.norm} joint fit ${jointFitText(o.twoAxis, withSymbol)}${note}`;
+    const fit = o.analysis.fit;
+    const fitted = fit ? `fitted ${fixed(fit.order)} ${intervalText(fit.ciLow, fit.ciHigh)}${fitAxisSuffix(result)} over levels ${levelRangeText(fit.levels)}` : 'no fit';
+    const verdict = withSymbol ? verdictLabel(o.analysis.verdict) : o.analysis.verdict;
     return `${o.norm} ${fitted}, expected ${orderText(o.analysis.expected)}: ${verdict}${note}`;
   });
 }
@@ -33,21 +36,27 @@ export function escapeMarkdownCell(text: string): string {
     .replace(/\r\n?|\n/g, ' ');
 }
 
-/** Per study: a heading line, the level table (errors as 1.23e-04, rates to two decimals, '—' on level 1), a footer. */
+/** Per study: a heading line, for a study with time the line that says what its ladder refines, the level table
+ *  (errors as 1.23e-04, rates to two decimals, '—' on level 1; steps and Δt after h for a study with time), a footer. */
 export function markdownTable(result: StudyResult): string {
   const norms = normNames(result);
-  const header = ['level', 'h', 'dofs', ...norms.flatMap((n) => [`${n} error`, `${n} rate`])];
+  const time = hasTime(result);
+  const rates = showsRates(result);
+  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`]))];
   const rows = result.levels.map((level, i) => [
     String(levelNumber(level.index)),
     sci(level.h),
+    ...(time ? [stepsText(level), sci(level.dt)] : []),
     String(level.dofs),
-    ...norms.flatMap((n) => [sci(level.errors[n]), fixed(rateAt(result, n, i))]),
+    ...norms.flatMap((n) => (rates ? [sci(level.errors[n]), fixed(rateAt(result, n, i))] : [sci(level.errors[n])])),
   ]);
   const line = (cells: string[]) => `| ${cells.map(escapeMarkdownCell).join(' | ')} |`;
   const title = result.description ? `**${escapeMarkdownCell(result.study)}**: ${escapeMarkdownCell(result.description)}` : `**${escapeMarkdownCell(result.study)}**`;
+  const ladder = timeLine(result);
   return [
     title,
     '',
+    ...(ladder === null ? [] : [escapeMarkdownCell(ladder), '']),
     line(header),
     `|${header.map(() => '---:').join('|')}|`,
     ...rows.map(line),
@@ -96,21 +105,45 @@ function latexText(text: string): string {
   return escapeLatex(text).replace(/−∞/g, '$-\\infty$').replace(/∞/g, '$\\infty$').replace(/–/g, '--').replace(/—/g, '---');
 }
 
-/** A table environment per study with \toprule/\midrule/\bottomrule (booktabs); errors as $m\times10^{k}$. */
+/** A fit summary in LaTeX: latexText, and the Δ of "in Δt" in math mode (steady studies have none). */
+function latexSummary(text: string): string {
+  return latexText(text).replace(/Δt/g, '$\\Delta t$');
+}
+
+/** How the time sentence is written in LaTeX: each formula one math span, words escaped. */
+const LATEX_NOTATION: Notation = {
+  dt: '$\\Delta t$',
+  coupled: (c, s) => `$\\Delta t = ${c}\\cdot h^{${s}}$`,
+  model: '$e = C_h h^p + C_t \\Delta t^q$',
+  pair: '$(h, \\Delta t)$',
+  times: '$\\times$',
+  text: (s) => latexText(s).replace(/Δ/g, '$\\Delta$'),
+};
+
+/** A table environment per study with \toprule/\midrule/\bottomrule (booktabs); errors as $m\times10^{k}$. A study
+ *  with time has steps and $\Delta t$ columns after $h$ and says in the caption what its ladder refines. */
 export function latexTable(result: StudyResult): string {
   const norms = normNames(result);
-  const columns = 3 + 2 * norms.length;
-  const group = norms.map((n) => `\\multicolumn{2}{c}{${escapeLatex(n)}}`).join(' & ');
-  const groupRules = norms.map((_, k) => `\\cmidrule(lr){${4 + 2 * k}-${5 + 2 * k}}`).join(' ');
-  const sub = norms.map(() => 'error & rate').join(' & ');
+  const time = hasTime(result);
+  const lead = time ? 5 : 3;
+  // A two-axis design has one column per norm (its error), every other study an error and a rate.
+  const per = showsRates(result) ? 2 : 1;
+  const columns = lead + per * norms.length;
+  const group = norms.map((n) => (per === 2 ? `\\multicolumn{2}{c}{${escapeLatex(n)}}` : escapeLatex(n))).join(' & ');
+  const groupRules = per === 2 ? norms.map((_, k) => `\\cmidrule(lr){${lead + 1 + 2 * k}-${lead + 2 + 2 * k}}`).join(' ') : '';
+  const sub = norms.map(() => (per === 2 ? 'error & rate' : 'error')).join(' & ');
   const rows = result.levels.map(
     (level, i) =>
-      `    ${levelNumber(level.index)} & ${latexSci(level.h)} & ${level.dofs}${norms.length ? ' & ' : ''}` +
-      norms.map((n) => `${latexSci(level.errors[n])} & ${latexRate(rateAt(result, n, i))}`).join(' & ') +
+      `    ${levelNumber(level.index)} & ${latexSci(level.h)} & ` +
+      (time ? `${level.steps === undefined ? '---' : level.steps} & ${latexSci(level.dt)} & ` : '') +
+      `${level.dofs}${norms.length ? ' & ' : ''}` +
+      norms.map((n) => (per === 2 ? `${latexSci(level.errors[n])} & ${latexRate(rateAt(result, n, i))}` : latexSci(level.errors[n]))).join(' & ') +
       ' \\\\',
   );
+  const ladder = timeLine(result, LATEX_NOTATION);
   const caption = `${latexText(result.study)}${result.description ? `: ${latexText(result.description)}` : ''}. ` +
-    (norms.length ? `${fitSummaries(result, false).map(latexText).join('; ')}.` : 'No error columns analysed.');
+    (ladder === null ? '' : `${ladder}. `) +
+    (norms.length ? `${fitSummaries(result, false).map(latexSummary).join('; ')}.` : 'No error columns analysed.');
   return [
     '% requires \\usepackage{booktabs}',
     '\\begin{table}[htbp]',
@@ -119,8 +152,8 @@ export function latexTable(result: StudyResult): string {
     `  \\label{tab:${result.study.replace(/[^A-Za-z0-9:.-]/g, '-')}}`,
     `  \\begin{tabular}{${'r'.repeat(columns)}}`,
     '    \\toprule',
-    ...(norms.length ? [`    & & & ${group} \\\\`, `    ${groupRules}`] : []),
-    `    level & $h$ & dofs${norms.length ? ` & ${sub}` : ''} \\\\`,
+    ...(norms.length ? [`    ${'& '.repeat(lead)}${group} \\\\`, ...(groupRules ? [`    ${groupRules}`] : [])] : []),
+    `    level & $h$ & ${time ? 'steps & $\\Delta t$ & ' : ''}dofs${norms.length ? ` & ${sub}` : ''} \\\\`,
     '    \\midrule',
     ...rows,
     '    \\bottomrule',

@@ -2,6 +2,7 @@ import type { StudyResult } from '../study/result.ts';
 import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, stderrText } from './numbers.ts';
 import { normNames, rateAt } from './series.ts';
 import { normOutcomes, studyTally, verdictLabel, type NormOutcome } from './verdict.ts';
+import { fitAxisSuffix, hasTime, jointOrderText, jointVerdictText, showsRates, stepsText, timeLine } from './time.ts';
 
 export interface TerminalOptions {
   /** ANSI colour; the CLI passes false when NO_COLOR is set or stdout is not a TTY. */
@@ -27,7 +28,7 @@ function palette(color: boolean): Palette {
 
 function outcomePaint(p: Palette, o: NormOutcome): Paint {
   if (o.asExpected) return p.good;
-  return o.analysis.verdict === 'inconclusive' ? p.unsure : p.bad;
+  return (o.departing ?? o.analysis.verdict) === 'inconclusive' ? p.unsure : p.bad;
 }
 
 /** Right-aligned columns separated by two spaces; widths from the plain text so colour never shifts a column. */
@@ -44,12 +45,15 @@ function alignRows(rows: string[][], leftColumns = 0): string[] {
 
 function levelTable(result: StudyResult, p: Palette): string[] {
   const norms = normNames(result);
-  const header = ['level', 'h', 'dofs', ...norms.flatMap((n) => [`${n} error`, 'rate'])];
+  const time = hasTime(result);
+  const rates = showsRates(result);
+  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', ...norms.flatMap((n) => (rates ? [`${n} error`, 'rate'] : [`${n} error`]))];
   const body = result.levels.map((level, i) => [
     String(levelNumber(level.index)),
     sci(level.h),
+    ...(time ? [stepsText(level), sci(level.dt)] : []),
     String(level.dofs),
-    ...norms.flatMap((norm) => [sci(level.errors[norm]), fixed(rateAt(result, norm, i))]),
+    ...norms.flatMap((norm) => (rates ? [sci(level.errors[norm]), fixed(rateAt(result, norm, i))] : [sci(level.errors[norm])])),
   ]);
   const rule = header.map((h, c) => '─'.repeat(body.reduce((w, r) => Math.max(w, [...r[c]].length), [...h].length)));
   const lines = alignRows([header, rule, ...body]);
@@ -61,9 +65,13 @@ function fitLines(result: StudyResult, p: Palette): string[] {
   const nameWidth = Math.max(...outcomes.map((o) => o.norm.length));
   const lines: string[] = [];
   for (const o of outcomes) {
+    if (o.twoAxis) {
+      lines.push(...jointFitLines(o, p, nameWidth));
+      continue;
+    }
     const fit = o.analysis.fit;
     const fitted = fit
-      ? `fitted ${fixed(fit.order)} ± ${stderrText(fit.stderr)}, 95% CI ${intervalText(fit.ciLow, fit.ciHigh)}, levels ${levelRangeText(fit.levels)}`
+      ? `fitted ${fixed(fit.order)} ± ${stderrText(fit.stderr)}, 95% CI ${intervalText(fit.ciLow, fit.ciHigh)}${fitAxisSuffix(result)}, levels ${levelRangeText(fit.levels)}`
       : 'no fit';
     const verdict = outcomePaint(p, o)(verdictLabel(o.analysis.verdict));
     const expectedNote = o.asExpected ? '' : p.dim(`  (expected ${o.expectedVerdict})`);
@@ -75,10 +83,31 @@ function fitLines(result: StudyResult, p: Palette): string[] {
   return lines;
 }
 
+/** A norm of a two-axis design: its joint fit, each order with its interval, expected value and verdict, then the
+ *  constants and the residual, the reasons and warnings. */
+function jointFitLines(o: NormOutcome, p: Palette, nameWidth: number): string[] {
+  const t = o.twoAxis!;
+  const paint = (v: typeof t.verdict.space) => (o.asExpected || v === 'on-order' || v === 'exact' ? p.good : v === 'inconclusive' ? p.unsure : p.bad)(verdictLabel(v));
+  const order = (which: 'p' | 'q') =>
+    `${which} = ${jointOrderText(t.fit, which)} (expected ${orderText(which === 'p' ? t.expected.space : t.expected.time)}) ${paint(which === 'p' ? t.verdict.space : t.verdict.time)}`;
+  const expectedNote = o.asExpected ? '' : p.dim(`  (expected ${o.expectedVerdict})`);
+  const indent = ' '.repeat(nameWidth + 4);
+  const lines = [`  ${p.bold(o.norm.padEnd(nameWidth))}  joint fit ${order('p')}; ${order('q')}${expectedNote}`];
+  if (t.fit) {
+    const converged = t.fit.converged ? '' : '; the fit did not converge';
+    lines.push(`${indent}${p.dim(`C_h = ${sci(t.fit.Ch)}, C_t = ${sci(t.fit.Ct)}, residual σ = ${sci(t.fit.sigma)} over ${t.fit.points} points (${t.fit.dof} dof)${converged}`)}`);
+  }
+  for (const reason of t.reasons) lines.push(`${indent}${p.dim('·')} ${reason}`);
+  for (const reason of o.analysis.reasons.filter((r) => !t.reasons.includes(r))) lines.push(`${indent}${p.dim('·')} ${reason}`);
+  for (const warning of o.analysis.warnings) lines.push(`${indent}${p.unsure('!')} ${warning}`);
+  return lines;
+}
+
 function studyBlock(result: StudyResult, p: Palette): string[] {
   const title = result.description ? `${result.study} — ${result.description}` : result.study;
   const facts = [result.file, `${result.dim}-D`, `${result.levels.length} levels`, `${fixed(result.seconds)} s`];
-  const lines = [p.bold(title), p.dim(facts.join(' · ')), '', ...levelTable(result, p), '', ...fitLines(result, p)];
+  const ladder = timeLine(result);
+  const lines = [p.bold(title), p.dim(facts.join(' · ')), ...(ladder === null ? [] : [ladder]), '', ...levelTable(result, p), '', ...fitLines(result, p)];
   for (const warning of result.warnings) lines.push(`  ${p.unsure('! warning:')} ${warning}`);
   const flaw = result.expectation.flaw ? ` (declared: ${result.expectation.verdict}, ${result.expectation.flaw})` : '';
   lines.push(result.asExpected ? `  ${p.good('✓ as expected')}${flaw}` : `  ${p.bad('✗ NOT as expected')}${flaw}`);
@@ -91,7 +120,7 @@ function summaryBlock(results: readonly StudyResult[], p: Palette): string[] {
   const rows = results.map((r) => {
     const mark = r.asExpected ? p.good('✓') : p.bad('✗');
     const norms = normOutcomes(r)
-      .map((o) => `${o.norm} ${outcomePaint(p, o)(verdictLabel(o.analysis.verdict))}${o.asExpected ? '' : ` (expected ${o.expectedVerdict})`}`)
+      .map((o) => `${o.norm} ${outcomePaint(p, o)(o.twoAxis ? jointVerdictText(o.twoAxis) : verdictLabel(o.analysis.verdict))}${o.asExpected ? '' : ` (expected ${o.expectedVerdict})`}`)
       .join(', ');
     return { mark, name: r.study, norms };
   });

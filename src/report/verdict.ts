@@ -1,4 +1,4 @@
-import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
+import type { SeriesAnalysis, TwoAxisAnalysis, Verdict } from '../analysis/types.ts';
 import type { StudyResult } from '../study/result.ts';
 
 /** A symbol per verdict so that no report relies on colour alone; the word is always printed beside it. */
@@ -32,6 +32,10 @@ export interface NormOutcome {
   asExpected: boolean;
   /** One sentence saying why the norm is not as expected; empty when it is. */
   problem: string;
+  /** A two-axis design: the norm's joint fit, whose two verdicts (space and time) decide the outcome. */
+  twoAxis?: TwoAxisAnalysis;
+  /** A two-axis design: the verdict that departs (the spatial one first), for the failure's type. */
+  departing?: Verdict;
 }
 
 /** Verdicts a plain ('pass') study accepts: the order was reached, or the space reproduces u, or it converges faster. */
@@ -52,6 +56,8 @@ const passes = (a: SeriesAnalysis): boolean => ACCEPTABLE_FOR_PASS.includes(a.ve
 export function normOutcomes(result: StudyResult): NormOutcome[] {
   const declared = expectedVerdict(result);
   const outcomes = result.analyses.map((analysis): NormOutcome => {
+    const joint = result.time?.axis === 'grid' ? result.twoAxis?.find((t) => t.name === analysis.name) : undefined;
+    if (joint) return gridOutcome(result, analysis, joint, declared);
     const v = analysis.verdict;
     const fits =
       result.expectation.verdict === 'pass'
@@ -70,6 +76,32 @@ export function normOutcomes(result: StudyResult): NormOutcome[] {
     }
   }
   return outcomes;
+}
+
+/**
+ * One norm of a two-axis design: it is as expected when both orders are, by the rules above applied to each order's
+ * verdict (a plain study needs both to pass; 'exact' both exact; a declared flaw shown by either order, or both
+ * passing). So a norm fails when either order's verdict fails, and the problem names that order (the joint fit's
+ * reasons are in `twoAxis.reasons`). As above, a study that is as expected has every norm as expected.
+ */
+function gridOutcome(result: StudyResult, analysis: SeriesAnalysis, joint: TwoAxisAnalysis, declared: Verdict): NormOutcome {
+  const aboveAllowed = analysis.allowed?.aboveOrder !== undefined;
+  const pass = (v: Verdict) => ACCEPTABLE_FOR_PASS.includes(v) || (v === 'above-order' && aboveAllowed);
+  const orders = [
+    { word: 'spatial order (h)', verdict: joint.verdict.space },
+    { word: 'temporal order (Δt)', verdict: joint.verdict.time },
+  ];
+  const fits = (v: Verdict) => (result.expectation.verdict === 'pass' ? pass(v) : declared === 'exact' ? v === 'exact' : v === declared || pass(v));
+  const shows = result.expectation.verdict === 'pass' || declared === 'exact'
+    ? orders.every((o) => fits(o.verdict))
+    : orders.some((o) => o.verdict === declared) || orders.every((o) => pass(o.verdict));
+  const ok = result.asExpected || shows;
+  const base: NormOutcome = { norm: analysis.name, analysis, expectedVerdict: declared, asExpected: ok, problem: '', twoAxis: joint };
+  if (ok) return base;
+  const failing = result.expectation.verdict === 'pass' || declared === 'exact' ? orders.filter((o) => !fits(o.verdict)) : orders;
+  base.problem = `${failing.map((o) => `${o.word} ${o.verdict}`).join(', ')}, expected ${declared}`;
+  base.departing = (failing[0] ?? orders[0]).verdict;
+  return base;
 }
 
 /** Counts across studies for summaries. */

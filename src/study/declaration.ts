@@ -7,6 +7,7 @@ import type { Verdict } from '../analysis/types.ts';
 import type { LevelContext } from './context.ts';
 import type { ExternalDiscretization } from '../external/types.ts';
 import type { PdeDeclaration } from '../equation/types.ts';
+import type { TimeMethodName } from '../fem/time/methods.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 export const NORM_NAMES: NormName[] = ['L2', 'H1semi', 'H1', 'energy', 'maxNodal'];
@@ -79,8 +80,19 @@ export interface CustomDiscretization {
 export type Discretization = LagrangeDiscretization | CustomDiscretization | ExternalDiscretization;
 
 export interface LadderDeclaration {
-  /** Cells per unit length on each level, increasing. */
+  /** Cells per unit length on each level, increasing (one value: a temporal ladder on a fixed mesh). */
   n: number[];
+  /** Studies with time: equal time steps over [0, T] on each level, increasing (one value: a spatial ladder at a
+   *  fixed time step). With several values of both n and steps, `grid: true` runs every (n, steps) pair and fits
+   *  e = C_h h^p + C_t Δt^q jointly. */
+  steps?: number[];
+  /** Studies with time: the time steps themselves instead of `steps`, decreasing; each must divide T. */
+  dt?: number[];
+  /** Studies with time: a coupled path Δt = c·h^exponent (exponent p/q balances the two errors, so that one fit in
+   *  h shows the spatial order); each level takes the smallest whole number of steps with Δt ≤ c·h^exponent. */
+  coupled?: { c: number; exponent: number };
+  /** Studies with time: every pair of n and steps, fitted jointly (a two-axis design). */
+  grid?: boolean;
   /** Seeded random displacement of interior nodes by up to fraction × local h. */
   perturb?: { fraction: number; seed?: number };
   /** Levels used by `rungs check --quick` (the coarsest that still give a fit); default the first 3. */
@@ -101,6 +113,9 @@ export interface StudyDeclaration {
   boundary?: BoundaryDeclaration;
   discretization: Discretization;
   ladder: LadderDeclaration;
+  /** A study with time: the final time T, and for rungs's own elements the stepper; the expected temporal order is
+   *  the stepper's (backward Euler 1, Crank–Nicolson 2, BDF2 2, DIRK 3) or, for a code of its own, `order`. */
+  time?: TimeDeclaration;
   /** Norms rungs measures (NormName), or for an external code the names of the errors it reports itself (each with
    *  its expected order in `expected`). */
   norms?: (NormName | (string & {}))[];
@@ -133,6 +148,16 @@ export interface StudyDeclaration {
   sweep?: SweepDeclaration;
   /** Set by rungs on each study a sweep expands into (not written by users). */
   sweepMember?: { group: string; coefficient: string; value: number; index: number; count: number; expect: 'robust' | 'not-robust'; growth: number };
+}
+
+export interface TimeDeclaration {
+  /** The final time T > 0; the solution is measured at T (and over the time levels for Linf_L2, L2_H1). */
+  final: number;
+  /** rungs's own stepper: 'backward-euler', 'crank-nicolson', 'bdf2' (started by one Crank–Nicolson step) or
+   *  'dirk3' (Alexander's three-stage L-stable DIRK). */
+  stepper?: TimeMethodName;
+  /** The expected order in time of an external or custom code's stepper (rungs's own: derived). */
+  order?: number;
 }
 
 export interface SweepDeclaration {

@@ -1,6 +1,7 @@
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { builtInNorms, externalFieldNorms } from './discretizations/system-norms.ts';
 import type { PresetName } from '../equation/types.ts';
+import { temporalOrder, timeAxis } from './time-ladder.ts';
 
 /** Expected order of each norm for degree-k Lagrange elements on a smooth solution and quasi-uniform meshes:
  *  H1 seminorm, H1 and energy O(h^k) (Céa's lemma with interpolation estimates), L2 O(h^(k+1)) (Aubin–Nitsche;
@@ -32,5 +33,21 @@ export function expectedOrders(decl: StudyDeclaration, norms: readonly string[])
     : null;
   const out: Record<string, number | null> = {};
   for (const nm of norms) out[nm] = decl.expected?.[nm] ?? derived?.[nm] ?? null;
+  return decl.time ? alongTimeAxis(decl, out) : out;
+}
+
+/** The order each norm should show along a study's time ladder (src/study/time-ladder.ts), from the spatial order p
+ *  of the norm and the stepper's temporal order q, with e ≈ C_h h^p + C_t Δt^q: refined in Δt on one mesh, q; in h
+ *  at one Δt, p (until the time step limits it); on a coupled path Δt = c·h^s, min(p, q·s); a two-axis design keeps
+ *  p here and fits q jointly. */
+function alongTimeAxis(decl: StudyDeclaration, spatial: Record<string, number | null>): Record<string, number | null> {
+  const axis = timeAxis(decl);
+  const q = temporalOrder(decl);
+  const out: Record<string, number | null> = {};
+  for (const [nm, p] of Object.entries(spatial)) {
+    out[nm] = axis === 'dt' ? q
+      : axis === 'coupled' ? (p === null || q === null ? null : Math.min(p, q * decl.ladder.coupled!.exponent))
+        : p;
+  }
   return out;
 }

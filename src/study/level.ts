@@ -1,3 +1,4 @@
+import { ladderRungs, rungLabel } from './time-ladder.ts';
 import { perturbMesh } from '../mesh/perturb.ts';
 import { checkMesh } from '../mesh/quality.ts';
 import type { LevelResult } from './result.ts';
@@ -28,7 +29,7 @@ export async function runLevel(
     }
     return level;
   } catch (err) {
-    const where = `${file} (study '${decl.name}') level ${index + 1} (n = ${decl.ladder.n[index]})`;
+    const where = `${file} (study '${decl.name}') level ${index + 1} (${rungLabel(ladderRungs(decl)[index]!)})`;
     if (err instanceof RungsInputError) throw new RungsInputError(err.message.startsWith(file) ? err.message : `${where}: ${err.message}`, file);
     if (err instanceof RungsNumericalError) throw new RungsNumericalError(`${where}: ${err.message}`, file);
     throw err;
@@ -42,7 +43,7 @@ async function runLevelUnguarded(
   solver: LevelContext['solver'], env: LevelEnvironment,
 ): Promise<LevelResult> {
   const tStart = performance.now();
-  const n = decl.ladder.n[index];
+  const { n, steps } = ladderRungs(decl)[index]!;
   const t = performance.now();
   const disc = levelDiscretization(decl, problem, file);
   if (decl.discretization.kind !== 'external' && !problem.exact && !problem.derived) {
@@ -57,10 +58,11 @@ async function runLevelUnguarded(
     mesh = perturbMesh(mesh, { fraction: decl.ladder.perturb.fraction, seed: (decl.ladder.perturb.seed ?? 1) + index });
   }
   const tMesh = seconds(t);
-  const out = await disc.run({ decl, file, problem, index, n, mesh, norms, solver, env });
+  const time = decl.time && steps !== null ? { T: decl.time.final, steps, dt: decl.time.final / steps } : undefined;
+  const out = await disc.run({ decl, file, problem, index, n, mesh, time, norms, solver, env });
   const external = decl.discretization.kind === 'external';
   return {
-    index, n, h: out.h ?? mesh.h, dofs: out.dofs, cells: out.cells ?? mesh.nCells,
+    index, n, h: out.h ?? mesh.h, ...(time ? { steps: time.steps, dt: time.dt } : {}), dofs: out.dofs, cells: out.cells ?? mesh.nCells,
     errors: out.errors,
     interpolationErrors: out.interpolationErrors,
     quasiOptimality: out.quasiOptimality ?? null,

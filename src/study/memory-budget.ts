@@ -2,6 +2,7 @@
 // that an 8000² level asked for by mistake stops its own study with a message instead of taking the machine (or the
 // process, and with it every other study) down. The estimate: the unknowns a level will have, from its domain, n and
 // degree, times the peak memory per unknown of the built-in pipeline measured on this machine.
+import { ladderRungs } from './time-ladder.ts';
 import { RungsInputError } from '../errors.ts';
 import { machineMemory, showBytes } from '../external/vtk/limits.ts';
 import type { Mesh } from '../mesh/types.ts';
@@ -93,7 +94,7 @@ const mb = (bytes: number) => `${Math.ceil(bytes / MB).toLocaleString('en-US')} 
  * `mesh` (a custom domain, meshed by the study's own function) before anything is built on it.
  */
 export function checkLevelMemory(decl: StudyDeclaration, index: number, mesh?: Mesh): void {
-  const n = decl.ladder.n[index]!;
+  const n = ladderRungs(decl)[index]!.n;
   const degree = degreeOf(decl);
   const nodes = mesh ? estimateDofsOnMesh(mesh, degree) : estimateDofs(decl, n, degree);
   if (nodes === null) return;

@@ -81,7 +81,7 @@ export function comparePreflight(bundle: DataBundle, text: string, file: string,
 
 /** Runs the study's preflight command once in <root>/preflight and compares what it wrote. */
 export async function runPreflight(
-  spec: ExternalDiscretization, bundle: DataBundle, root: string, values: { study: string; n: number; h: number; data?: string },
+  spec: ExternalDiscretization, bundle: DataBundle, root: string, values: { study: string; n: number; h: number; data?: string; steps?: number; dt?: number; T?: number },
 ): Promise<PreflightOutcome | null> {
   if (!spec.preflight) return null;
   const dir = join(root, 'preflight');
@@ -95,7 +95,7 @@ export async function runPreflight(
   const t0 = performance.now();
   await runLevelCommand(
     { command: spec.preflight, timeoutSeconds: spec.timeoutSeconds, cwd: spec.cwd, env: { ...spec.env, RUNGS_PREFLIGHT: '1' } },
-    { study: values.study, level: 0, n: values.n, h: values.h, degree: spec.degree, out: dir, data: values.data },
+    { study: values.study, level: 0, n: values.n, h: values.h, degree: spec.degree, out: dir, data: values.data, steps: values.steps, dt: values.dt, T: values.T },
   ).catch((err: unknown) => {
     if (err instanceof RungsInputError) throw new RungsInputError(err.message.replace(/level 0 \(n = [^)]*\)/, 'preflight'), err.where);
     throw err;

@@ -79,15 +79,17 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
     throw err;
   }
 
+  checkTime(decl, derived, where, file);
   const bd = decl.boundary ?? {};
   const { parts, byName } = resolveBoundary(decl, derived, where, file);
   const { dirichlet, neumann, robin } = parts;
   const warnings = derived && decl.pde ? meanFreeChecks(decl, pde, derived, byName, where, file) : [];
-  const builtInSystem = decl.discretization.kind === 'lagrange' && BUILT_IN_SYSTEMS.has(pde.preset?.name ?? '') && derived !== null && !derived.hasTime;
+  const builtInSystem = decl.discretization.kind === 'lagrange' && derived !== null
+    && (derived.hasTime ? pde.preset?.name === 'heat' : BUILT_IN_SYSTEMS.has(pde.preset?.name ?? ''));
   if (decl.pde && !exact && decl.discretization.kind !== 'external' && !builtInSystem) {
     throw new RungsInputError(
       `${where}: discretization: ${decl.discretization.kind === 'lagrange' ? 'rungs\'s own elements solve' : 'a custom discretization (whose field rungs measures) takes'} ` +
-      `${decl.discretization.kind === 'lagrange' ? 'the steady presets diffusionConvectionReaction, linearElasticity, nearlyIncompressibleElasticity, stokes and nonlinearDiffusion' : 'only the steady diffusionConvectionReaction preset'}; ` +
+      `${decl.discretization.kind === 'lagrange' ? 'the steady presets diffusionConvectionReaction, linearElasticity, nearlyIncompressibleElasticity, stokes and nonlinearDiffusion, and heat in time' : 'only the steady diffusionConvectionReaction preset'}; ` +
       `for ${pde.label ?? 'this pde'}${derived?.hasTime ? ' (it depends on t)' : ''} use external({ command, output: 'errors' }) and let the code report its own norms`, file);
   }
   if (builtInSystem && pde.preset!.name !== 'nonlinear-diffusion') {
@@ -131,6 +133,25 @@ export function buildProblem(decl: StudyDeclaration, file: string): StudyProblem
       : undefined,
   };
   return { exact, coefficients, boundary, parts, byName, warnings, symmetric, derived, pde };
+}
+
+/** A problem that depends on t needs the final time and a time ladder; a steady one has no time to refine. */
+function checkTime(decl: StudyDeclaration, derived: DerivedProblem | null, where: string, file: string): void {
+  const hasTime = derived?.hasTime ?? false;
+  if (hasTime && !decl.time) {
+    const own = decl.discretization.kind === 'lagrange';
+    throw new RungsInputError(
+      `${where}: time: missing; the ${derived!.fields.length ? 'exact solution or the pde' : 'pde'} depends on t, so the study needs the final time and a time ladder, ` +
+      `e.g. time: { final: 1${own ? ", stepper: 'bdf2'" : ', order: 2'} } with ladder: { n: [64], steps: [8, 16, 32, 64] }`, file);
+  }
+  if (!hasTime && decl.time) {
+    throw new RungsInputError(
+      `${where}: time: the study declares a final time, but the problem does not depend on t (no dt() in its equations and no t in its formulas); ` +
+      `use the heat preset (pde: heat({ k })) or a pde with dt(u), and an exact solution in x and t, or leave time out`, file);
+  }
+  if (hasTime && decl.pde?.preset?.name !== 'heat' && decl.discretization.kind === 'lagrange') {
+    throw new RungsInputError(`${where}: discretization: rungs's own elements advance the heat preset in time; for ${decl.pde?.label ?? 'this pde'} use external({ command, ... })`, file);
+  }
 }
 
 function isFieldRecord(v: unknown): v is Record<string, string | string[]> {

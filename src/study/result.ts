@@ -1,4 +1,4 @@
-import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
+import type { SeriesAnalysis, TimeAxis, TwoAxisAnalysis, Verdict } from '../analysis/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
 import type { QuantityReport } from '../analysis/quantities.ts';
 
@@ -10,6 +10,9 @@ export interface LevelResult {
   /** Ladder parameter (cells per unit side), or null when given by h. */
   n: number | null;
   h: number;
+  /** Studies with time: the number of equal time steps over [0, T] and their size Δt = T/steps. */
+  steps?: number;
+  dt?: number;
   dofs: number;
   cells: number;
   /** Error per norm name (or quantity name). */
@@ -48,6 +51,11 @@ export interface StudyResult {
   versions: Record<string, string>;
   startedAt: string;
   seconds: number;
+  /** Studies with time: the final time, the stepper (built-in) or null (a code of its own), the axis the ladder
+   *  refines, the expected temporal order and, for a coupled path, Δt = c·h^exponent. */
+  time?: { final: number; stepper: string | null; axis: TimeAxis; order: number | null; coupled?: { c: number; exponent: number } };
+  /** A two-axis (h, Δt) design: the joint fit e = C_h h^p + C_t Δt^q of every norm, with a verdict per order. */
+  twoAxis?: TwoAxisAnalysis[];
   /** For a member of a sweep over a coefficient: the sweep's robustness verdict (the same for every member). */
   robustness?: import('./sweep.ts').SweepVerdict;
 }

@@ -1,5 +1,7 @@
+import { ladderRungs, temporalOrder, timeAxis } from './time-ladder.ts';
 import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOptimality } from '../analysis/index.ts';
-import type { SeriesAnalysis, Verdict } from '../analysis/types.ts';
+import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
+import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -68,7 +70,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     || (externalFieldNorms(decl) !== null && problem.derived !== null);
   const norms = (measurable ? decl.norms ?? defaultNorms(decl) : decl.norms ?? []) as NormName[];
   const expected = expectedOrders(decl, norms);
-  const total = Math.min(decl.ladder.n.length, opts.levels ?? Infinity);
+  const total = Math.min(ladderRungs(decl).length, opts.levels ?? Infinity);
   const solver = solverSettings(decl);
   const result: StudyResult = {
     study: decl.name,
@@ -84,6 +86,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     versions: packageVersions(),
     startedAt: new Date().toISOString(),
     seconds: 0,
+    ...(decl.time ? { time: timeOf(decl) } : {}),
   };
   // Checks of the manufactured solution itself (Salari & Knupp 2000): terms it leaves unexercised and the like.
   result.warnings.push(...problem.warnings);
@@ -120,8 +123,9 @@ export async function preflightStudy(p: PreparedStudy): Promise<void> {
   if (d.kind !== 'external' || !d.preflight) return;
   const bundle = studyBundle(decl, p.problem);
   if (!bundle) throw new RungsInputError(`${p.loaded.file} (study '${decl.name}'): discretization.preflight: needs the exact solution as formulas`, p.loaded.file);
-  const n = decl.ladder.n[0]!;
-  const outcome = await runPreflight(d, bundle, join(p.env.out, fileStem(decl.name)), { study: decl.name, n, h: decl.domain.mesh(n).h, data: p.env.data });
+  const { n, steps } = ladderRungs(decl)[0]!;
+  const time = decl.time && steps !== null ? { steps, dt: decl.time.final / steps, T: decl.time.final } : {};
+  const outcome = await runPreflight(d, bundle, join(p.env.out, fileStem(decl.name)), { study: decl.name, n, h: decl.domain.mesh(n).h, data: p.env.data, ...time });
   if (outcome) p.result.inputs.preflight = { file: outcome.file, compared: outcome.compared, seconds: outcome.seconds };
 }
 
@@ -181,7 +185,14 @@ function finishAnalysis(
   // rungs integrates the norms of an external code's VTK system itself: they are its own norms, global or pointwise.
   const fieldNormsOfVtk = externalFieldNorms(decl) !== null;
   const allow = decl.allow ?? {};
+  const axis = timeAxis(decl);
+  if (axis === 'grid') {
+    gridAnalysis(result, decl, norms, expected, tolerance);
+    return;
+  }
   const analyses: SeriesAnalysis[] = [];
+  // Series whose errors run into the other axis's floor: that is their reason, not a pattern across norms.
+  const atAxisFloor = new Set<SeriesAnalysis>();
   for (const nm of norms) {
     const scale = scaleAll[nm] ?? Number.NaN;
     // The error the solver alone could leave: the relative residual times the size of u (optimistic: the true
@@ -189,8 +200,9 @@ function finishAnalysis(
     const residualFloor = (l: LevelResult) => (l.solver ? l.solver.relativeResidual * (scale > 0 ? scale : 1) : null);
     const a = analyseSeries({
       name: nm,
-      // On perturbed ladders the largest cell diameter jitters from level to level; the dof count does not.
-      h: decl.ladder.perturb ? null : levels.map((l) => l.h),
+      // A temporal ladder is fitted against Δt. On perturbed ladders the largest cell diameter jitters from level to
+      // level; the dof count does not.
+      h: axis === 'dt' ? levels.map((l) => l.dt!) : decl.ladder.perturb ? null : levels.map((l) => l.h),
       dofs: levels.map((l) => l.dofs),
       dim: result.dim,
       errors: levels.map((l) => l.errors[nm]),
@@ -208,6 +220,7 @@ function finishAnalysis(
       allowAboveOrder: allow.aboveOrder?.[nm],
       allowFewLevels: allow.fewLevels?.[nm],
     });
+    if ((axis === 'dt' || axis === 'h') && addTimePitfalls(a, decl, levels, axis)) atAxisFloor.add(a);
     analyses.push(a);
   }
 
@@ -225,7 +238,104 @@ function finishAnalysis(
   }
   // The pattern across norms, mapped to likely causes.
   addCrossNormReasons(analyses);
+  for (const a of atAxisFloor) a.reasons = a.reasons.filter((r) => !r.startsWith('across norms:'));
+  if (axis === 'dt') for (const a of analyses) a.reasons = a.reasons.map(inTime);
   result.analyses = analyses;
+}
+
+/** Verdicts that are not a pass, worst first: a clear miss, then a fit that could not decide. */
+const SEVERITY: Verdict[] = ['below-order', 'above-order', 'inconclusive', 'on-order', 'exact'];
+
+/** A two-axis design: every norm fitted jointly as e = C_h h^p + C_t Δt^q over all its (h, Δt) pairs (Kamm, Rider
+ *  & Brock 2003, from memory), a verdict per order (src/analysis/two-axis.ts). The norm's analysis carries the
+ *  spatial order's fit and the worse of the two verdicts, with both reasons, so that tables, the gate and JUnit
+ *  treat a grid like any study; StudyResult.twoAxis keeps both fits. */
+function gridAnalysis(result: StudyResult, decl: StudyDeclaration, norms: NormName[], expected: Record<string, number | null>, tolerance: number): void {
+  const levels = result.levels;
+  const q = temporalOrder(decl);
+  result.twoAxis = [];
+  result.analyses = norms.map((nm): SeriesAnalysis => {
+    const errors = levels.map((l) => l.errors[nm]!);
+    let fit: TwoAxisFit | null = null;
+    let refusal: string | null = null;
+    try {
+      fit = fitTwoAxis(levels.map((l) => l.h), levels.map((l) => l.dt!), errors, { name: nm });
+    } catch (err) {
+      if (!(err instanceof RungsInputError)) throw err;
+      refusal = err.message;
+    }
+    const two = judgeTwoAxis(nm, fit, { space: expected[nm] ?? null, time: q }, tolerance);
+    if (refusal) two.reasons.unshift(`no joint fit: ${refusal}`);
+    result.twoAxis!.push(two);
+    const verdict = [two.verdict.space, two.verdict.time].sort((a, b) => SEVERITY.indexOf(a) - SEVERITY.indexOf(b))[0]!;
+    return {
+      name: nm, expected: expected[nm] ?? null, tolerance,
+      rates: levels.map(() => null),
+      fit: fit ? { order: fit.p, stderr: Number.NaN, ciLow: fit.pInterval[0], ciHigh: fit.pInterval[1], levels: levels.map((l) => l.index), logConstant: Math.log(fit.Ch) } : null,
+      floorFrom: null, floorKind: null, asymptoticFrom: null,
+      verdict,
+      reasons: two.reasons,
+      warnings: [],
+    };
+  });
+}
+
+/** The pitfalls of a one-axis study with time, named when they happen (Nishikawa 2023, arXiv:2305.10331): a temporal
+ *  ladder whose errors run into the fixed mesh's spatial error, a spatial ladder held up by its fixed time step; and
+ *  for the DIRK, the order reduction of Runge–Kutta methods of stage order 1 on parabolic problems. */
+function addTimePitfalls(a: SeriesAnalysis, decl: StudyDeclaration, levels: LevelResult[], axis: 'dt' | 'h'): boolean {
+  if (a.verdict === 'on-order' || a.verdict === 'exact' || a.expected === null) return false;
+  const x = levels.map((l) => (axis === 'dt' ? l.dt! : l.h));
+  const floor = detectAxisFloor(x, levels.map((l) => l.errors[a.name]!), a.expected, a.tolerance);
+  if (floor) {
+    a.reasons.unshift(axisFloorReason(axis, floor, { n: levels[0]?.n ?? undefined, steps: levels[0]?.steps }));
+    return true;
+  }
+  // Errors that do not fall at all along one axis: with errors of both signs the norms need not behave like E + C x^r,
+  // so the floor is offered as the likely cause, not asserted.
+  const last = a.rates[a.rates.length - 1];
+  if (last !== null && last !== undefined && last < STALL) {
+    const r0 = levels[0]!;
+    a.reasons.push(axis === 'dt'
+      ? `a temporal ladder stops falling where it meets the spatial error of its fixed mesh (n = ${r0.n}); if the errors here are that floor, refine the mesh or take fewer, larger steps (Nishikawa 2023, arXiv:2305.10331)`
+      : `a spatial ladder stops falling where it meets the temporal error of its fixed time step (${r0.steps} steps); if the errors here are that floor, take more steps (Nishikawa 2023, arXiv:2305.10331)`);
+  }
+  if (axis === 'dt' && decl.time?.stepper === 'dirk3' && a.verdict === 'below-order' && a.fit && a.fit.order > 1.5) {
+    a.reasons.push(
+      'the DIRK has stage order 1: on a parabolic problem whose boundary data move in time, or whose source and its time ' +
+      'derivatives do not vanish on the boundary, it loses part of its order (order reduction; Ostermann & Roche 1992, ' +
+      'Math. Comp. 59, from memory) — fixed boundary data and a compatible source show the classical order 3');
+  }
+  return false;
+}
+
+/** A finest rate below this is errors that no longer fall (common practice, no source). */
+const STALL = 0.3;
+
+/** The generic reasons of a ladder in Δt said in terms of time: a consistent loss of order there points at the time
+ *  stepper (a source or boundary datum at the wrong time level or stage time, a start-up step of too low an order),
+ *  not at the space discretization. */
+function inTime(reason: string): string {
+  const stable = /^rates are stable at (\S+) instead of (\S+): a consistent loss of order/.exec(reason);
+  if (stable) {
+    return `rates in Δt are stable at ${stable[1]} instead of ${stable[2]}: a consistent loss of temporal order — typical of a time-stepping slip: ` +
+      'a source or boundary data taken at the wrong time (the old time level, the start of the step instead of a stage time), ' +
+      'a start-up step of too low an order, or a stepper of lower order than declared';
+  }
+  const across = /^across norms: every norm is about (\S+) orders? low/.exec(reason);
+  if (across) return `across norms: every norm loses about ${across[1]} order${across[1] === '1' ? '' : 's'} in Δt alike — the time stepper, not the space discretization, is the likely cause`;
+  return reason;
+}
+
+/** What a study with time reports about its time axis (StudyResult.time). */
+function timeOf(decl: StudyDeclaration): NonNullable<StudyResult['time']> {
+  return {
+    final: decl.time!.final,
+    stepper: decl.time!.stepper ?? null,
+    axis: timeAxis(decl)!,
+    order: temporalOrder(decl),
+    ...(decl.ladder.coupled ? { coupled: { ...decl.ladder.coupled } } : {}),
+  };
 }
 
 /** Whether the verdicts are the ones the study declares: on-order or exact by default (above-order only in a norm

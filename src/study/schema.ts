@@ -3,6 +3,7 @@ import { RungsInputError } from '../errors.ts';
 import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
 import { builtInNorms, externalFieldNorms } from './discretizations/system-norms.ts';
 import { defaultNorms } from './expected.ts';
+import { TIME_ORDER, type TimeMethodName } from '../fem/time/methods.ts';
 import { externalDiscretizationSchema, quantityNamesSchema } from '../external/schema.ts';
 
 const fn = (what: string) => z.custom<(...a: never[]) => unknown>((v) => typeof v === 'function', { message: `expected ${what} (a function)` });
@@ -49,16 +50,27 @@ const pde = z.object({
 
 const exactFunctions = z.object({ u: fn('u(x, y, z)'), grad: fn('grad(x, y, z, out)'), f: fn('f(x, y, z)') }).strict();
 
+const increasing = (list: number[], key: string, what: string, ctx: RefineContext) => {
+  for (let i = 1; i < list.length; i++) {
+    if (!(list[i] > list[i - 1])) ctx.addIssue({ code: 'custom', path: [key, i], message: `${key} must increase level by level (${what}): ${list[i - 1]} then ${list[i]}` });
+  }
+};
+
 const ladder = z.object({
-  n: z.array(positiveInt).min(2, 'a ladder needs at least 2 levels'),
+  n: z.array(positiveInt).min(1, 'a ladder needs at least one value of n'),
+  steps: z.array(positiveInt).min(1).optional(),
+  dt: z.array(z.number().positive({ message: 'expected a positive time step' }).finite()).min(1).optional(),
+  coupled: z.object({
+    c: z.number().positive({ message: 'expected a positive factor c of Δt = c·h^exponent' }).finite(),
+    exponent: z.number().positive({ message: 'expected a positive exponent (Δt = c·h^exponent must shrink with h; p/q balances the spatial and temporal errors)' }).finite(),
+  }).strict().optional(),
+  grid: z.boolean().optional(),
   perturb: z.object({ fraction: z.number().min(0).max(0.35), seed: z.number().int().optional() }).strict().optional(),
   quick: z.number().int().min(2).optional(),
 }).strict().superRefine((l, ctx) => {
-  for (let i = 1; i < l.n.length; i++) {
-    if (!(l.n[i] > l.n[i - 1])) {
-      ctx.addIssue({ code: 'custom', path: ['n', i], message: `n must increase level by level (h decreasing): ${l.n[i - 1]} then ${l.n[i]}` });
-    }
-  }
+  increasing(l.n, 'n', 'h decreasing', ctx);
+  if (l.steps) increasing(l.steps, 'steps', 'Δt decreasing', ctx);
+  if (l.dt) increasing(l.dt.map((d) => -d), 'dt', 'Δt decreasing', ctx);
 });
 
 export const studySchema = z.object({
@@ -79,6 +91,11 @@ export const studySchema = z.object({
   }).strict().optional(),
   discretization,
   ladder,
+  time: z.object({
+    final: z.number().positive({ message: 'expected the final time T, a positive number (time: { final: 1 })' }).finite(),
+    stepper: z.enum(Object.keys(TIME_ORDER) as [TimeMethodName, ...TimeMethodName[]]).optional(),
+    order: z.number().positive({ message: 'expected a positive temporal order (errors fall like Δt^q with q > 0)' }).finite().optional(),
+  }).strict().optional(),
   // Built-in norms, or (an external code's own errors) any name with the expected order the study declares.
   norms: z.array(z.string().regex(/^[A-Za-z][A-Za-z0-9_.-]*$/, 'expected a norm name of letters, digits, "_", "." or "-"')).min(1).optional(),
   quantities: quantityNamesSchema.optional(),
@@ -108,6 +125,7 @@ export const studySchema = z.object({
     growth: z.number().gt(1).finite().optional(),
   }).strict().optional(),
 }).strict().superRefine((s, ctx) => {
+  checkTimeLadder(s as unknown as StudyDeclaration, ctx);
   if (s.exact === undefined && !(s.discretization.kind === 'external' && s.quantities?.length)) {
     ctx.addIssue({ code: 'custom', path: ['exact'], message: 'missing: give the exact solution (a formula in x, y, z or { u, grad, f }); only an external study that declares quantities may leave it out' });
   }
@@ -150,6 +168,61 @@ export const studySchema = z.object({
 });
 
 type RefineContext = Parameters<Parameters<z.ZodType['superRefine']>[0]>[1];
+
+/** The ladder of a study with time (src/study/time-ladder.ts): one axis refined at a time, a coupled path or a grid;
+ *  a steady study has no time ladder. */
+function checkTimeLadder(s: StudyDeclaration, ctx: RefineContext): void {
+  const l = s.ladder;
+  const issue = (path: (string | number)[], message: string) => ctx.addIssue({ code: 'custom', path, message });
+  const timeKeys = (['steps', 'dt', 'coupled', 'grid'] as const).filter((k) => l[k] !== undefined);
+  if (!s.time) {
+    if (timeKeys.length) issue(['ladder', timeKeys[0]!], `belongs to a study with time; give time: { final: T${s.discretization.kind === 'lagrange' ? ", stepper: 'bdf2'" : ''} } or leave ladder.${timeKeys[0]} out`);
+    else if (l.n.length < 2) issue(['ladder', 'n'], 'a ladder needs at least 2 levels');
+    return;
+  }
+  const T = s.time.final;
+  if (l.dt) {
+    if (l.steps) { issue(['ladder', 'dt'], 'give either steps or dt, not both'); return; }
+    // Equal steps that end exactly at T: Δt must divide T (to round-off).
+    const bad = l.dt.findIndex((d) => Math.abs(T / d - Math.round(T / d)) > 1e-9 * (T / d));
+    if (bad >= 0) {
+      const d = l.dt[bad]!;
+      issue(['ladder', 'dt', bad], `Δt = ${d} does not divide the final time T = ${T} (T/Δt = ${(T / d).toPrecision(6)}); rungs takes equal steps that end at T: give a Δt such as ${T / Math.ceil(T / d)} (${Math.ceil(T / d)} steps), or the steps themselves (ladder.steps)`);
+      return;
+    }
+  }
+  const stepsList = l.steps ?? l.dt?.map((d) => Math.round(T / d));
+  if (!stepsList && !l.coupled) {
+    issue(['ladder'], `missing: a study with time needs a time ladder: steps: [16, 32, 64, 128] on one mesh (n: [64]) for the temporal order, steps: [1024] with several n for the spatial order, coupled: { c, exponent } for Δt = c·h^exponent, or several of both with grid: true`);
+    return;
+  }
+  if (stepsList && l.coupled) { issue(['ladder', 'coupled'], 'give either steps (dt) or coupled, not both'); return; }
+  const nSteps = stepsList?.length ?? 0;
+  if (l.grid) {
+    if (l.coupled) issue(['ladder', 'grid'], 'a grid runs every pair of n and steps; a coupled path derives the steps from n: give one of them');
+    else if (l.n.length < 2 || nSteps < 2 || l.n.length * nSteps < 5) {
+      issue(['ladder', 'grid'], `a two-axis design needs at least two values of n, two of steps and five pairs in all (to fit C_h, p, C_t and q with a degree of freedom left); got ${l.n.length} × ${nSteps}`);
+    }
+  } else if (stepsList) {
+    if (l.n.length > 1 && nSteps > 1) {
+      issue(['ladder', 'steps'], `both n (${l.n.length} values) and steps (${nSteps} values) vary: give one value of n (temporal order), one value of steps (spatial order), grid: true (every pair, fitted jointly) or coupled: { c, exponent } (Δt = c·h^exponent)`);
+    } else if (l.n.length < 2 && nSteps < 2) {
+      issue(['ladder'], 'a ladder needs at least 2 levels: several steps on one mesh, or several n at one steps value');
+    }
+  } else if (l.n.length < 2) {
+    issue(['ladder', 'n'], 'a coupled path needs at least 2 values of n');
+  }
+  const d = s.discretization;
+  if (d.kind === 'lagrange' && !s.time.stepper) {
+    issue(['time', 'stepper'], `missing: rungs's own elements need a time stepper: one of ${Object.keys(TIME_ORDER).map((k) => `'${k}'`).join(', ')}`);
+  }
+  if (d.kind !== 'lagrange' && s.time.stepper) {
+    issue(['time', 'stepper'], `names one of rungs's own steppers, but the ${d.kind} discretization advances in time itself; give its temporal order instead (time: { final: ${T}, order: 2 })`);
+  }
+  if (d.kind !== 'lagrange' && s.time.order === undefined) {
+    issue(['time', 'order'], `missing: the expected temporal order of the ${d.kind} code's stepper (time: { final: ${T}, order: 2 } for a second-order method)`);
+  }
+}
 
 /** The `external` part: `field` names the VTK array of today's scalar equation, `fields` the arrays of a system's
  *  fields (each a field of the pde); a Taylor–Hood preset needs the velocity degree to read its pressure with degree

@@ -46,7 +46,7 @@ export interface StudySpec {
 const T95 = [Number.NaN, 12.706, 4.303, 3.182, 2.776];
 
 /** Least-squares slope of ln e against ln h over the finest `window` levels (demo numbers, not the analysis module). */
-function demoFit(h: number[], e: number[], window: number): SeriesAnalysis['fit'] {
+export function demoFit(h: number[], e: number[], window: number): SeriesAnalysis['fit'] {
   const first = Math.max(0, h.length - window);
   const xs = h.slice(first).map(Math.log);
   const ys = e.slice(first).map(Math.log);

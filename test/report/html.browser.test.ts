@@ -6,6 +6,7 @@ import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeReportFiles } from '../../src/report/write.ts';
 import { demoResults } from './fixture.ts';
+import { timeResults } from './time-fixture.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const hasChromium = existsSync(CHROMIUM);
@@ -99,6 +100,113 @@ describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' :
     const breaks = await page.locator('section.study').evaluateAll((els) => els.map((e) => getComputedStyle(e).breakBefore));
     expect(breaks.every((b) => b === 'page')).toBe(true);
     await page.emulateMedia({ media: 'screen' });
+  });
+
+  it('saves a screenshot of the page', async () => {
+    const path = join(REPORTS, 'index.png');
+    await page.screenshot({ path, fullPage: true });
+    expect(existsSync(path)).toBe(true);
+  });
+});
+
+describe.skipIf(!hasChromium)(`HTML report of studies with time in a real browser${hasChromium ? '' : ' (skipped: no chromium)'}`, () => {
+  const results = timeResults();
+  let browser: Browser;
+  let page: Page;
+  const consoleErrors: string[] = [];
+  const requests: string[] = [];
+  let REPORTS = '';
+
+  beforeAll(async () => {
+    REPORTS = mkdtempSync(join(tmpdir(), 'rungs-browser-time-'));
+    const out = join(REPORTS, 'rod');
+    expect(writeReportFiles(out, results, { meta: { generatedAt: '2025-03-14T10:30:00Z' } }).failed).toEqual([]);
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
+    page.on('console', (m) => {
+      if (m.type() === 'error') consoleErrors.push(m.text());
+    });
+    page.on('pageerror', (e) => consoleErrors.push(e.message));
+    page.on('request', (r) => requests.push(r.url()));
+    await page.goto(pathToFileURL(join(out, 'index.html')).href, { waitUntil: 'load' });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    if (REPORTS) rmSync(REPORTS, { recursive: true, force: true });
+  });
+
+  it('loads without console errors and without fetching anything but the page itself', () => {
+    expect(consoleErrors).toEqual([]);
+    expect(requests.filter((u) => !u.startsWith('file://'))).toEqual([]);
+  });
+
+  it('shows each ladder sentence, and the Δt label under the plot of the ladder in Δt', async () => {
+    for (const r of results) {
+      const line = r.study === 'rod-be-dt' ? 'Δt refined on a fixed mesh (n = 64)' : 'time: T = ';
+      expect(await page.locator(`section.study[data-study="${r.study}"] .time-design`).innerText()).toContain(line);
+    }
+    const dt = page.locator('section.study[data-study="rod-be-dt"] svg.rungs-plot');
+    expect(await dt.locator('.axis-x .axis-label').textContent()).toBe('time step Δt');
+    expect(await dt.locator('.axis-x .axis-label').isVisible()).toBe(true);
+    expect(await dt.locator('.slope-triangle').count()).toBe(2);
+  });
+
+  it('draws every panel of a two-axis plot with labelled decades, and its legends inside the drawing without overlap', async () => {
+    for (const study of ['rod-be-grid', 'rod-cn-grid-slow']) {
+      const plot = page.locator(`section.study[data-study="${study}"] svg.rungs-grid-plot`);
+      const box = (await plot.boundingBox())!;
+      // Fits the page's content column without scaling its 12 px text below legibility.
+      expect(box.width).toBeGreaterThan(800);
+      const panels = plot.locator('.panel');
+      expect(await panels.count()).toBe(4);
+      for (let i = 0; i < 4; i++) {
+        const panel = panels.nth(i);
+        for (const axis of ['axis-x', 'axis-y']) {
+          const labels = panel.locator(`.${axis} .tick-label`);
+          expect(await labels.count()).toBeGreaterThanOrEqual(2);
+          for (const text of await labels.allTextContents()) expect(text).toMatch(/^10[−]?\d+$/);
+        }
+        expect(await panel.locator('.slice-line').count()).toBe(4);
+        expect(await panel.locator('.slice-fit').count()).toBe(4);
+        const boxes = [];
+        for (const entry of await panel.locator('.legend-entry text').all()) {
+          const b = (await entry.boundingBox())!;
+          expect(b.width).toBeGreaterThan(0);
+          expect(b.x + b.width).toBeLessThanOrEqual(box.x + box.width + 1);
+          expect(b.y + b.height).toBeLessThanOrEqual(box.y + box.height + 1);
+          boxes.push(b);
+        }
+        // No two legend texts of a panel overlap (axis-aligned boxes, 1 px slack).
+        for (let a = 0; a < boxes.length; a++) {
+          for (let b = a + 1; b < boxes.length; b++) {
+            const p = boxes[a];
+            const q = boxes[b];
+            const overlap = p.x < q.x + q.width - 1 && q.x < p.x + p.width - 1 && p.y < q.y + q.height - 1 && q.y < p.y + p.height - 1;
+            expect(overlap).toBe(false);
+          }
+        }
+        // The left legend column stays clear of the right panel.
+        if (i % 2 === 0) {
+          const next = (await panels.nth(i + 1).locator('.plot-area').boundingBox())!;
+          for (const b of boxes) expect(b.x + b.width).toBeLessThanOrEqual(next.x);
+        }
+      }
+    }
+  });
+
+  it('shows the joint-fit table with both verdicts and the reasons, within the page width', async () => {
+    const table = page.locator('section.study[data-study="rod-cn-grid-slow"] table.joint-fits');
+    expect(await table.isVisible()).toBe(true);
+    const text = await table.innerText();
+    expect(text).toContain('✗ below-order');
+    expect(text).toContain('q = 1.01 [0.98, 1.04] is below the expected 2 (tolerance 0.1)');
+    const main = (await page.locator('main').boundingBox())!;
+    const b = (await table.boundingBox())!;
+    expect(b.x + b.width).toBeLessThanOrEqual(main.x + main.width + 1);
   });
 
   it('saves a screenshot of the page', async () => {

@@ -22,4 +22,10 @@ describe.each(files)('%s', async (file) => {
       for (const a of below) expect(a.reasons.join(' ')).toMatch(/expected|order/);
     });
   }
+  if (d.time && d.expect?.verdict === 'below-order') {
+    it('says that the order is lost in time, and points at the stepper', () => {
+      const below = result.analyses.filter((a) => a.verdict === 'below-order');
+      for (const a of below) expect(a.reasons.join(' ')).toMatch(/rates in Δt are stable at .* a consistent loss of temporal order — typical of a time-stepping slip/);
+    });
+  }
 });

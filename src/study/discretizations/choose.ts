@@ -8,6 +8,7 @@ import { builtInElasticity } from './elasticity.ts';
 import { builtInStokes } from './stokes.ts';
 import { builtInNonlinearDiffusion } from './nonlinear-diffusion.ts';
 import { builtInMixedElasticity } from './mixed-elasticity.ts';
+import { builtInHeat } from './heat.ts';
 import type { LevelDiscretization } from './types.ts';
 
 /** The discretization object of a study: the one place that looks at its kind and its equation. */
@@ -22,7 +23,8 @@ export function levelDiscretization(decl: StudyDeclaration, problem: StudyProble
     case 'stokes': return builtInStokes(disc);
     case 'nonlinear-diffusion': return builtInNonlinearDiffusion(disc);
     case 'nearly-incompressible-elasticity': return builtInMixedElasticity(disc);
+    case 'heat': return builtInHeat(disc);
     default:
-      throw new RungsInputError(`${file} (study '${decl.name}'): discretization: rungs's own elements solve the presets diffusionConvectionReaction, linearElasticity, nearlyIncompressibleElasticity, stokes and nonlinearDiffusion; for ${problem.pde.label ?? 'a pde of your own'} use external({ command, ... })`, file);
+      throw new RungsInputError(`${file} (study '${decl.name}'): discretization: rungs's own elements solve the presets diffusionConvectionReaction, heat, linearElasticity, nearlyIncompressibleElasticity, stokes and nonlinearDiffusion; for ${problem.pde.label ?? 'a pde of your own'} use external({ command, ... })`, file);
   }
 }

@@ -27,6 +27,13 @@ export function normScales(decl: StudyDeclaration, problem: StudyProblem): Recor
     mesh, nDofs: 0, degree: 0, components,
     evaluate(_c, _p, n, v, g) { v.fill(0, 0, n * components); g.fill(0); },
   });
+  if (preset === 'heat') {
+    // The size of u at the final time; for the norms over time, of u at 0 and T (a scale for round-off, not a norm).
+    const T = decl.time?.final ?? 0;
+    const [e0] = fieldErrors([zero(1)], data.exact('u', 0), { degree: quadrature });
+    const [eT] = fieldErrors([zero(1)], data.exact('u', T), { degree: quadrature });
+    return { L2: eT.L2, H1semi: eT.H1semi, H1: eT.H1, maxNodal: Number.NaN, Linf_L2: Math.max(e0.L2, eT.L2), L2_H1: Math.sqrt(T) * Math.max(e0.H1, eT.H1) };
+  }
   const u = data.exact('u');
   const opts = preset === 'linear-elasticity'
     ? { divergence: true, degree: quadrature, elasticity: { lambda: scalarOf(data.point('coef_lambda')), mu: scalarOf(data.point('coef_mu')) } }

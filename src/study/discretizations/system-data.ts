@@ -11,10 +11,14 @@ import type { ExactField } from '../../norms/types.ts';
 /** The derived data of a system as point functions for rungs's own solvers: the same compiled functions the
  *  preflight check and values-at use (src/equation/bundle.ts), at t = 0 (steady problems). */
 export interface SystemData {
-  point(name: string): PointData;
+  /** A datum at time t (default 0, steady problems). */
+  point(name: string, t?: number): PointData;
+  /** A datum as a function of position and time, for time steppers. */
+  pointInTime(name: string): (x: number, y: number, z: number, t: number, out: Float64Array) => void;
   normal(name: string): NormalData;
   has(name: string): boolean;
-  exact(field: string): ExactField;
+  /** The exact field and its gradient at time t (default 0). */
+  exact(field: string, t?: number): ExactField;
 }
 
 export function systemData(study: string, derived: DerivedProblem): SystemData {
@@ -24,10 +28,15 @@ export function systemData(study: string, derived: DerivedProblem): SystemData {
     if (!f) throw new Error(`internal: no generated function ${name}`);
     return f;
   };
-  const point = (name: string): PointData => {
+  const point = (name: string, t = 0): PointData => {
     const f = get(name).evaluate;
     const args = new Float64Array(4);
-    return (x, y, z, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = 0; f(args, out); };
+    return (x, y, z, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = t; f(args, out); };
+  };
+  const pointInTime = (name: string) => {
+    const f = get(name).evaluate;
+    const args = new Float64Array(4);
+    return (x: number, y: number, z: number, t: number, out: Float64Array) => { args[0] = x; args[1] = y; args[2] = z; args[3] = t; f(args, out); };
   };
   const normal = (name: string): NormalData => {
     const f = get(name).evaluate;
@@ -35,11 +44,11 @@ export function systemData(study: string, derived: DerivedProblem): SystemData {
     return (x, y, z, nx, ny, nz, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = 0; args[4] = nx; args[5] = ny; args[6] = nz; f(args, out); };
   };
   return {
-    point, normal,
+    point, pointInTime, normal,
     has: (name) => fns.has(name),
-    exact(field) {
+    exact(field, t = 0) {
       const components = get(`exact_${field}`).outputs;
-      return { components, value: point(`exact_${field}`), grad: point(`grad_${field}`) };
+      return { components, value: point(`exact_${field}`, t), grad: point(`grad_${field}`, t) };
     },
   };
 }

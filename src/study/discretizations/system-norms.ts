@@ -26,12 +26,22 @@ export function builtInNorms(preset: PresetName, k: number): { orders: Record<st
       return { orders: { L2: k + 1, H1semi: k, H1: k, maxNodal: k + 1 }, defaults: ['L2', 'H1semi'] };
     case 'diffusion-convection-reaction':
       return { orders: { L2: k + 1, H1semi: k, H1: k, energy: k, maxNodal: k + 1 }, defaults: ['L2', 'H1semi'] };
+    case 'heat':
+      // Spatial orders of the semi-discrete heat equation are those of the steady problem (Thomée 2006, Galerkin
+      // Finite Element Methods for Parabolic Problems, Thms 1.2 and 1.5), at the final time and in the norms over
+      // time ℓ∞(0,T; L2) (Linf_L2) and ℓ2(0,T; H1) (L2_H1); the temporal order is the stepper's (TIME_ORDER).
+      return { orders: { L2: k + 1, H1semi: k, H1: k, maxNodal: k + 1, Linf_L2: k + 1, L2_H1: k }, defaults: ['L2', 'H1semi'] };
   }
 }
 
+/** Norms over the time levels t_0 … t_N of a study with time: ℓ∞(0,T; L2) = max_n ‖e(t_n)‖_L2 and
+ *  ℓ2(0,T; H1) = (Σ_{n=1..N} Δt ‖e(t_n)‖²_H1)^(1/2) (the right-endpoint rule, the sum the stability estimates of
+ *  implicit steppers bound; Thomée 2006, ch. 1). The norms without these names are taken at the final time T. */
+export const TIME_NORMS: readonly string[] = ['Linf_L2', 'L2_H1'];
+
 /** Norms of u − u_h that are global integrals (their order cannot exceed the best approximation's). */
 export function isGlobalNorm(name: string): boolean {
-  return /^(L2|H1semi|H1|energy)(_[A-Za-z][A-Za-z0-9_]*)?$/.test(name) || /^div_/.test(name);
+  return /^(L2|H1semi|H1|energy)(_[A-Za-z][A-Za-z0-9_]*)?$/.test(name) || /^div_/.test(name) || TIME_NORMS.includes(name);
 }
 
 /** Pointwise norms (nodal values may superconverge). */

@@ -12,6 +12,8 @@ export interface LevelEnvironment {
   data?: string;
 }
 
+export interface LevelTime { T: number; steps: number; dt: number }
+
 /** Everything one level of a study needs, the mesh already made. */
 export interface LevelInput {
   decl: StudyDeclaration;
@@ -20,6 +22,8 @@ export interface LevelInput {
   index: number;
   n: number;
   mesh: Mesh;
+  /** A study with time: the final time, the level's number of equal steps and Δt = T/steps. */
+  time?: LevelTime;
   /** The norms the study measures (or, for an external code, the errors it reports). */
   norms: readonly string[];
   solver: LevelContext['solver'];
