@@ -359,7 +359,22 @@ function workersPay(prepared: PreparedStudy[], minDofs: number): boolean {
   return largest >= minDofs && rest >= largest;
 }
 
+/** Runs the studies in this thread. External codes run in processes of their own, so their studies go in a second
+ *  lane beside rungs's own: while a solver process works on one core, this thread computes built-in levels on the
+ *  other (the lanes meet at every level's await; each lane keeps its studies' order, and every level is computed
+ *  exactly as alone, so the results are the same bits). */
 async function runSerial(prepared: PreparedStudy[], ctx: RunContext): Promise<void> {
+  const external = prepared.filter((p) => p.loaded.declaration.discretization.kind === 'external');
+  const own = prepared.filter((p) => p.loaded.declaration.discretization.kind !== 'external');
+  // Two lanes of external studies: their processes spend most of a short level starting up (an interpreter, a
+  // compiler), which overlaps well. Measured on 2 shared cores: the bundled studies' external lane took 30 s alone
+  // and 24 s in two lanes, beside the 25 s of rungs's own (load average 3-4).
+  const lanes: PreparedStudy[][] = [[], []];
+  for (const p of external) lanes[lanes[0]!.length <= lanes[1]!.length ? 0 : 1]!.push(p);
+  await Promise.all([...lanes.map((l) => runLane(l, ctx)), runLane(own, ctx)]);
+}
+
+async function runLane(prepared: PreparedStudy[], ctx: RunContext): Promise<void> {
   const { progress, onLevel, fail } = ctx;
   for (const p of prepared) {
     const decl = p.loaded.declaration;
@@ -373,6 +388,9 @@ async function runSerial(prepared: PreparedStudy[], ctx: RunContext): Promise<vo
         addLevel(p, level);
         progress.levelDone(decl.name, level, p.total);
         onLevel(p, level, true);
+        // A level of rungs's own runs synchronously: let the event loop see the other lane's finished processes
+        // (awaiting a settled promise only runs microtasks, not I/O callbacks).
+        await new Promise<void>((resolve) => setImmediate(resolve));
       }
     } catch (err) {
       progress.clear();
