@@ -57,6 +57,10 @@ Output, into the folder --out (rungs creates one per level), at the final time T
                   VTK_QUADRATIC_EDGE = 21 for P2), point array 'temperature'; and errors.json with dofs, h, cells
                   and the time steps under info
   --write errors  errors.json with dofs, h, cells and the L2 and H1-seminorm errors at T ((p + 4)-point rule)
+  --write-series  (with --write vtk) every time level instead of the final time alone: solution-<k>.vtk at
+                  t_k = k dt for k = 0 .. steps (k = 0 the initial data, k = steps the final time, the same file
+                  solution.vtk would be), each written as soon as its step is done; solution.vtk is then not written.
+                  rungs measures every file against u(., t_k) for the norms over time (Linf_L2, L2_H1).
 
 Arguments left out are read from RUNGS_N, RUNGS_STEPS, RUNGS_T, RUNGS_DEGREE, RUNGS_OUT and RUNGS_DATA.
 """
@@ -327,8 +331,12 @@ def alexander_dirk3():
     return g, [[g], [tau - g, g], [b1, b2, g]], [g, tau, 1.0]
 
 
-def run(rod, k, T, steps, method, flaw, stage_boundary):
-    """Advances from the initial data to T; returns the nodal values at T."""
+def run(rod, k, T, steps, method, flaw, stage_boundary, on_level=None):
+    """Advances from the initial data to T; returns the nodal values at T. on_level(j, U), when given, is called with
+    the nodal values of every time level j = 0 .. steps as soon as they are known (U is the stepper's own list: use it
+    before returning)."""
+    if on_level is None:
+        on_level = lambda j, values: None
     dt = T / steps
     size = rod.size
     M, K = rod.assemble(k)
@@ -340,6 +348,8 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
 
     def set_boundary(v, t):
         v[0], v[-1] = exact(a, t), exact(b, t)
+
+    on_level(0, U)
 
     if method in ("cn", "bdf2"):
         cn = BandSolver(combine(M, K, dt / 2.0))
@@ -358,6 +368,7 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
             set_boundary(U, t1)
             cn.solve(rhs, U)
             F0, F1 = F1, F0
+            on_level(step + 1, U)
         return U
 
     if method == "be":
@@ -370,6 +381,7 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
                 rhs[i] = MU[i] + dt * F1[i]
             set_boundary(U, t1)
             solver.solve(rhs, U)
+            on_level(step + 1, U)
         return U
 
     if method == "bdf2":
@@ -384,6 +396,7 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
             rhs[i] = MU[i] - dt / 2.0 * KU[i] + dt / 2.0 * (F0[i] + F1[i])
         set_boundary(U, dt)
         cn.solve(rhs, U)
+        on_level(1, U)
         combo = KU  # reused as work list
         for step in range(1, steps):
             t1 = (step + 1) * dt
@@ -396,6 +409,7 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
             previous, U = U, previous
             set_boundary(U, t1)
             bdf.solve(rhs, U)
+            on_level(step + 1, U)
         return U
 
     # dirk3: stage i solves (M + gamma dt K) U_i = M W_i + gamma dt F(t_n + c_i dt), W_i = U^n + dt sum_{j<i} a_ij k_j,
@@ -433,6 +447,7 @@ def run(rod, k, T, steps, method, flaw, stage_boundary):
                 slope[j] = (stage[j] - W[j]) / (gamma * dt)
         U, stage = stage, U                       # stiffly accurate: the last stage is the new value
         set_boundary(U, t0 + dt)
+        on_level(step + 1, U)
     return U
 
 
@@ -502,6 +517,8 @@ def main(argv):
     parser.add_argument("--data", default=os.environ.get("RUNGS_DATA"), help="folder holding rungs_data.py (default RUNGS_DATA)")
     parser.add_argument("--out", default=os.environ.get("RUNGS_OUT"), help="output folder (default RUNGS_OUT)")
     parser.add_argument("--write", choices=["vtk", "errors"], default="vtk")
+    parser.add_argument("--write-series", action="store_true",
+                        help="with --write vtk: write every time level k = 0 .. steps as solution-<k>.vtk (not solution.vtk)")
     parser.add_argument("--check-rule", action="store_true", help="only check the Gauss rules' exactness and exit")
     args = parser.parse_args(argv)
     if args.check_rule:
@@ -532,6 +549,8 @@ def main(argv):
         parser.error("--out is required (or set RUNGS_OUT)")
     if not args.data:
         parser.error("--data is required (or set RUNGS_DATA): the folder of the generated rungs_data.py")
+    if args.write_series and args.write != "vtk":
+        parser.error("--write-series writes VTK files, one per time level; use it with --write vtk")
 
     problem = load_data(args.data)
     check_problem(problem)
@@ -558,7 +577,11 @@ def main(argv):
                 fail(f"coef_k must be positive; k({x!r}) = {k0!r}")
     os.makedirs(args.out, exist_ok=True)
 
-    values = run(rod, k, T, steps, args.method, args.flaw, args.stage_boundary)
+    on_level = None
+    if args.write_series:
+        def on_level(j, level_values):
+            write_legacy_vtk(os.path.join(args.out, f"solution-{j}.vtk"), rod, level_values)
+    values = run(rod, k, T, steps, args.method, args.flaw, args.stage_boundary, on_level)
     if not all(math.isfinite(v) for v in values):
         sys.stderr.write("rod_heat.py: the solution is not finite\n")
         sys.exit(1)
@@ -567,7 +590,7 @@ def main(argv):
                         "degree": degree, "stage_boundary": args.stage_boundary if args.method == "dirk3" else None}}
     if args.write == "errors":
         summary["errors"] = errors_at(rod, values, T)
-    else:
+    elif not args.write_series:
         write_legacy_vtk(os.path.join(args.out, "solution.vtk"), rod, values)
     with open(os.path.join(args.out, "errors.json"), "w") as f:
         json.dump(summary, f, allow_nan=False, indent=2)

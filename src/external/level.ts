@@ -82,7 +82,7 @@ export async function runExternalLevel(spec: ExternalDiscretization, level: Exte
     const t = performance.now();
     const output = readLevelOutput(spec.output, work, {
       level: ref, h: level.h, norms: level.norms, quantities: level.quantities, degree: spec.degree, field: spec.field,
-      fields: level.fields, maxOutputBytes: spec.maxOutputBytes,
+      fields: level.fields, maxOutputBytes: spec.maxOutputBytes, steps: level.time?.steps,
       context: `; command: ${showArgv(run.argv)}${tailNote(run.stderr, run.stdout)}`,
     });
     moveLevelIntoPlace(work, level.outDir, ref);

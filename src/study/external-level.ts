@@ -1,6 +1,8 @@
 // An external level's output as a study level result: the errors the solver reported, or (for a VTK solution)
 // the errors of its field(s) integrated with src/norms like any rungs field, with those of the nodal interpolants on
 // the file's own nodes.
+import { basename, dirname, join } from 'node:path';
+import { RungsInputError } from '../errors.ts';
 import { errorNorms, type ErrorOptions } from '../norms/errors.ts';
 import { fieldErrors, type FieldErrorOptions, type FieldNormValues } from '../norms/field-errors.ts';
 import { interpolate, lagrangeField } from '../fem/field/lagrange-field.ts';
@@ -10,7 +12,12 @@ import type { DiscreteField, ExactField, ExactSolution, NormValues } from '../no
 import type { ExternalLevelRun, VtkSystemField } from '../external/index.ts';
 import type { PresetName } from '../equation/types.ts';
 import type { LevelResult } from './result.ts';
+import { levelRuns, readSolutionFile, solutionSeries, SOLUTION_FILES, type ReadOutputOptions } from '../external/output.ts';
+import { outputLimit } from '../external/vtk/limits.ts';
+import { levelLabel } from '../external/where.ts';
 import { scalarOf } from './discretizations/system-common.ts';
+import { TIME_NORMS } from './discretizations/system-norms.ts';
+import { timeNormSums } from './discretizations/time-norms.ts';
 import { inverseLambdaPressureNorms, shearEnergyOptions } from './discretizations/mixed-elasticity.ts';
 
 /** What rungs needs to measure the fields of a system read from VTK: the exact field of each, which are mean-free,
@@ -42,6 +49,20 @@ export interface ExternalResultOptions {
   symmetric?: boolean;
   /** The fields of a system (VTK output read with fields). */
   system?: SystemMeasure;
+  /** A study with time whose norms include the norms over time (TIME_NORMS): the code's series of VTK files. */
+  overTime?: SeriesMeasure;
+}
+
+/** What measures the norms over time of a lone scalar field from the solver's series of VTK files, one per time level
+ *  (src/external/output.ts SERIES_FILE): every file against u(·, t_k), t_k = k·Δt, the last one (k = steps) being the
+ *  file already read for the final time. */
+export interface SeriesMeasure {
+  steps: number;
+  dt: number;
+  /** The exact field at time t. */
+  exactAt(t: number): ExactField;
+  /** How each file is read: as the file of the final time (the study, level, degree, array, size limit). */
+  read: Pick<ReadOutputOptions, 'level' | 'degree' | 'field' | 'fields' | 'maxOutputBytes'>;
 }
 
 /** A LevelResult row for an external level, and the quantities the solver reported. */
@@ -61,6 +82,10 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
     cells = out.mesh.nCells;
     if (!opts.system) throw new Error('internal: the fields of a system were read without what measures them');
     const m = systemErrors(out.fields, opts.system, opts.interpolation ?? true);
+    if (opts.overTime && opts.norms.some((nm) => TIME_NORMS.includes(nm))) {
+      Object.assign(m.errors, seriesNorms(out.file, out.fields, opts.overTime));
+      if (m.interpolation) Object.assign(m.interpolation, { Linf_L2: Number.NaN, L2_H1: Number.NaN });
+    }
     errors = pick(m.errors);
     interpolationErrors = m.interpolation ? pick(m.interpolation) : undefined;
     quasiOptimality = m.quasiOptimality;
@@ -161,4 +186,48 @@ function name(into: Record<string, number>, v: FieldNormValues, suffix: string):
   into[`H1${suffix}`] = v.H1;
   into[`maxNodal${suffix}`] = v.maxNodal;
   if (v.div !== undefined) into[`div${suffix}`] = v.div;
+}
+
+/**
+ * Linf_L2 and L2_H1 of a lone scalar field from the series of VTK files in the level folder of `finalFile`, with the
+ * same sums as rungs's own heat stepper (time-norms.ts): time level k = 0 … steps read one file at a time, measured
+ * against u(·, k·Δt) with fieldErrors' default rule (as heat.ts measures its own levels) and dropped before the next
+ * is read; level `steps` is the field already read for the final time. A series with a gap, or a single solution file,
+ * is refused naming the level folder, the missing time levels and what to write.
+ */
+export function seriesNorms(finalFile: string, finalFields: readonly VtkSystemField[], m: SeriesMeasure): { Linf_L2: number; L2_H1: number } {
+  const dir = dirname(finalFile);
+  const series = solutionSeries(dir, m.steps, m.read.level);
+  const label = levelLabel(m.read.level);
+  const asked = `the study measures the norms over time (${TIME_NORMS.join(', ')}), which need the solution at every time level`;
+  const howTo = `write solution-<k>.vtk (or .vtu) for every time level t_k = k·Δt, k = 0 … ${m.steps} (Δt = ${m.dt}), ` +
+    `k = 0 the initial data and k = ${m.steps} the final time`;
+  if (!series) {
+    throw new RungsInputError(
+      `${label}: ${dir}: ${asked}, but the solver wrote only the final time (${basename(finalFile)}); ${howTo}, in place of ${SOLUTION_FILES.join(' / ')}`,
+      dir,
+    );
+  }
+  if (series.missing.length) {
+    throw new RungsInputError(
+      `${label}: ${dir}: ${asked}, but the series lacks time level${series.missing.length > 1 ? 's' : ''} ${levelRuns(series.missing)} ` +
+        `of 0 … ${m.steps}; ${howTo}`,
+      dir,
+    );
+  }
+  if (finalFields.length !== 1 || finalFields[0]!.kind !== 'scalar') throw new Error('internal: the norms over time are measured for one scalar field');
+  const sums = timeNormSums(m.dt);
+  const limit = outputLimit(m.read.maxOutputBytes);
+  for (let k = 0; k <= m.steps; k++) {
+    let field: DiscreteField;
+    if (k === m.steps) {
+      field = finalFields[0]!.field;
+    } else {
+      const content = readSolutionFile(join(dir, series.files[k]!), m.read, limit);
+      field = 'system' in content ? content.system.fields[0]!.field : content.field;
+    }
+    const [e] = fieldErrors([field], m.exactAt(k * m.dt));
+    sums.add(k, e!);
+  }
+  return sums.values();
 }

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { RungsInputError } from '../errors.ts';
 import { NORM_NAMES, type StudyDeclaration } from './declaration.ts';
-import { builtInNorms, externalFieldNorms } from './discretizations/system-norms.ts';
+import { builtInNorms, externalFieldNorms, TIME_NORMS } from './discretizations/system-norms.ts';
 import { defaultNorms } from './expected.ts';
 import { TIME_ORDER, type TimeMethodName } from '../fem/time/methods.ts';
 import { externalDiscretizationSchema, quantityNamesSchema } from '../external/schema.ts';
@@ -140,6 +140,19 @@ export const studySchema = z.object({
   if (s.discretization.kind === 'external') checkExternalFields(s as unknown as StudyDeclaration, ctx);
   (s.norms ?? []).forEach((nm, i) => {
     if (measured.includes(nm)) return;
+    // The norms over time: measured by rungs's own heat stepper, and from an external code's series of VTK files
+    // (a lone scalar field); an external code's errors file may still report a norm of that name itself.
+    const ownErrors = s.discretization.kind === 'external' && s.discretization.output === 'errors';
+    if (TIME_NORMS.includes(nm) && !ownErrors) {
+      const what = `'${nm}' is a norm over the time levels t_0 … t_N (${nm === 'Linf_L2' ? 'max_n ‖e(t_n)‖_L2' : '(Σ_n Δt ‖e(t_n)‖²_H1)^(1/2)'})`;
+      ctx.addIssue({
+        code: 'custom', path: ['norms', i],
+        message: !s.time
+          ? `${what}, but this study is steady (no time: { final }); measure ${measured.join(', ')}, or give the problem a time derivative (pde: heat({ k }) or dt(u)), an exact solution in x and t and time: { final, … }`
+          : `${what}; rungs measures it for a single scalar field (the heat preset, or a pde of one scalar field with dt(u)) solved by its own stepper or written by an external code as VTK, one file per time level; here measure ${measured.filter((m) => !TIME_NORMS.includes(m)).join(', ')}, or let the code report it (output: 'errors', with its expected order)`,
+      });
+      return;
+    }
     if (fieldTable) {
       ctx.addIssue({ code: 'custom', path: ['norms', i], message: `'${nm}' is not a norm rungs measures on the fields of ${preset ?? 'this pde'} (${measured.join(', ')}); with output: 'vtk' rungs integrates every error itself` });
     } else if (s.discretization.kind !== 'external') {

@@ -2,15 +2,17 @@ import { join } from 'node:path';
 import { RungsInputError } from '../../errors.ts';
 import { runExternalLevel, levelFolder, type VtkFieldRequest } from '../../external/index.ts';
 import type { ExternalDiscretization } from '../../external/types.ts';
-import { externalLevelResult, type SystemMeasure } from '../external-level.ts';
+import { externalLevelResult, type SeriesMeasure, type SystemMeasure } from '../external-level.ts';
 import { fileStem } from '../names.ts';
 import type { StudyDeclaration } from '../declaration.ts';
 import type { StudyProblem } from '../problem.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
+import { TIME_NORMS } from './system-norms.ts';
 
 /** An external code run per level through its command template; its errors are read (or its solution integrated:
- *  one scalar field of today's equation, or every field of a system). */
+ *  one scalar field of today's equation, or every field of a system; in a study with time the solution at T, and for
+ *  the norms over time every time level of a lone scalar field, one VTK file each). */
 export function externalDiscretization(disc: ExternalDiscretization): LevelDiscretization {
   return {
     label: disc.label ?? 'external code',
@@ -24,9 +26,16 @@ export function externalDiscretization(disc: ExternalDiscretization): LevelDiscr
       });
       const tSolve = seconds(t);
       t = performance.now();
+      // The norms over time: the code's series of VTK files, one per time level (src/external/output.ts SERIES_FILE).
+      const overTime: SeriesMeasure | undefined = system?.exactAt && time && norms.some((nm) => TIME_NORMS.includes(nm))
+        ? {
+          steps: time.steps, dt: time.dt, exactAt: system.exactAt,
+          read: { level: { study: decl.name, index, n }, degree: disc.degree, fields: system.requests, maxOutputBytes: disc.maxOutputBytes },
+        }
+        : undefined;
       const { level, quantities } = externalLevelResult(run, {
         index, n, exact: exact ?? undefined, norms, errorOptions: { k: coefficients.k, c: coefficients.c }, symmetric: problem.symmetric,
-        system: system?.measure,
+        system: system?.measure, overTime,
       });
       return {
         dofs: level.dofs, h: level.h, cells: level.cells, errors: level.errors, interpolationErrors: level.interpolationErrors, quasiOptimality: level.quasiOptimality,
@@ -43,7 +52,9 @@ const TAYLOR_HOOD = new Set(['stokes', 'nearly-incompressible-elasticity']);
 /** The arrays to read for each field of the pde (in its declaration order: the displacement or velocity first) and
  *  what measures them. A field's degree: declared in `fields`, else the preset's (the Taylor–Hood pressure one below
  *  the study's degree, read from the corners of the quadratic cells), else the cells' own. */
-function systemOf(disc: ExternalDiscretization, decl: StudyDeclaration, problem: StudyProblem, file: string): { requests: VtkFieldRequest[]; measure: SystemMeasure } {
+function systemOf(disc: ExternalDiscretization, decl: StudyDeclaration, problem: StudyProblem, file: string): {
+  requests: VtkFieldRequest[]; measure: SystemMeasure; exactAt?: SeriesMeasure['exactAt'];
+} {
   const derived = problem.derived!;
   const where = `${file} (study '${decl.name}')`;
   const preset = problem.pde.preset?.name;
@@ -71,5 +82,7 @@ function systemOf(disc: ExternalDiscretization, decl: StudyDeclaration, problem:
     lambda: elastic ? data.point('coef_lambda') : undefined,
     mu: elastic ? data.point('coef_mu') : undefined,
   };
-  return { requests, measure };
+  // A lone scalar field of a study with time: u(·, t) at each time level of the code's series.
+  const exactAt = lone && decl.time ? (t: number) => data.exact(names[0]!, t) : undefined;
+  return { requests, measure, exactAt };
 }

@@ -13,6 +13,7 @@ import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
 import { pickNorms, refuseRobin, scalarOf } from './system-common.ts';
 import { TIME_NORMS } from './system-norms.ts';
+import { timeNormSums } from './time-norms.ts';
 
 /** The norms at one time level, as the study names them. */
 const atTime = (v: FieldNormValues): Record<string, number> => ({ L2: v.L2, H1semi: v.H1semi, H1: v.H1, maxNodal: v.maxNodal });
@@ -54,7 +55,7 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       const kDegree = typeof k === 'number' || k === undefined ? 0 : null;
       const deg = systemDegrees(mesh.cellKind, disc.degree, kDegree, null);
       const measureOverTime = norms.some((nm) => TIME_NORMS.includes(nm));
-      let maxL2 = 0, sumH1 = 0;
+      const overTime = timeNormSums(time.dt);
       const exactAt = (t: number) => data.exact('u', t);
       const run = solveHeat({
         space: singleField('u', space),
@@ -70,8 +71,7 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
         onTimeLevel: measureOverTime
           ? (step, t, u) => {
             const [e] = fieldErrors([lagrangeField(space, u)], exactAt(t));
-            maxL2 = Math.max(maxL2, e.L2);
-            if (step > 0) sumH1 += time.dt * e.H1 * e.H1;
+            overTime.add(step, e);
           }
           : undefined,
       });
@@ -80,7 +80,7 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       const exactT = exactAt(time.T);
       const uT = scalarOf(exactT.value);
       const [e, ie] = fieldErrors([lagrangeField(space, run.u), lagrangeField(space, interpolate(space, uT))], exactT);
-      const over = { Linf_L2: maxL2, L2_H1: Math.sqrt(sumH1) };
+      const over = overTime.values();
       return {
         dofs: space.nDofs,
         errors: pickNorms({ ...atTime(e!), ...over }, norms),

@@ -53,8 +53,9 @@ export function isPointwiseNorm(name: string): boolean {
  *  expected orders for degree k (the study's degree: the displacement's or velocity's) where the preset gives them. */
 export interface FieldNormTable {
   /** Every norm measured: per field f, L2_f, H1semi_f, H1_f, maxNodal_f, and div_f for a vector field (a lone scalar
-   *  field without the suffix: L2, H1semi, …); energy for the elasticity presets. A mean-free field's norms are those
-   *  of its error less the error's mean. */
+   *  field without the suffix: L2, H1semi, …); energy for the elasticity presets; for a lone scalar field of a study
+   *  with time also the norms over time (TIME_NORMS), from a series of VTK files, one per time level. A mean-free
+   *  field's norms are those of its error less the error's mean. */
   names: string[];
   /** Expected orders: those of rungs's own elements for the preset (builtInNorms); none for a pde of the study's own. */
   orders: Record<string, number>;
@@ -62,8 +63,11 @@ export interface FieldNormTable {
   defaults: string[];
 }
 
-/** The table for the fields of a pde (see FieldNormTable). */
-export function fieldNorms(fields: Readonly<Record<string, 'scalar' | 'vector'>>, preset: PresetName | undefined, k: number | undefined): FieldNormTable {
+/** The table for the fields of a pde (see FieldNormTable); `time`: the study has time (the norms over time are then
+ *  measured for a lone scalar field). */
+export function fieldNorms(
+  fields: Readonly<Record<string, 'scalar' | 'vector'>>, preset: PresetName | undefined, k: number | undefined, time = false,
+): FieldNormTable {
   const entries = Object.entries(fields);
   const lone = entries.length === 1 && entries[0]![1] === 'scalar';
   const names: string[] = [];
@@ -76,6 +80,7 @@ export function fieldNorms(fields: Readonly<Record<string, 'scalar' | 'vector'>>
   }
   const elastic = preset === 'linear-elasticity' || preset === 'nearly-incompressible-elasticity';
   if (elastic) names.push('energy');
+  if (time && lone) names.push(...TIME_NORMS);
   const own = preset !== undefined && preset !== 'diffusion-convection-reaction';
   const table = own ? builtInNorms(preset, k ?? 1) : null;
   const orders = table && k !== undefined ? Object.fromEntries(Object.entries(table.orders).filter(([nm]) => names.includes(nm))) : {};
@@ -87,10 +92,11 @@ export function fieldNorms(fields: Readonly<Record<string, 'scalar' | 'vector'>>
 export function externalFieldNorms(decl: {
   discretization: { kind: string; output?: string; degree?: number };
   pde?: { fields: Readonly<Record<string, 'scalar' | 'vector'>>; preset?: { name: PresetName } };
+  time?: unknown;
 }): FieldNormTable | null {
   const d = decl.discretization;
   if (d.kind !== 'external' || d.output !== 'vtk' || !decl.pde) return null;
   const preset = decl.pde.preset?.name;
   if (preset === 'diffusion-convection-reaction') return null;
-  return fieldNorms(decl.pde.fields, preset, d.degree);
+  return fieldNorms(decl.pde.fields, preset, d.degree, decl.time !== undefined);
 }
