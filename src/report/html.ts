@@ -10,6 +10,7 @@ import { escapeXml as esc } from './xml.ts';
 import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
 import type { TwoAxisAnalysis, Verdict } from '../analysis/types.ts';
 import { fitAxisSuffix, hasTime, jointOrderText, showsRates, stepsText, timeLine } from './time.ts';
+import { ERROR_MAP_CSS, errorMapSection } from './error-map.ts';
 
 export type { InputProblem };
 
@@ -282,6 +283,8 @@ function studySection(r: StudyResult, plot: PlotOptions | undefined): string {
     grid ? '<h3>Joint fit in h and Δt</h3>' : '<h3>Fitted orders</h3>',
     fitTable(r),
     quantitySection(r),
+    // Only studies with maps get the section (and its line), so pages without maps stay byte for byte as before.
+    ...(r.errorMaps?.length ? [errorMapSection(r)] : []),
     warnings,
     '<div class="columns">',
     `<div><h3>Inputs</h3><pre class="inputs">${esc(inputs ?? 'none')}</pre></div>`,
@@ -316,7 +319,7 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
     '<meta charset="utf-8">',
     '<meta name="viewport" content="width=device-width, initial-scale=1">',
     `<title>${esc(title)}</title>`,
-    `<style>${REPORT_CSS}${results.some(hasTime) ? TIME_CSS : ''}</style>`,
+    `<style>${REPORT_CSS}${results.some(hasTime) ? TIME_CSS : ''}${results.some((r) => r.errorMaps?.length) ? ERROR_MAP_CSS : ''}</style>`,
     '</head>',
     '<body>',
     '<main>',

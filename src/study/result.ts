@@ -1,6 +1,7 @@
 import type { SeriesAnalysis, TimeAxis, TwoAxisAnalysis, Verdict } from '../analysis/types.ts';
 import type { SolveStats } from '../linalg/types.ts';
 import type { QuantityReport } from '../analysis/quantities.ts';
+import type { EncodedErrorMap } from '../mesh/raster.ts';
 
 export type NormName = 'L2' | 'H1semi' | 'H1' | 'energy' | 'maxNodal';
 
@@ -33,6 +34,17 @@ export interface LevelResult {
   peakRssBytes?: number;
 }
 
+/** A map of where the error lives on one level, for the report (src/mesh/raster.ts makes and encodes it).
+ *  'density': per cell sqrt(∫_K e² / |K|) of the norm's integrand (e = u − u_h for L2, ∇(u − u_h) for H1semi), drawn
+ *  on level `level` (0-based). 'local-order': per cell of level `level` the local observed order of the norm from its
+ *  error and its children's on level `level` + 1. */
+export interface ErrorMapEntry {
+  level: number;
+  norm: string;
+  what: 'density' | 'local-order';
+  map: EncodedErrorMap;
+}
+
 export interface StudyResult {
   study: string;
   file: string;
@@ -58,4 +70,6 @@ export interface StudyResult {
   twoAxis?: TwoAxisAnalysis[];
   /** For a member of a sweep over a coefficient: the sweep's robustness verdict (the same for every member). */
   robustness?: import('./sweep.ts').SweepVerdict;
+  /** Maps of where the error lives (the HTML report draws them in a section of their own). */
+  errorMaps?: ErrorMapEntry[];
 }

@@ -7,6 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeReportFiles } from '../../src/report/write.ts';
 import { demoResults } from './fixture.ts';
 import { timeResults } from './time-fixture.ts';
+import { mapResults } from './error-map-fixture.ts';
+import { decodeErrorMap } from '../../src/mesh/raster.ts';
+import { densityScale } from '../../src/report/colour-scale.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const hasChromium = existsSync(CHROMIUM);
@@ -207,6 +210,111 @@ describe.skipIf(!hasChromium)(`HTML report of studies with time in a real browse
     const main = (await page.locator('main').boundingBox())!;
     const b = (await table.boundingBox())!;
     expect(b.x + b.width).toBeLessThanOrEqual(main.x + main.width + 1);
+  });
+
+  it('saves a screenshot of the page', async () => {
+    const path = join(REPORTS, 'index.png');
+    await page.screenshot({ path, fullPage: true });
+    expect(existsSync(path)).toBe(true);
+  });
+});
+
+describe.skipIf(!hasChromium)(`HTML report with maps of where the error lives in a real browser${hasChromium ? '' : ' (skipped: no chromium)'}`, () => {
+  const results = mapResults();
+  let browser: Browser;
+  let page: Page;
+  const consoleErrors: string[] = [];
+  const requests: string[] = [];
+  let REPORTS = '';
+
+  beforeAll(async () => {
+    REPORTS = mkdtempSync(join(tmpdir(), 'rungs-browser-maps-'));
+    const out = join(REPORTS, 'maps');
+    expect(writeReportFiles(out, results, { meta: { generatedAt: '2025-03-14T11:30:00Z' } }).failed).toEqual([]);
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
+    page.on('console', (m) => {
+      if (m.type() === 'error') consoleErrors.push(m.text());
+    });
+    page.on('pageerror', (e) => consoleErrors.push(e.message));
+    page.on('request', (r) => requests.push(r.url()));
+    await page.goto(pathToFileURL(join(out, 'index.html')).href, { waitUntil: 'load' });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    if (REPORTS) rmSync(REPORTS, { recursive: true, force: true });
+  });
+
+  it('loads without console errors and without fetching anything but the page itself', () => {
+    expect(consoleErrors).toEqual([]);
+    expect(requests.filter((u) => !u.startsWith('file://') && !u.startsWith('data:'))).toEqual([]);
+  });
+
+  it('decodes every map image at its natural size, shown within the page', async () => {
+    const maps = page.locator('svg.rungs-error-map');
+    // Two maps of the flawed tile, three of the L-shaped tile, one slice of the brick (the rod has profiles).
+    expect(await maps.count()).toBe(6);
+    const main = (await page.locator('main').boundingBox())!;
+    for (let k = 0; k < 6; k++) {
+      const svg = maps.nth(k);
+      const expected = [Number(await svg.getAttribute('data-nx')), Number(await svg.getAttribute('data-ny'))];
+      const image = svg.locator('image.map-image');
+      const natural = await image.evaluate(async (el) => {
+        const img = new Image();
+        img.src = el.getAttribute('href')!;
+        await img.decode();
+        return [img.naturalWidth, img.naturalHeight];
+      });
+      expect(natural).toEqual(expected);
+      const box = (await image.boundingBox())!;
+      expect(box.width).toBeGreaterThan(100);
+      expect(box.x + box.width).toBeLessThanOrEqual(main.x + main.width + 1);
+      expect(await svg.locator('.colour-bar .bar-label').count()).toBeGreaterThanOrEqual(2);
+    }
+    expect(await page.locator('svg.rungs-error-profile .profile-line').count()).toBe(3);
+  });
+
+  it('shows the colours the browser decodes: transparent in the notch, the colour of the value inside', async () => {
+    const r = results[1];
+    const entry = r.errorMaps![0];
+    const map = decodeErrorMap(entry.map);
+    if (map.kind !== 'raster') throw new Error('expected a raster');
+    const scale = densityScale(map.values);
+    // Pixel (column 20, row 20 from the top) lies at x < 0, inside; (column 100, row 100) in the notch x > 0, y < 0.
+    const inside = map.values[20 + (map.ny - 1 - 20) * map.nx];
+    const index = scale.index(inside);
+    const rgb = Array.from(scale.palette.subarray(3 * index, 3 * index + 3));
+    const image = page.locator(`section.study[data-study="${r.study}"] figure.error-map`).first().locator('image.map-image');
+    const pixels = await image.evaluate(async (el) => {
+      const img = new Image();
+      img.src = el.getAttribute('href')!;
+      await img.decode();
+      const canvas = document.createElement('canvas');
+      canvas.width = img.naturalWidth;
+      canvas.height = img.naturalHeight;
+      const g = canvas.getContext('2d')!;
+      g.drawImage(img, 0, 0);
+      return [Array.from(g.getImageData(20, 20, 1, 1).data), Array.from(g.getImageData(100, 100, 1, 1).data)];
+    });
+    expect(pixels[0]).toEqual([...rgb, 255]);
+    expect(pixels[1][3]).toBe(0);
+  });
+
+  it('offers the values on hover and a caption under each map', async () => {
+    const figure = page.locator('section.study[data-study="l-tile-corner"] figure.error-map').first();
+    const titles = await figure.locator('.map-hover rect title').allTextContents();
+    expect(titles.length).toBeGreaterThan(100);
+    for (const t of titles) expect(t).toMatch(/^\d\.\de[-+]\d\d( to \d\.\de[-+]\d\d)?$/);
+    expect(await figure.locator('figcaption').innerText()).toContain('on each cell K of level 5 (the finest)');
+    // The hover grid lies over the image.
+    const img = (await figure.locator('image.map-image').boundingBox())!;
+    const grid = (await figure.locator('.map-hover').boundingBox())!;
+    expect(Math.abs(grid.x - img.x)).toBeLessThan(1);
+    expect(Math.abs(grid.width - img.width)).toBeLessThan(1);
   });
 
   it('saves a screenshot of the page', async () => {

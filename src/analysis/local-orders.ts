@@ -1,0 +1,67 @@
+import { RungsInputError } from '../errors.ts';
+
+/**
+ * Default threshold below which a cell's error counts as round-off: a fraction of the largest cell error of its
+ * level (on e, not e²). A cell's error is u − u_h taken at quadrature points where both are of the solution's size
+ * U, so it carries an absolute round-off of a few ε U (ε ≈ 2.2e-16), more after a linear solve; the largest cell
+ * error of a level is the discretization error, typically 1e-3 … 1e-10 of U. Below a millionth of the largest,
+ * a cell's error is within a few decades of that round-off on fine high-order levels, and a ratio of two such
+ * values says nothing about the order. Those cells hold under 1e-12 of the largest cell's share of the squared
+ * norm, so nothing that matters is hidden (chosen, no source). A caller that knows the solution's size or the
+ * solver's floor (an algebraic error near 1e-3 of the discretization error is a higher floor) passes its own.
+ */
+export const LOCAL_ORDER_ROUND_OFF = 1e-6;
+
+/**
+ * Local observed order per coarse cell of a nested pair of levels: p_K = ln(e_K / e_children) / ln(ratio), with
+ * e_K = sqrt(coarsePerCell[K]) and e_children = sqrt(Σ finePerCell[c] over the fine cells c with parents[c] = K):
+ * both measure the error over the same region K, so a density C h^p over it gives ratio^p (common practice, no
+ * source). Inputs are per-cell squared errors (∫_K e² or ∫_K |∇e|²); `parents` comes from parentCells (−1 entries
+ * are skipped); ratio is h_coarse / h_fine. NaN where either error is at or below threshold × the largest of its
+ * level (LOCAL_ORDER_ROUND_OFF by default), or where K has no children.
+ */
+export function localOrders(
+  coarsePerCell: Float64Array,
+  finePerCell: Float64Array,
+  parents: Int32Array,
+  ratio: number,
+  threshold = LOCAL_ORDER_ROUND_OFF,
+): Float64Array {
+  if (!(Number.isFinite(ratio) && ratio > 1)) {
+    throw new RungsInputError(`local orders need a refinement ratio h_coarse / h_fine above 1, got ${ratio}`, 'ratio');
+  }
+  if (parents.length !== finePerCell.length) {
+    throw new RungsInputError(
+      `parents must hold one coarse cell per fine cell (${finePerCell.length}), got ${parents.length}`, 'parents');
+  }
+  const nCoarse = coarsePerCell.length;
+  const children = new Float64Array(nCoarse);
+  for (let c = 0; c < parents.length; c++) {
+    const K = parents[c]!;
+    if (K < 0) continue;
+    if (K >= nCoarse) {
+      throw new RungsInputError(`parents[${c}] = ${K} is not a coarse cell index in 0..${nCoarse - 1}`, 'parents');
+    }
+    children[K]! += finePerCell[c]!;
+  }
+  if (!(threshold >= 0 && threshold < 1)) {
+    throw new RungsInputError(`the round-off threshold must lie in [0, 1), got ${threshold}`, 'threshold');
+  }
+  // Squared errors: the threshold on e is squared.
+  const floor2 = threshold * threshold;
+  const coarseFloor = floor2 * largest(coarsePerCell), fineFloor = floor2 * largest(children);
+  const out = new Float64Array(nCoarse);
+  const logRatio = Math.log(ratio);
+  for (let K = 0; K < nCoarse; K++) {
+    const a = coarsePerCell[K]!, b = children[K]!;
+    out[K] = a > coarseFloor && b > fineFloor ? (0.5 * Math.log(a / b)) / logRatio : Number.NaN;
+  }
+  return out;
+}
+
+/** Largest finite entry (0 when none). */
+function largest(values: Float64Array): number {
+  let top = 0;
+  for (let i = 0; i < values.length; i++) if (values[i]! > top && Number.isFinite(values[i]!)) top = values[i]!;
+  return top;
+}

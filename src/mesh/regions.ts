@@ -1,0 +1,207 @@
+import { RungsInputError } from '../errors.ts';
+import { signedCellMeasure } from './measure.ts';
+import type { Mesh } from './types.ts';
+
+/**
+ * Regions of a mesh for telling where the error lives: a strip along each boundary tag and the interior.
+ *
+ * The strip along a tag is the set of cells that touch a facet with that tag, at a facet or only at a vertex: the
+ * union of the supports of every basis function attached to the closure of those facets (vertex, edge, face and
+ * facet-interior Lagrange dofs alike), so that a wrong boundary value stays inside the strip and never leaks into
+ * the interior. It is one cell wide on every level (`layers` widens it to k cells), not a fixed physical width:
+ * a flaw that spoils the solution within O(h) of the boundary by δ(h) pointwise gives a one-cell strip an RMS of
+ * order δ(h), the order of the boundary error itself, whatever the width of the domain. A strip of fixed width w
+ * would dilute it to δ(h)·sqrt(c h / w), half an order higher, with a constant that depends on the arbitrary w.
+ * A smooth error spread over the domain gives strip and interior the same RMS order, since an RMS density does not
+ * depend on the size of the region it is taken over.
+ *
+ * A cell touching two tags belongs to both strips (corners in 2D, edges and corners in 3D). For the analysis the
+ * strip's own cells (in no other strip) and the meets (cells in the strips of two tags) are kept apart too: a
+ * flaw on 'top' puts its error in the corner cell that 'left' shares, and over a whole strip of n cells that one
+ * cell would lower the order of 'left' by half an order (δ²/n in its mean square).
+ */
+
+/** A set of cells (ascending indices) and its measure (length, area or volume). */
+export interface CellSet {
+  cells: Int32Array;
+  measure: number;
+}
+
+/** The cells where the strips of two tags overlap; tags are indices into tagNames, a < b. */
+export interface Meet extends CellSet {
+  tags: [number, number];
+}
+
+export interface BoundaryStrips {
+  /** How many cell layers wide each strip is. */
+  layers: number;
+  tagNames: string[];
+  /** strips[t]: the cells touching a facet tagged tagNames[t] (within `layers` steps); empty for an unused tag. */
+  strips: CellSet[];
+  /** own[t]: the cells of strips[t] that are in no other strip. */
+  own: CellSet[];
+  /** The pairs of tags whose strips share cells, in order of (a, b). */
+  meets: Meet[];
+  /** The cells in no strip. */
+  interior: CellSet;
+}
+
+export interface StripOptions {
+  /** Width of each strip in cell layers (default 1): layer k + 1 adds the cells touching a vertex of layer k. */
+  layers?: number;
+}
+
+/** The strip along each boundary tag of the mesh, their own parts and meets, and the interior. O(tags × cells). */
+export function boundaryStrips(mesh: Mesh, options: StripOptions = {}): BoundaryStrips {
+  const layers = options.layers ?? 1;
+  if (!Number.isInteger(layers) || layers < 1) {
+    throw new RungsInputError(`strip layers must be a whole number ≥ 1, got ${String(layers)}`, 'strips.layers');
+  }
+  const nTags = mesh.tagNames.length;
+  const measures = cellMeasures(mesh);
+  const inStrip = new Uint8Array(mesh.nCells); // how many strips hold each cell (saturates at 255)
+  const vertexMark = new Uint8Array(mesh.nVertices);
+  const cellMark = new Uint8Array(mesh.nCells);
+  const stripCells: Int32Array[] = [];
+  for (let t = 0; t < nTags; t++) {
+    markStrip(mesh, t, layers, vertexMark, cellMark);
+    const cells = listMarked(cellMark);
+    for (let k = 0; k < cells.length; k++) { const c = cells[k]!; if (inStrip[c]! < 255) inStrip[c]!++; }
+    stripCells.push(cells);
+  }
+  const strips = stripCells.map((cells) => cellSet(cells, measures));
+  const own = stripCells.map((cells) => cellSet(cells.filter((c) => inStrip[c] === 1), measures));
+  const meets = findMeets(stripCells, cellMark, measures);
+  const interior = cellSet(listMarked(inStrip, 0), measures);
+  return { layers, tagNames: [...mesh.tagNames], strips, own, meets, interior };
+}
+
+/** The absolute measure of every cell. */
+export function cellMeasures(mesh: Mesh): Float64Array {
+  const out = new Float64Array(mesh.nCells);
+  for (let c = 0; c < mesh.nCells; c++) out[c] = Math.abs(signedCellMeasure(mesh, c));
+  return out;
+}
+
+/** Sets cellMark[c] = 1 for the cells within `layers` vertex-steps of the facets tagged t, 0 elsewhere. */
+function markStrip(mesh: Mesh, t: number, layers: number, vertexMark: Uint8Array, cellMark: Uint8Array): void {
+  const { cells, facets, facetTags } = mesh;
+  const n = mesh.verticesPerCell, m = mesh.verticesPerFacet;
+  vertexMark.fill(0);
+  cellMark.fill(0);
+  for (let f = 0; f < mesh.nFacets; f++) {
+    if (facetTags[f] !== t) continue;
+    for (let k = 0; k < m; k++) vertexMark[facets[f * m + k]!] = 1;
+  }
+  for (let layer = 0; layer < layers; layer++) {
+    for (let c = 0; c < mesh.nCells; c++) {
+      if (cellMark[c]) continue;
+      for (let k = 0; k < n; k++) if (vertexMark[cells[c * n + k]!] === 1) { cellMark[c] = 1; break; }
+    }
+    if (layer + 1 === layers) break;
+    // The next layer starts from every vertex of the cells marked so far (mark 2 keeps this sweep's additions
+    // from spreading further within the same sweep).
+    for (let c = 0; c < mesh.nCells; c++) {
+      if (!cellMark[c]) continue;
+      for (let k = 0; k < n; k++) { const v = cells[c * n + k]!; if (vertexMark[v] === 0) vertexMark[v] = 2; }
+    }
+    for (let v = 0; v < vertexMark.length; v++) if (vertexMark[v] === 2) vertexMark[v] = 1;
+  }
+}
+
+/** Ascending indices i with mark[i] === value (default: non-zero when value is omitted). */
+function listMarked(mark: Uint8Array, value?: number): Int32Array {
+  const hit = value === undefined ? (x: number) => x !== 0 : (x: number) => x === value;
+  let count = 0;
+  for (let i = 0; i < mark.length; i++) if (hit(mark[i]!)) count++;
+  const out = new Int32Array(count);
+  let o = 0;
+  for (let i = 0; i < mark.length; i++) if (hit(mark[i]!)) out[o++] = i;
+  return out;
+}
+
+function cellSet(cells: Int32Array, measures: Float64Array): CellSet {
+  let measure = 0;
+  for (let k = 0; k < cells.length; k++) measure += measures[cells[k]!]!;
+  return { cells, measure };
+}
+
+/** Every pair of strips that share cells. O(tags² × strip size): strips are a small fraction of the mesh. */
+function findMeets(stripCells: Int32Array[], mark: Uint8Array, measures: Float64Array): Meet[] {
+  const meets: Meet[] = [];
+  for (let a = 0; a < stripCells.length; a++) {
+    mark.fill(0);
+    const sa = stripCells[a]!;
+    for (let k = 0; k < sa.length; k++) mark[sa[k]!] = 1;
+    for (let b = a + 1; b < stripCells.length; b++) {
+      const shared = stripCells[b]!.filter((c) => mark[c] === 1);
+      if (shared.length > 0) meets.push({ ...cellSet(shared, measures), tags: [a, b] });
+    }
+  }
+  return meets;
+}
+
+/** Error sums over one region: L2 = sqrt(Σ ∫_K e²), H1semi = sqrt(Σ ∫_K |∇e|²), and the RMS densities
+ *  sqrt(Σ / measure) (null for an empty region; H1 values null when no gradient densities were given). */
+export interface RegionError {
+  cells: number;
+  measure: number;
+  L2: number;
+  H1semi: number | null;
+  rmsL2: number | null;
+  rmsH1semi: number | null;
+}
+
+/** Per-region errors of one level: small plain data (JSON-safe: no typed arrays, no NaN). */
+export interface RegionErrors {
+  tagNames: string[];
+  /** Whole strips, corner cells included, in tag order. */
+  strips: RegionError[];
+  /** Each strip's own cells (in no other strip), in tag order. */
+  own: RegionError[];
+  meets: (RegionError & { tags: [string, string] })[];
+  interior: RegionError;
+}
+
+/** Sums per-cell error densities (∫_K e² and ∫_K |∇e|², length nCells) over the regions of a mesh. */
+export function regionErrors(
+  mesh: Mesh,
+  regions: BoundaryStrips,
+  perCellL2sq: Float64Array,
+  perCellH1sq: Float64Array | null,
+): RegionErrors {
+  requirePerCell(mesh, perCellL2sq, 'perCellL2sq');
+  if (perCellH1sq !== null) requirePerCell(mesh, perCellH1sq, 'perCellH1sq');
+  const sum = (set: CellSet): RegionError => sumOver(set, perCellL2sq, perCellH1sq);
+  return {
+    tagNames: [...regions.tagNames],
+    strips: regions.strips.map(sum),
+    own: regions.own.map(sum),
+    meets: regions.meets.map((m) => ({ ...sum(m), tags: [regions.tagNames[m.tags[0]]!, regions.tagNames[m.tags[1]]!] })),
+    interior: sum(regions.interior),
+  };
+}
+
+function requirePerCell(mesh: Mesh, values: Float64Array, name: string): void {
+  if (values.length !== mesh.nCells) {
+    throw new RungsInputError(`${name} must hold one value per cell (${mesh.nCells}), got ${values.length}`, name);
+  }
+}
+
+function sumOver(set: CellSet, l2sq: Float64Array, h1sq: Float64Array | null): RegionError {
+  let a = 0, b = 0;
+  for (let k = 0; k < set.cells.length; k++) {
+    const c = set.cells[k]!;
+    a += l2sq[c]!;
+    if (h1sq !== null) b += h1sq[c]!;
+  }
+  const rms = (s: number): number | null => (set.measure > 0 ? Math.sqrt(s / set.measure) : null);
+  return {
+    cells: set.cells.length,
+    measure: set.measure,
+    L2: Math.sqrt(a),
+    H1semi: h1sq === null ? null : Math.sqrt(b),
+    rmsL2: rms(a),
+    rmsH1semi: h1sq === null ? null : rms(b),
+  };
+}

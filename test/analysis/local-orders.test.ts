@@ -1,0 +1,81 @@
+import { describe, expect, it } from 'vitest';
+import { localOrders, LOCAL_ORDER_ROUND_OFF } from '../../src/analysis/local-orders.ts';
+import { RungsInputError } from '../../src/errors.ts';
+import { parentCells } from '../../src/mesh/nesting.ts';
+import { rectangleMesh } from '../../src/mesh/rectangle.ts';
+
+// Synthetic per-cell errors from a closed form: a cell K of size h with error density C_K h^p has
+// ∫_K e² = C_K² h^{2p} |K|, and its children (size h / r, same density constant) together C_K² (h/r)^{2p} |K|, so
+// ln(e_K / e_children) / ln r = p exactly (common practice, no source).
+
+/** n coarse squares of side h in a row, each split into r × r children numbered r² K + k. */
+function ladder(n: number, r: number, h: number, p: number, constant: (K: number) => number) {
+  const coarse = new Float64Array(n), fine = new Float64Array(n * r * r), parents = new Int32Array(n * r * r);
+  for (let K = 0; K < n; K++) {
+    const C = constant(K);
+    coarse[K] = C * C * h ** (2 * p) * h * h;
+    for (let k = 0; k < r * r; k++) {
+      fine[r * r * K + k] = C * C * (h / r) ** (2 * p) * (h / r) ** 2;
+      parents[r * r * K + k] = K;
+    }
+  }
+  return { coarse, fine, parents };
+}
+
+describe('localOrders', () => {
+  it.each([[2, 2], [1.5, 2], [3, 3], [0.5, 2]])('density C_K h^%s with ratio %s gives that order in every cell', (p, r) => {
+    const { coarse, fine, parents } = ladder(10, r, 0.1, p, (K) => 1 + 0.3 * K);
+    const orders = localOrders(coarse, fine, parents, r);
+    let worst = 0;
+    for (const q of orders) worst = Math.max(worst, Math.abs(q - p));
+    expect(worst).toBeLessThan(1e-12);
+  });
+
+  it("on a nested pair of meshes found by parentCells ('crossed' triangles, 4 to 8)", () => {
+    // Each triangle of an n × n 'crossed' mesh of the unit square has area 1 / (4 n²); density h^{2p}, h = 1/n.
+    const p = 2;
+    const perCell = (n: number, cells: number) => new Float64Array(cells).fill((1 / n) ** (2 * p) / (4 * n * n));
+    const coarse = rectangleMesh({ x: [0, 1], y: [0, 1], nx: 4, ny: 4, cells: 'triangles', diagonal: 'crossed' });
+    const fine = rectangleMesh({ x: [0, 1], y: [0, 1], nx: 8, ny: 8, cells: 'triangles', diagonal: 'crossed' });
+    const { parent } = parentCells(coarse, fine);
+    const orders = localOrders(perCell(4, coarse.nCells), perCell(8, fine.nCells), parent, 2);
+    expect(Math.max(...Array.from(orders, (q) => Math.abs(q - p)))).toBeLessThan(1e-12);
+  });
+
+  it('children listed in any order, with a parent of −1 skipped', () => {
+    const { coarse, fine, parents } = ladder(3, 2, 0.25, 2, () => 1);
+    const perm = [5, 0, 11, 2, 7, 9, 1, 3, 10, 4, 6, 8];
+    const shuffled = Float64Array.from(perm, (i) => fine[i]!);
+    const shuffledParents = Int32Array.from(perm, (i) => parents[i]!);
+    const withStray = localOrders(Float64Array.from(coarse), Float64Array.of(...shuffled, 1), Int32Array.of(...shuffledParents, -1), 2);
+    expect(Array.from(withStray).map((q) => Math.round(q * 1e12) / 1e12)).toEqual([2, 2, 2]);
+  });
+
+  it('NaN where an error is at round-off or a cell has no children', () => {
+    const { coarse, fine, parents } = ladder(4, 2, 0.5, 1, () => 1);
+    coarse[1] = coarse[0]! * 1e-20; // e 1e-10 of the largest: below LOCAL_ORDER_ROUND_OFF
+    for (let k = 8; k < 12; k++) fine[k] = 0; // coarse cell 2: children exactly right
+    parents.fill(0, 12, 16); // coarse cell 3 loses its children to cell 0
+    const orders = localOrders(coarse, fine, parents, 2);
+    expect(Number.isNaN(orders[1]!)).toBe(true);
+    expect(Number.isNaN(orders[2]!)).toBe(true);
+    expect(Number.isNaN(orders[3]!)).toBe(true);
+    // Cell 0 now has 8 children: e_children = sqrt(2) × its own at half size: ln(2 / sqrt(2)) / ln 2 = 1/2.
+    expect(orders[0]).toBeCloseTo(0.5, 12);
+    expect(LOCAL_ORDER_ROUND_OFF).toBeGreaterThan(1e-10); // the premise of cell 1's case above
+  });
+
+  it('a threshold of the caller\'s own', () => {
+    const { coarse, fine, parents } = ladder(2, 2, 0.5, 2, (K) => (K === 0 ? 1 : 1e-3));
+    expect(Number.isNaN(localOrders(coarse, fine, parents, 2, 1e-2)[1]!)).toBe(true);
+    expect(localOrders(coarse, fine, parents, 2, 1e-4)[1]).toBeCloseTo(2, 12);
+  });
+
+  it('refuses a ratio ≤ 1, mismatched lengths and parents out of range', () => {
+    const { coarse, fine, parents } = ladder(2, 2, 0.5, 2, () => 1);
+    expect(() => localOrders(coarse, fine, parents, 1)).toThrow(RungsInputError);
+    expect(() => localOrders(coarse, fine, parents.subarray(1), 2)).toThrow(/parents/);
+    expect(() => localOrders(coarse, fine, Int32Array.from(parents, () => 5), 2)).toThrow(/not a coarse cell/);
+    expect(() => localOrders(coarse, fine, parents, 2, 1)).toThrow(/threshold/);
+  });
+});
