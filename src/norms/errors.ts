@@ -4,6 +4,7 @@ import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
 import type { DiscreteField, ExactSolution, NormValues } from './types.ts';
 import { AFFINE_CELL } from '../mesh/types.ts';
+import { RungsInputError } from '../errors.ts';
 
 /** Extra degrees of the error quadrature above 2k, the degree of |u_h|² (so the smooth part of the integrand
  *  is over-integrated; common practice, no source). */
@@ -17,6 +18,39 @@ export interface ErrorOptions {
   degree?: number;
   /** Integrate over every stride-th cell only and scale up: an estimate for tolerances, not for reporting. */
   cellStride?: number;
+  /** Where the error lives: filled with each cell's share of the first field's (the discrete solution's) squared
+   *  norms; see PerCellErrors. Refused together with cellStride > 1. */
+  perCell?: PerCellErrors;
+}
+
+/**
+ * Error densities per cell, given by the caller (length mesh.nCells each) and filled by the error integration for
+ * the first field only: L2[c] = ∫_K |e|² and H1semi[c] = ∫_K |∇e|² over cell K = c, e = u − u_h, with the same
+ * quadrature as the totals. These are the SQUARED contributions (no square root): summed over the cells they give
+ * L2² and H1semi² of the totals (to round-off; the totals are summed in their own order and keep their bits).
+ * For fields with components (fieldErrors) the sums run over the components as in the totals; for a mean-free field
+ * L2[c] is ∫_K |e − ē|² of the second pass (ē the mean error over the domain), H1semi[c] is unaffected by the mean.
+ */
+export interface PerCellErrors {
+  L2: Float64Array;
+  H1semi: Float64Array;
+}
+
+/** Checks a perCell request against the mesh and the stride: both arrays nCells long, and no cell sampling (an
+ *  estimate over every stride-th cell leaves most cells without a value, so the two are refused together). */
+export function checkPerCell(perCell: PerCellErrors | undefined, nCells: number, stride: number, where: string): void {
+  if (perCell === undefined) return;
+  if (stride > 1) {
+    throw new RungsInputError(`${where}: opts.perCell cannot be combined with cellStride = ${stride} (an estimate over every ${stride}th cell ` +
+      'leaves the other cells without a value); leave cellStride at 1 for error densities', `${where}.perCell`);
+  }
+  for (const key of ['L2', 'H1semi'] as const) {
+    const a = perCell[key] as unknown;
+    if (!(a instanceof Float64Array) || a.length !== nCells) {
+      const got = a instanceof Float64Array ? `a Float64Array of length ${a.length}` : 'no Float64Array';
+      throw new RungsInputError(`${where}: opts.perCell.${key} must be a Float64Array of length nCells = ${nCells}, got ${got}`, `${where}.perCell.${key}`);
+    }
+  }
 }
 
 /** L2, H1 seminorm, H1, energy and largest nodal error of u − u_h, integrated cell by cell. */
@@ -25,7 +59,9 @@ export function errorNorms(field: DiscreteField, exact: ExactSolution, opts: Err
 }
 
 /** The norms of u − f for several fields on the same mesh in one pass, so u, ∇u and the coefficients are
- *  evaluated once per quadrature point (the discrete solution and the interpolant share the work). */
+ *  evaluated once per quadrature point (the discrete solution and the interpolant share the work). With
+ *  opts.perCell, fields[0]'s squared L2 and H1 seminorm per cell are written there too (two more additions per
+ *  point into locals, one store per cell; no allocation per cell or point: DEVELOPERS.md, "Hot loops"). */
 export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts: ErrorOptions = {}): NormValues[] {
   const mesh = fields[0].mesh;
   const dim = mesh.dim;
@@ -47,6 +83,10 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
   const v1s = nf > 1 ? vals[1] : v0s, g1s = nf > 1 ? grads[1] : g0s;
   let l2a = 0, h1a = 0, ena = 0, l2b = 0, h1b = 0, enb = 0;
   const stride = Math.max(1, Math.floor(opts.cellStride ?? 1));
+  checkPerCell(opts.perCell, mesh.nCells, stride, 'errorNorms');
+  // Per-cell sums of the first field live in their own locals (cl2, ch1), added to beside the totals from the same
+  // products, so the totals' operations and their order are those of an integration without them (same bits).
+  const pcL2 = opts.perCell?.L2 ?? null, pcH1 = opts.perCell?.H1semi ?? null;
   // With a stride, start mid-stride so that boundary rows and columns of structured meshes are not favoured.
   for (let c = stride > 1 ? stride >> 1 : 0; c < mesh.nCells; c += stride) {
     for (let f = 0; f < nf; f++) fields[f].evaluate(c, pts, nq, vals[f], grads[f]);
@@ -56,6 +96,7 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
       // The common case, unrolled: affine 2D cells, one or two fields.
       det = Math.abs(cellJacobian(mesh, c, pts, 0, J, invJ));
       const x0 = coords[v0], y0 = coords[v0 + 1], j00 = J[0], j01 = J[1], j10 = J[2], j11 = J[3];
+      let cl2 = 0, ch1 = 0;
       for (let q = 0; q < nq; q++) {
         const s = pts[2 * q], t = pts[2 * q + 1];
         const X = x0 + j00 * s + j01 * t, Y = y0 + j10 * s + j11 * t;
@@ -66,13 +107,16 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
         const gu0 = g[0], gu1 = g[1];
         let e = u - v0s[q], d0 = gu0 - g0s[2 * q], d1 = gu1 - g0s[2 * q + 1];
         let ge = d0 * d0 + d1 * d1;
-        l2a += w * e * e; h1a += w * ge; ena += w * (kq * ge + cq * e * e);
+        const we2 = w * e * e, wge = w * ge;
+        l2a += we2; h1a += wge; ena += w * (kq * ge + cq * e * e);
+        cl2 += we2; ch1 += wge;
         if (nf > 1) {
           e = u - v1s[q]; d0 = gu0 - g1s[2 * q]; d1 = gu1 - g1s[2 * q + 1];
           ge = d0 * d0 + d1 * d1;
           l2b += w * e * e; h1b += w * ge; enb += w * (kq * ge + cq * e * e);
         }
       }
+      if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
       continue;
     }
     if (dim === 3 && affine && nf <= 2) {
@@ -82,6 +126,7 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
       const x0 = coords[v0], y0 = coords[v0 + 1], z0 = coords[v0 + 2];
       const j0 = J[0], j1 = J[1], j2 = J[2], j3 = J[3], j4 = J[4], j5 = J[5], j6 = J[6], j7 = J[7], j8 = J[8];
       const ad = Math.abs(det);
+      let cl2 = 0, ch1 = 0;
       for (let q = 0; q < nq; q++) {
         const s = pts[3 * q], t = pts[3 * q + 1], r = pts[3 * q + 2];
         let X = x0; X += j0 * s; X += j1 * t; X += j2 * r;
@@ -95,7 +140,9 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
         let e = u - v0s[q];
         let d0 = gu0 - g0s[3 * q], d1 = gu1 - g0s[3 * q + 1], d2 = gu2 - g0s[3 * q + 2];
         let ge = 0; ge += d0 * d0; ge += d1 * d1; ge += d2 * d2;
-        l2a += w * e * e; h1a += w * ge; ena += w * (kq * ge + cq * e * e);
+        const we2 = w * e * e, wge = w * ge;
+        l2a += we2; h1a += wge; ena += w * (kq * ge + cq * e * e);
+        cl2 += we2; ch1 += wge;
         if (nf > 1) {
           e = u - v1s[q];
           d0 = gu0 - g1s[3 * q]; d1 = gu1 - g1s[3 * q + 1]; d2 = gu2 - g1s[3 * q + 2];
@@ -103,8 +150,10 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
           l2b += w * e * e; h1b += w * ge; enb += w * (kq * ge + cq * e * e);
         }
       }
+      if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
       continue;
     }
+    let cl2 = 0, ch1 = 0;
     for (let q = 0; q < nq; q++) {
       if (q === 0 || !affine) det = cellJacobian(mesh, c, pts, q * dim, J, invJ);
       if (affine) {
@@ -125,11 +174,14 @@ export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts
         const gf = grads[f];
         let ge = 0;
         for (let d = 0; d < dim; d++) { const t = g[d] - gf[q * dim + d]; ge += t * t; }
-        l2[f] += w * e * e;
-        h1[f] += w * ge;
+        const we2 = w * e * e, wge = w * ge;
+        l2[f] += we2;
+        h1[f] += wge;
         en[f] += w * (kq * ge + cq * e * e);
+        if (f === 0) { cl2 += we2; ch1 += wge; }
       }
     }
+    if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
   }
   l2[0] += l2a; h1[0] += h1a; en[0] += ena;
   if (nf > 1) { l2[1] += l2b; h1[1] += h1b; en[1] += enb; }

@@ -4,7 +4,7 @@ import { ruleFor } from '../fem/quadrature/index.ts';
 import { cellJacobian } from '../fem/geometry/jacobian.ts';
 import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
-import { ERROR_RULE_EXTRA } from './errors.ts';
+import { checkPerCell, ERROR_RULE_EXTRA, type PerCellErrors } from './errors.ts';
 import type { DiscreteField, ExactField } from './types.ts';
 
 export interface FieldErrorOptions {
@@ -20,6 +20,10 @@ export interface FieldErrorOptions {
   degree?: number;
   /** Integrate over every stride-th cell only and scale up: an estimate for tolerances, not for reporting. */
   cellStride?: number;
+  /** Where the error lives: each cell's share of field 0's squared L2 and H1 seminorm, summed over the components
+   *  (see PerCellErrors in errors.ts; for a mean-free field L2[c] is ∫_K |e − ē|² of the second pass). Refused
+   *  together with cellStride > 1. */
+  perCell?: PerCellErrors;
 }
 
 /** Norms of e = u − u_h summed over the components: L2² = Σ_i ∫ e_i², H1semi² = Σ_{i,d} ∫ (∂_d e_i)², H1² their
@@ -50,6 +54,10 @@ const L2 = 0, H1 = 1, DIV = 2, EN = 3, SLOTS = 4;
  * updating formulas (West 1979) carry the rounding error of the running mean to first order; in the two-pass
  * form it enters only to second order (∫(e − ē) = 0). The cost is one more evaluation of the fields and of u,
  * paid only when a mean-free norm is asked for.
+ *
+ * With opts.perCell, field 0's cell sums (the ones added to the totals) are stored per cell as well: the squared L2
+ * and H1 seminorm of each cell, summed over the components; for a mean-free field the L2 share is that of the
+ * second sweep, ∫_K |e − ē|², whose cells sum to the total before its (vanishing) correction term.
  *
  * Per-point work runs on preallocated typed arrays (no allocation per cell or point; DEVELOPERS.md, "Hot loops
  * over Float64Array"). Each cell's contributions are summed first and then added to the totals, which keeps the
@@ -83,6 +91,7 @@ export function fieldErrors(fields: DiscreteField[], exact: ExactField, opts: Fi
   const rule = ruleFor(mesh.cellKind, opts.degree ?? 2 * k + ERROR_RULE_EXTRA);
   const nq = rule.nPoints, nf = fields.length, ng = nc * dim;
   const stride = Math.max(1, Math.floor(opts.cellStride ?? 1));
+  checkPerCell(opts.perCell, mesh.nCells, stride, 'fieldErrors');
   const s: Sweep = {
     mesh, fields, exact, nc, nq, pts: rule.points, wts: rule.weights,
     // Simplices: one Jacobian per cell; quadrilaterals, hexahedra: cellJacobian and mapReferencePoint per point.
@@ -100,6 +109,7 @@ export function fieldErrors(fields: DiscreteField[], exact: ExactField, opts: Fi
     mean: new Float64Array(nf * nc),
     csq: new Float64Array(nf), cellCsq: new Float64Array(nf),
     ccorr: new Float64Array(nf * nc), cellCcorr: new Float64Array(nf * nc),
+    pcL2: opts.perCell?.L2 ?? null, pcH1: opts.perCell?.H1semi ?? null,
   };
   sweep(s);
   const { acc, csq, ccorr, mean, vol, first } = s;
@@ -173,6 +183,10 @@ interface Sweep {
   cellCsq: Float64Array;
   ccorr: Float64Array;
   cellCcorr: Float64Array;
+  /** Per-cell squared L2 and H1 seminorm of field 0 (opts.perCell), or null: the cell sums above, stored as they are
+   *  added to the totals (nothing is recomputed, so the totals keep their bits). */
+  pcL2: Float64Array | null;
+  pcH1: Float64Array | null;
 }
 
 /** Physical points and weights × |det J| of cell c at the rule's points into s.xq and s.wq: affine cells with one
@@ -214,7 +228,7 @@ function cellPoints(s: Sweep, c: number): void {
 /** The first sweep: L2, H1 seminorm, divergence and strain energy of every field, and Σ w e_i for the means. */
 function sweep(s: Sweep): void {
   // Locals, not property loads, in the hot loop.
-  const { mesh, fields, exact, nc, nq, pts, vals, grads, xq, wq, uq, gq, acc, cellAcc, esum, cellEsum, lam, mu, strain, meanFree } = s;
+  const { mesh, fields, exact, nc, nq, pts, vals, grads, xq, wq, uq, gq, acc, cellAcc, esum, cellEsum, lam, mu, strain, meanFree, pcL2, pcH1 } = s;
   const dim = mesh.dim, nf = fields.length, ng = nc * dim;
   let vol = 0;
   for (let c = s.first; c < mesh.nCells; c += s.stride) {
@@ -260,6 +274,8 @@ function sweep(s: Sweep): void {
       }
     }
     for (let i = 0; i < acc.length; i++) acc[i] += cellAcc[i];
+    // Field 0's cell sums; a mean-free field's L2 is replaced by the centred one of the second sweep.
+    if (pcL2 !== null) { pcL2[c] = cellAcc[L2]; pcH1![c] = cellAcc[H1]; }
     if (meanFree) for (let i = 0; i < esum.length; i++) esum[i] += cellEsum[i];
     vol += cellVol;
   }
@@ -268,7 +284,7 @@ function sweep(s: Sweep): void {
 
 /** The second sweep of a mean-free norm: Σ w (e_i − ē_i)² and Σ w (e_i − ē_i) with the means of the first. */
 function sweepCentred(s: Sweep): void {
-  const { mesh, fields, exact, nc, nq, pts, vals, grads, xq, wq, uq, mean, csq, cellCsq, ccorr, cellCcorr } = s;
+  const { mesh, fields, exact, nc, nq, pts, vals, grads, xq, wq, uq, mean, csq, cellCsq, ccorr, cellCcorr, pcL2 } = s;
   const nf = fields.length;
   for (let c = s.first; c < mesh.nCells; c += s.stride) {
     for (let f = 0; f < nf; f++) fields[f].evaluate(c, pts, nq, vals[f], grads[f]);
@@ -289,6 +305,7 @@ function sweepCentred(s: Sweep): void {
       }
     }
     for (let f = 0; f < nf; f++) csq[f] += cellCsq[f];
+    if (pcL2 !== null) pcL2[c] = cellCsq[0];
     for (let i = 0; i < ccorr.length; i++) ccorr[i] += cellCcorr[i];
   }
 }

@@ -50,12 +50,21 @@ let tempCount = 0;
  * file is removed on failure.
  */
 export function writeFileAtomic(path: string, text: string | Uint8Array): void {
+  writeFileAtomicFrom(path, (write) => write(typeof text === 'string' ? Buffer.from(text, 'utf8') : text));
+}
+
+/** writeFileAtomic for a file produced in pieces, so that a large one (a .vtu of a fine mesh) is never held whole:
+ *  `produce` hands each piece to `write`, in order (a piece may be a reused buffer: it is written before `write`
+ *  returns). Same temporary file, flush and rename; on failure the temporary file is removed. */
+export function writeFileAtomicFrom(path: string, produce: (write: (bytes: Uint8Array) => void) => void): void {
   const temp = join(dirname(path), `.${basename(path)}.${process.pid}.${++tempCount}.tmp`);
   let fd: number | null = null;
   try {
     fd = openSync(temp, 'wx', 0o644);
-    const bytes = typeof text === 'string' ? Buffer.from(text, 'utf8') : text;
-    for (let done = 0; done < bytes.length;) done += writeSync(fd, bytes, done, bytes.length - done);
+    const out = fd;
+    produce((bytes) => {
+      for (let done = 0; done < bytes.length;) done += writeSync(out, bytes, done, bytes.length - done);
+    });
     fsyncSync(fd);
     closeSync(fd);
     fd = null;
