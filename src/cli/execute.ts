@@ -203,7 +203,7 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     if (clash) { problem({ study: decl.name, file: loaded.file, message: clash }); continue; }
     try {
       const levels = opts.quick ? quickLevels(decl) : opts.levels;
-      const p = prepareStudy(loaded, { levels, out: opts.out });
+      const p = prepareStudy(loaded, { levels, out: opts.out, errorFiles: true });
       await preflightStudy(p);
       prepared.push(p);
     } catch (err) {
@@ -422,7 +422,7 @@ async function runParallel(prepared: PreparedStudy[], jobs: number, ctx: RunCont
     const all = Promise.all(tasks.map(async ({ p, index }) => {
       try {
         if (ctx.stopped()) return;
-        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data, member: p.loaded.declaration.sweepMember?.index });
+        const level = await pool.run({ file: p.loaded.file, index, out: p.env.out, norms: p.norms, data: p.env.data, total: p.env.total, errorFiles: p.env.errorFiles, member: p.loaded.declaration.sweepMember?.index });
         if (failed(p) || closed) return;
         addLevel(p, level);
         progress.levelDone(p.result.study, level, p.total);

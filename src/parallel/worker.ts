@@ -18,6 +18,9 @@ export interface LevelTask {
   data?: string;
   /** For a study that sweeps a coefficient: which value (src/study/sweep.ts). */
   member?: number;
+  /** The study's level count and whether to write error files (src/study/where.ts). */
+  total?: number;
+  errorFiles?: boolean;
 }
 
 export type LevelReply =
@@ -43,7 +46,7 @@ export default async function runLevelTask(task: LevelTask): Promise<LevelReply>
   try {
     const { loaded, problem } = await prepared(task.file, task.member);
     const decl = loaded.declaration;
-    const level = await runLevel(decl, loaded.file, problem, task.index, task.norms as NormName[], solverSettings(decl), { out: task.out, data: task.data });
+    const level = await runLevel(decl, loaded.file, problem, task.index, task.norms as NormName[], solverSettings(decl), { out: task.out, data: task.data, total: task.total, errorFiles: task.errorFiles });
     return { ok: true, level };
   } catch (err) {
     const e = err as Error;

@@ -9,6 +9,7 @@ import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
+import { recordWhere } from './where.ts';
 
 export type { LevelEnvironment } from './discretizations/types.ts';
 
@@ -61,6 +62,11 @@ async function runLevelUnguarded(
   const time = decl.time && steps !== null ? { T: decl.time.final, steps, dt: decl.time.final / steps } : undefined;
   const out = await disc.run({ decl, file, problem, index, n, mesh, time, norms, solver, env });
   const external = decl.discretization.kind === 'external';
+  const tWhere = performance.now();
+  const where = out.errorCells && env.total !== undefined
+    ? recordWhere(mesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? mesh.h, out: env.errorFiles ? env.out : undefined })
+    : {};
+  if (out.errorCells) out.seconds.errors += seconds(tWhere);
   return {
     index, n, h: out.h ?? mesh.h, ...(time ? { steps: time.steps, dt: time.dt } : {}), dofs: out.dofs, cells: out.cells ?? mesh.nCells,
     errors: out.errors,
@@ -69,6 +75,7 @@ async function runLevelUnguarded(
     solver: out.solver ?? null,
     ...(external ? { quantities: out.quantities } : { algebraic: out.algebraic ?? null }),
     seconds: { mesh: tMesh, ...out.seconds, total: seconds(tStart) },
+    ...where,
     peakRssBytes: peakRss(),
   };
 }

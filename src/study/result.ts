@@ -30,6 +30,10 @@ export interface LevelResult {
   seconds: Record<string, number>;
   /** Quantities of interest reported for this level (external solvers). */
   quantities?: Record<string, number>;
+  /** The errors in each boundary strip and the interior (src/mesh/regions.ts), when measured per cell. */
+  regions?: import('../mesh/regions.ts').RegionErrors;
+  /** The finest level's error maps, moved to StudyResult.errorMaps when the study completes. */
+  maps?: ErrorMapEntry[];
   /** Peak resident set size in bytes while this level ran, when measured. */
   peakRssBytes?: number;
 }
@@ -66,6 +70,9 @@ export interface StudyResult {
   /** Studies with time: the final time, the stepper (built-in) or null (a code of its own), the axis the ladder
    *  refines, the expected temporal order and, for a coupled path, Δt = c·h^exponent. */
   time?: { final: number; stepper: string | null; axis: TimeAxis; order: number | null; coupled?: { c: number; exponent: number } };
+  /** Where the error lives: per norm (L2, H1 seminorm of the first field), the order in each boundary strip and in
+   *  the interior, and the reason that names the place (src/analysis/regions.ts). */
+  where?: { norm: string; analysis: import('../analysis/regions.ts').RegionAnalysis }[];
   /** A two-axis (h, Δt) design: the joint fit e = C_h h^p + C_t Δt^q of every norm, with a verdict per order. */
   twoAxis?: TwoAxisAnalysis[];
   /** For a member of a sweep over a coefficient: the sweep's robustness verdict (the same for every member). */

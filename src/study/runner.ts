@@ -2,6 +2,7 @@ import { ladderRungs, temporalOrder, timeAxis } from './time-ladder.ts';
 import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOptimality } from '../analysis/index.ts';
 import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
+import { analyseRegions } from '../analysis/regions.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -61,7 +62,7 @@ export interface PreparedStudy {
 }
 
 /** Validates the PDE data and sets up the result; throws RungsInputError for bad input before any level runs. */
-export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?: string } = {}): PreparedStudy {
+export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?: string; errorFiles?: boolean } = {}): PreparedStudy {
   const { declaration: decl, file } = loaded;
   const t0 = performance.now();
   const problem = buildProblem(decl, file);
@@ -98,7 +99,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     : undefined;
   const prepareSeconds = (performance.now() - t0) / 1e3;
   result.seconds = prepareSeconds;
-  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out, data } };
+  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out, data, total, errorFiles: opts.errorFiles ?? false } };
 }
 
 function manufacturedWarnings(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): string[] {
@@ -150,6 +151,10 @@ export function completeStudy(p: PreparedStudy): StudyResult {
   const t0 = performance.now();
   if (p.norms.length) finishAnalysis(p.result, p.loaded.declaration, p.problem, p.norms, p.expected);
   p.result.quantities = quantityReports(p.result, p.loaded.declaration);
+  // The finest level's error maps belong to the study (the report draws them), not to its row.
+  const maps = p.result.levels.flatMap((l) => l.maps ?? []);
+  for (const l of p.result.levels) delete l.maps;
+  if (maps.length) p.result.errorMaps = maps;
   p.result.asExpected = expectationMet(p.result);
   p.result.seconds += (performance.now() - t0) / 1e3;
   return p.result;
@@ -240,6 +245,18 @@ function finishAnalysis(
   addCrossNormReasons(analyses);
   for (const a of atAxisFloor) a.reasons = a.reasons.filter((r) => !r.startsWith('across norms:'));
   if (axis === 'dt') for (const a of analyses) a.reasons = a.reasons.map(inTime);
+  // Where the order is lost: the errors of each boundary strip and of the interior fitted on their own
+  // (src/analysis/regions.ts); on a ladder in Δt the mesh does not change, so there is nothing to compare.
+  if (axis !== 'dt' && levels.length >= 2 && levels.every((l) => l.regions)) {
+    result.where = [];
+    for (const a of analyses) {
+      const norm = a.name === 'L2' || a.name === 'L2_u' ? 'L2' : a.name === 'H1semi' || a.name === 'H1semi_u' ? 'H1semi' : null;
+      if (!norm) continue;
+      const r = analyseRegions(levels.map((l) => ({ h: l.h, regions: l.regions! })), norm, a.expected, { fitWindow, tolerance, floorFrom: a.floorFrom });
+      result.where.push({ norm: a.name, analysis: r });
+      if (a.verdict !== 'on-order' && a.verdict !== 'exact') a.reasons.push(`where: ${r.reason}`);
+    }
+  }
   result.analyses = analyses;
 }
 

@@ -3,7 +3,7 @@
 // interpolant in one pass as a scalar study measures them (src/study/discretizations/measure-scalar.ts).
 // Target: with perCell at most 1.10 × the time without, in the same run. Runs alternate (without, with, without,
 // …) so that a shared machine's load falls on both alike; the best and the median of each are printed.
-// Also times writing that level as .vtu (src/report/vtu-writer.ts) in both encodings, into a temporary folder.
+// Also times writing that level as .vtu (src/external/vtk/write.ts) in both encodings, into a temporary folder.
 // Run: npx tsx test/bench/error-densities.bench.ts   (ROUNDS=9 by default; --small for 255 × 255 squares)
 import { mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -15,7 +15,7 @@ import { manufacture } from '../../src/equation/index.ts';
 import { errorNormsOf } from '../../src/norms/errors.ts';
 import { fieldErrors } from '../../src/norms/field-errors.ts';
 import type { ExactField } from '../../src/norms/types.ts';
-import { vertexValues, writeVtu } from '../../src/report/vtu-writer.ts';
+import { vertexValues, writeVtu } from '../../src/external/vtk/write.ts';
 
 const TARGET_RATIO = 1.1;
 const n = process.argv.includes('--small') ? 255 : 999;

@@ -31,7 +31,7 @@ export interface HeatProblem {
 }
 
 /** The matrices of M U' + K U = F(t), assembled once (whole, no boundary condition), and the fixed unknowns. */
-interface Operators { M: Csr; K: Csr; fixed: Uint8Array; free: Int32Array; nFree: number; fixedList: Int32Array }
+interface Operators { M: Csr; K: Csr; free: Int32Array; nFree: number; fixedList: Int32Array }
 
 function operators(p: HeatProblem): Operators {
   const { A: K } = assembleForm(p.space, { matrix: [viscousTerm(0, 1, p.k, p.degrees.stiffness)], vector: [] }, { vector: false });
@@ -46,7 +46,7 @@ function operators(p: HeatProblem): Operators {
   for (let u = 0; u < cons.fixed.length; u++) if (!cons.fixed[u]) nFree++;
   const free = new Int32Array(nFree), fixedList = new Int32Array(cons.fixed.length - nFree);
   for (let u = 0, a = 0, b = 0; u < cons.fixed.length; u++) if (cons.fixed[u]) fixedList[b++] = u; else free[a++] = u;
-  return { M, K, fixed: cons.fixed, free, nFree, fixedList };
+  return { M, K, free, nFree, fixedList };
 }
 
 /** The matrix a·A + b·B (A, B on the same pattern, both assembled on the same space) split into the rows and
@@ -188,6 +188,9 @@ export interface HeatRun {
   iterations: number;
   /** The statistics of the solve that reached the smallest relative reduction (the worst), to report and check. */
   worst: SolveStats | null;
+  /** Wall seconds: the matrices, their splits and solver setups; the load vectors F(t); the linear solves; the whole
+   *  run (the rest is right-hand sides, boundary values and copies). */
+  seconds: { setup: number; load: number; solve: number; total: number };
 }
 
 /**
@@ -201,6 +204,8 @@ export interface HeatRun {
 export function solveHeat(p: HeatProblem, method: TimeMethodName, T: number, steps: number, opts: HeatOptions = {}): HeatRun {
   if (!(Number.isInteger(steps) && steps >= 1)) throw new RungsInputError(`time steps must be a positive whole number, got ${steps}`);
   if (!(T > 0)) throw new RungsInputError(`the final time T must be positive, got ${T}`);
+  const tStart = performance.now();
+  const seconds = { setup: 0, load: 0, solve: 0, total: 0 };
   const op = operators(p);
   const dt = T / steps;
   const n = p.space.nDofs;
@@ -210,7 +215,13 @@ export function solveHeat(p: HeatProblem, method: TimeMethodName, T: number, ste
   const at = (fn: (x: number, y: number, z: number, out: Float64Array) => void, out: Float64Array) => {
     for (let u = 0; u < n; u++) { fn(X[u * dim], dim > 1 ? X[u * dim + 1] : 0, dim > 2 ? X[u * dim + 2] : 0, one); out[u] = one[0]; }
   };
-  const load = loadAssembler(p);
+  const assembleLoad = loadAssembler(p);
+  seconds.setup = (performance.now() - tStart) / 1000;
+  const load = (t: number, out: Float64Array): void => {
+    const t0 = performance.now();
+    assembleLoad(t, out);
+    seconds.load += (performance.now() - t0) / 1000;
+  };
   const { fixedList, free, nFree } = op;
   const boundary = (t: number, u: Float64Array) => {
     for (let k = 0; k < fixedList.length; k++) {
@@ -227,14 +238,18 @@ export function solveHeat(p: HeatProblem, method: TimeMethodName, T: number, ste
   const bf = new Float64Array(nFree), corr = new Float64Array(nFree), x0 = new Float64Array(nFree);
   /** A solver for (M + γΔt K) on the free unknowns: solve(rhs whole, target whole with boundary values set). */
   const implicit = (gamma: number): { step: (rhs: Float64Array, target: Float64Array) => void; solver: LinearSolver } => {
+    const t0 = performance.now();
     const { Sff, Sfd } = splitFree(1, op.M, gamma * dt, op.K, op);
     const solver = createLinearSolver(Sff, { relTol: 1e-12, ...p.solver, symmetric: true });
     solvers.push(solver);
+    seconds.setup += (performance.now() - t0) / 1000;
     const step = (rhs: Float64Array, target: Float64Array) => {
       spmv(Sfd, target, corr);
       for (let r = 0; r < nFree; r++) bf[r] = rhs[free[r]] - corr[r];
       for (let r = 0; r < nFree; r++) x0[r] = target[free[r]];
+      const t0 = performance.now();
       const { x, stats } = solver.solve(bf, { x0 });
+      seconds.solve += (performance.now() - t0) / 1000;
       solves++; iterations += stats.iterations;
       if (!stats.converged) {
         throw new RungsNumericalError(
@@ -341,7 +356,8 @@ export function solveHeat(p: HeatProblem, method: TimeMethodName, T: number, ste
   } finally {
     for (const s of solvers) s.dispose();
   }
-  return { u, history, steps, dt, solves, iterations, worst };
+  seconds.total = (performance.now() - tStart) / 1000;
+  return { u, history, steps, dt, solves, iterations, worst, seconds };
 }
 
 export type { Constraints };

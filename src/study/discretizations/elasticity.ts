@@ -71,7 +71,8 @@ export function builtInElasticity(disc: LagrangeDiscretization): LevelDiscretiza
       });
       const t = performance.now();
       const field = vectorLagrangeField(scalar, dim, sol.coefficients);
-      const [e, i] = fieldErrors([field, interp], exact, errOpts);
+      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const [e, i] = fieldErrors([field, interp], exact, { ...errOpts, perCell });
       const named = (v: typeof e) => ({ L2_u: v.L2, H1semi_u: v.H1semi, H1_u: v.H1, energy: v.energy!, div_u: v.div!, maxNodal_u: v.maxNodal });
       const est = sol.solver.energyErrorEstimate;
       return {
@@ -81,8 +82,16 @@ export function builtInElasticity(disc: LagrangeDiscretization): LevelDiscretiza
         quasiOptimality: i.energy! > 0 ? e.energy! / i.energy! : null,
         solver: sol.solver,
         algebraic: target > 0 && est !== undefined && Number.isFinite(est) ? { estimate: est, target, fraction, floors: { energy: est } } : null,
+        // Where the displacement error lives (src/study/where.ts); the files show its first component u_x.
+        errorCells: { perCell, field, exact: firstComponent(exact.value, dim), norms: { L2: 'L2_u', H1semi: 'H1semi_u' } },
         seconds: { assemble: sol.seconds.space + sol.seconds.assemble, solve: sol.seconds.solve, errors: seconds(t) + tEstimate },
       };
     },
   };
+}
+
+/** The first component of a vector point function, as a scalar function. */
+function firstComponent(f: (x: number, y: number, z: number, out: Float64Array) => void, dim: number): (x: number, y: number, z: number) => number {
+  const out = new Float64Array(dim);
+  return (x, y, z) => { f(x, y, z, out); return out[0]!; };
 }

@@ -4,6 +4,7 @@ import type { DiscreteField, NormValues } from '../../norms/types.ts';
 import type { Mesh } from '../../mesh/types.ts';
 import type { StudyProblem } from '../problem.ts';
 import { seconds } from './types.ts';
+import type { LevelErrorCells } from '../where.ts';
 import { interpolantField } from './scalar-lagrange.ts';
 
 /** The errors of a scalar discrete field and, in the same pass, of the nodal interpolant I_h u of that degree
@@ -11,19 +12,24 @@ import { interpolantField } from './scalar-lagrange.ts';
 export function measureField(
   field: DiscreteField, degree: number | undefined, mesh: Mesh, problem: StudyProblem, norms: readonly string[],
   interpKnown: NormValues | null = null, interpolant?: DiscreteField, space?: FunctionSpace,
-): { output: { errors: Record<string, number>; interpolationErrors?: Record<string, number>; quasiOptimality: number | null }; seconds: number } {
+): { output: { errors: Record<string, number>; interpolationErrors?: Record<string, number>; quasiOptimality: number | null; errorCells: LevelErrorCells }; seconds: number } {
   const t = performance.now();
   const exact = problem.exact!;
   const errOpts = { k: problem.coefficients.k, c: problem.coefficients.c };
   let interp = interpKnown;
   const withInterp = !interp && degree !== undefined && degree > 0;
   const interpField = withInterp ? (interpolant ?? interpolantField(mesh, degree, exact.u, space ?? null)) : null;
-  const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, errOpts);
+  // The errors per cell of the solution, in the same pass (src/study/where.ts; the totals are the same bits).
+  const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+  const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, { ...errOpts, perCell });
   if (interpErrs) interp = interpErrs;
   const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, (v as unknown as Record<string, number>)[nm]]));
   const quasi = problem.symmetric && interp && interp.energy > 0 ? errs.energy / interp.energy : null;
   return {
-    output: { errors: pick(errs), interpolationErrors: interp ? pick(interp) : undefined, quasiOptimality: quasi },
+    output: {
+      errors: pick(errs), interpolationErrors: interp ? pick(interp) : undefined, quasiOptimality: quasi,
+      errorCells: { perCell, field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' } },
+    },
     seconds: seconds(t),
   };
 }

@@ -4,12 +4,17 @@ import type { StudyDeclaration } from '../declaration.ts';
 import type { StudyProblem } from '../problem.ts';
 import type { LevelContext } from '../context.ts';
 import type { LevelResult } from '../result.ts';
+import type { LevelErrorCells } from '../where.ts';
 
 /** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
 export interface LevelEnvironment {
   out: string;
   /** The folder holding the study's generated manufactured data ({data}, RUNGS_DATA), when written. */
   data?: string;
+  /** The levels the study runs (its finest two get error files and maps). */
+  total?: number;
+  /** Write `level-k/errors.vtu` for the finest two levels (the CLI does; a study run from code does not). */
+  errorFiles?: boolean;
 }
 
 export interface LevelTime { T: number; steps: number; dt: number }
@@ -42,6 +47,8 @@ export interface LevelOutput {
   solver?: SolveStats | null;
   algebraic?: LevelResult['algebraic'];
   quantities?: Record<string, number>;
+  /** The errors per cell of the discrete solution, where the discretization measured them (src/study/where.ts). */
+  errorCells?: LevelErrorCells;
   seconds: { assemble: number; solve: number; errors: number; [phase: string]: number };
 }
 

@@ -13,7 +13,7 @@ import { interpolate, lagrangeField } from '../../src/fem/field/lagrange-field.t
 import { interpolateVector, vectorLagrangeField } from '../../src/fem/field/vector-field.ts';
 import { readVtkFile } from '../../src/external/vtk/read.ts';
 import { parseXml, childrenNamed, type XmlElement } from '../../src/external/vtk/xml.ts';
-import { vertexValues, vtuBytes, VTU_CELL_TYPE, writeVtu, type VtuFormat } from '../../src/report/vtu-writer.ts';
+import { vertexValues, vtuBytes, VTU_CELL_TYPE, writeVtu, type VtuFormat } from '../../src/external/vtk/write.ts';
 import { RungsInputError } from '../../src/errors.ts';
 
 const root = mkdtempSync(join(tmpdir(), 'rungs-vtu-'));

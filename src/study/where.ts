@@ -1,0 +1,105 @@
+import { join } from 'node:path';
+import { mkdirSync } from 'node:fs';
+import type { Mesh } from '../mesh/types.ts';
+import type { DiscreteField } from '../norms/types.ts';
+import type { PerCellErrors } from '../norms/errors.ts';
+import { boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
+import { parentCells } from '../mesh/nesting.ts';
+import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts';
+import { localOrders } from '../analysis/local-orders.ts';
+import { writeVtu, vertexValues } from '../external/vtk/write.ts';
+import { levelFolder } from '../external/index.ts';
+import { fileStem } from './names.ts';
+import type { ErrorMapEntry } from './result.ts';
+
+/** Where the error of one level lives, as a discretization measured it: ∫_K |e|² and ∫_K |∇e|² per cell of the
+ *  discrete solution (its first field), the field itself and the exact solution's value, for the files and maps. */
+export interface LevelErrorCells {
+  perCell: PerCellErrors;
+  field: DiscreteField;
+  /** u at a point (the first component of a vector field). */
+  exact: (x: number, y: number, z: number) => number;
+  /** The norm names the per-cell values belong to ('L2' and 'H1semi', or 'L2_u' and 'H1semi_u' for a system). */
+  norms: { L2: string; H1semi: string };
+}
+
+/** What a level keeps of its error cells: the errors per region (small, in the level's row) and, on the finest
+ *  level, the maps for the report. */
+export interface LevelWhere {
+  regions?: RegionErrors;
+  maps?: ErrorMapEntry[];
+}
+
+/** The finest level of the last study run in this thread but one, kept to compare cell by cell with the finest
+ *  (local orders need both meshes and both error arrays in one process; levels computed on other workers miss it). */
+const previous = new Map<string, { index: number; mesh: Mesh; perCell: PerCellErrors; h: number }>();
+
+export interface WhereOptions {
+  study: string;
+  index: number;
+  /** Levels the study runs (the finest two are written and mapped). */
+  total: number;
+  h: number;
+  /** The run's output folder, or undefined to write no files (tests through runStudy, for example). */
+  out?: string;
+}
+
+/**
+ * Turns a level's error cells into the study's record of where the error lives:
+ * - the errors in each boundary strip and the interior (src/mesh/regions.ts), on every level with boundary tags;
+ * - on the finest two levels, `level-k/errors.vtu` (the mesh, u_h and u at the vertices, u − u_h, and the cell
+ *   densities √(∫_K e² / |K|) and √(∫_K |∇e|² / |K|));
+ * - on the finest level, the density maps of both norms, and the local orders per cell of the level below when both
+ *   were computed in this process on nested meshes (Richardson-style per cell: log(e_K / e_children) / log(h_c/h_f)).
+ */
+export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions): LevelWhere {
+  const out: LevelWhere = {};
+  const { perCell } = cells;
+  if (mesh.tagNames.length > 0 && mesh.dim > 1) out.regions = regionErrors(mesh, boundaryStrips(mesh), perCell.L2, perCell.H1semi);
+  const finestTwo = o.index >= o.total - 2;
+  if (!finestTwo) return out;
+  if (o.out !== undefined) writeLevelVtu(mesh, cells, join(o.out, fileStem(o.study)), o.index);
+  if (o.index === o.total - 1) {
+    const maps: ErrorMapEntry[] = [];
+    for (const [norm, values] of [[cells.norms.L2, perCell.L2], [cells.norms.H1semi, perCell.H1semi]] as const) {
+      maps.push({ level: o.index, norm, what: 'density', map: encodeErrorMap(rasterizeCells(mesh, cellDensities(mesh, values))) });
+    }
+    const prev = previous.get(o.study);
+    // Local orders compare a mesh with its refinement: not on a ladder in Δt (one mesh) or across a grid's rows.
+    if (prev && prev.index === o.index - 1 && prev.h > o.h * (1 + 1e-9)) {
+      const nest = parentCells(prev.mesh, mesh);
+      if (nest.nested) {
+        const orders = localOrders(prev.perCell.L2, perCell.L2, nest.parent, prev.h / o.h);
+        maps.push({ level: prev.index, norm: cells.norms.L2, what: 'local-order', map: encodeErrorMap(rasterizeCells(prev.mesh, orders)) });
+      }
+    }
+    previous.delete(o.study);
+    out.maps = maps;
+  } else {
+    previous.set(o.study, { index: o.index, mesh, perCell, h: o.h });
+  }
+  return out;
+}
+
+/** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, base64 above (a third the time). */
+function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, index: number): void {
+  const dir = levelFolder(studyDir, index);
+  mkdirSync(dir, { recursive: true });
+  const uh = vertexValues(cells.field);
+  const nv = mesh.coords.length / mesh.dim;
+  const u = new Float64Array(nv), err = new Float64Array(nv);
+  for (let v = 0; v < nv; v++) {
+    const x = mesh.coords[v * mesh.dim]!, y = mesh.dim > 1 ? mesh.coords[v * mesh.dim + 1]! : 0, z = mesh.dim > 2 ? mesh.coords[v * mesh.dim + 2]! : 0;
+    u[v] = cells.exact(x, y, z);
+    err[v] = u[v]! - uh[v * (uh.length / nv)]!;
+  }
+  const measure = cellMeasures(mesh);
+  const density = (sq: Float64Array) => { const d = new Float64Array(sq.length); for (let c = 0; c < sq.length; c++) d[c] = Math.sqrt(sq[c]! / measure[c]!); return d; };
+  const components = uh.length / nv;
+  writeVtu(join(dir, 'errors.vtu'), {
+    mesh,
+    pointData: { u_h: components === 1 ? uh : { values: uh, components }, u: u, error: err },
+    cellData: { [`${cells.norms.L2}_density`]: density(cells.perCell.L2), [`${cells.norms.H1semi}_density`]: density(cells.perCell.H1semi) },
+    format: mesh.nCells > 200_000 ? 'binary' : 'ascii',
+  });
+}

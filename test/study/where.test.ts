@@ -1,0 +1,62 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { executeStudies } from '../../src/cli/execute.ts';
+import { readVtkFile } from '../../src/external/vtk/read.ts';
+import { decodeErrorMap } from '../../src/mesh/raster.ts';
+
+// Where the error lives, through the bundled studies. Facts behind the expectations (each study file explains its
+// flaw): the Dirichlet-node flaw shifts the data one node along every Dirichlet side, so its data are wrong on 'left',
+// 'right' and 'top', but u = exp(x) sin(2y) + y vanishes on 'bottom' (y = 0) for every x, where a shifted value is
+// still right (worked by hand); the Neumann-sign flaw flips the flux on 'right' and 'top' only. A sound study (P2 on
+// a tile) converges at one order everywhere.
+describe('where the error lives, on the bundled studies', async () => {
+  const out = mkdtempSync(join(tmpdir(), 'rungs-where-'));
+  afterAll(() => rmSync(out, { recursive: true, force: true }));
+  const run = await executeStudies(['studies/flaw-dirichlet-node.study.ts', 'studies/flaw-neumann-sign.study.ts', 'studies/tile-p2.study.ts'], { out, quiet: true });
+  const by = Object.fromEntries(run.results.map((r) => [r.study, r]));
+  const reason = (study: string, norm: string) => by[study]!.where!.find((w) => w.norm === norm)!.analysis;
+
+  it('the Dirichlet-node flaw is placed on the Dirichlet sides whose data are wrong, not on the one whose data vanish', () => {
+    const r = reason('flaw-dirichlet-node', 'L2');
+    expect(r.places.sort()).toEqual(['left', 'right', 'top']);
+    expect(r.reason).toMatch(/the data on 'left', 'right' and 'top' is the likely cause/);
+    expect(by['flaw-dirichlet-node']!.analyses.find((a) => a.name === 'L2')!.reasons.some((t) => t.startsWith('where: '))).toBe(true);
+  });
+
+  it('the Neumann-sign flaw is placed on the Neumann edges', () => {
+    const r = reason('flaw-neumann-sign', 'L2');
+    expect(r.places.sort()).toEqual(['right', 'top']);
+  });
+
+  it('a sound study has one order in every region, the expected one', () => {
+    for (const [norm, p] of [['L2', 3], ['H1semi', 2]] as const) {
+      const r = reason('tile-p2', norm);
+      expect(r.pattern).toBe('uniform');
+      expect(Math.abs(r.interior.order! - p)).toBeLessThan(0.1);
+    }
+  });
+
+  it('writes errors.vtu for the finest two levels, readable by rungs\'s own reader, with the densities per cell', () => {
+    const r = by['tile-p2']!;
+    const n = r.levels.length;
+    for (let k = 1; k <= n; k++) expect(existsSync(join(out, 'tile-p2', `level-${k}`, 'errors.vtu'))).toBe(k >= n - 1);
+    const grid = readVtkFile(join(out, 'tile-p2', `level-${n}`, 'errors.vtu'));
+    // The 2 × 1 tile at n cells per unit length: (2n + 1)(n + 1) vertices, 2 · 2n · n triangles (counted by hand).
+    const m = r.levels[n - 1]!.n!;
+    expect(grid.nPoints).toBe((2 * m + 1) * (m + 1));
+    expect(grid.nCells).toBe(4 * m * m);
+    expect(grid.pointData.map((a) => a.name).sort()).toEqual(['error', 'u', 'u_h']);
+  });
+
+  it('hands the report the finest level\'s density maps and the local orders of the level below', () => {
+    const maps = by['tile-p2']!.errorMaps!;
+    expect(maps.map((m) => `${m.what}:${m.norm}`).sort()).toEqual(['density:H1semi', 'density:L2', 'local-order:L2']);
+    const local = decodeErrorMap(maps.find((m) => m.what === 'local-order')!.map);
+    // Local orders of P2 in L2 on a smooth solution: 3 in the bulk of the cells (Brenner & Scott 2008, Thm 4.4.20
+    // for the global order; per cell it holds where the solution is smooth).
+    const v = Array.from(local.values).filter((x) => Number.isFinite(x)).sort((a, b) => a - b);
+    expect(Math.abs(v[Math.floor(v.length / 2)]! - 3)).toBeLessThan(0.2);
+  });
+});
