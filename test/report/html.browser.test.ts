@@ -13,6 +13,21 @@ import { densityScale } from '../../src/report/colour-scale.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const hasChromium = existsSync(CHROMIUM);
+
+/** A page in a fresh chromium that records console errors and every request made. */
+async function openInChromium(consoleErrors: string[], requests: string[]): Promise<{ browser: Browser; page: Page }> {
+  const browser = await chromium.launch({
+    executablePath: CHROMIUM,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  const page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text());
+  });
+  page.on('pageerror', (e) => consoleErrors.push(e.message));
+  page.on('request', (r) => requests.push(r.url()));
+  return { browser, page };
+}
 describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' : ` (skipped: ${CHROMIUM} not found; install chromium to run it)`}`, () => {
   const results = demoResults();
   let browser: Browser;
@@ -32,16 +47,7 @@ describe.skipIf(!hasChromium)(`HTML report in a real browser${hasChromium ? '' :
       inputProblems: [{ study: 'tile-p3', file: 'studies/tile-p3.study.ts', message: 'ladder.n must be increasing; got [8, 4, 16]' }],
     });
     expect(outcome.failed).toEqual([]);
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
-    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
-    page.on('console', (m) => {
-      if (m.type() === 'error') consoleErrors.push(m.text());
-    });
-    page.on('pageerror', (e) => consoleErrors.push(e.message));
-    page.on('request', (r) => requests.push(r.url()));
+    ({ browser, page } = await openInChromium(consoleErrors, requests));
     await page.goto(pathToFileURL(join(OUT, 'index.html')).href, { waitUntil: 'load' });
   });
 
@@ -124,16 +130,7 @@ describe.skipIf(!hasChromium)(`HTML report of studies with time in a real browse
     REPORTS = mkdtempSync(join(tmpdir(), 'rungs-browser-time-'));
     const out = join(REPORTS, 'rod');
     expect(writeReportFiles(out, results, { meta: { generatedAt: '2025-03-14T10:30:00Z' } }).failed).toEqual([]);
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
-    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
-    page.on('console', (m) => {
-      if (m.type() === 'error') consoleErrors.push(m.text());
-    });
-    page.on('pageerror', (e) => consoleErrors.push(e.message));
-    page.on('request', (r) => requests.push(r.url()));
+    ({ browser, page } = await openInChromium(consoleErrors, requests));
     await page.goto(pathToFileURL(join(out, 'index.html')).href, { waitUntil: 'load' });
   });
 
@@ -231,16 +228,7 @@ describe.skipIf(!hasChromium)(`HTML report with maps of where the error lives in
     REPORTS = mkdtempSync(join(tmpdir(), 'rungs-browser-maps-'));
     const out = join(REPORTS, 'maps');
     expect(writeReportFiles(out, results, { meta: { generatedAt: '2025-03-14T11:30:00Z' } }).failed).toEqual([]);
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
-    page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
-    page.on('console', (m) => {
-      if (m.type() === 'error') consoleErrors.push(m.text());
-    });
-    page.on('pageerror', (e) => consoleErrors.push(e.message));
-    page.on('request', (r) => requests.push(r.url()));
+    ({ browser, page } = await openInChromium(consoleErrors, requests));
     await page.goto(pathToFileURL(join(out, 'index.html')).href, { waitUntil: 'load' });
   });
 
