@@ -12,6 +12,7 @@ import type { DiscreteField, ExactField, ExactSolution, NormValues } from '../no
 import type { ExternalLevelRun, VtkSystemField } from '../external/index.ts';
 import type { PresetName } from '../equation/types.ts';
 import type { LevelResult } from './result.ts';
+import type { LevelErrorCells } from './where.ts';
 import { levelRuns, readSolutionFile, solutionSeries, SOLUTION_FILES, type ReadOutputOptions } from '../external/output.ts';
 import { outputLimit } from '../external/vtk/limits.ts';
 import { levelLabel } from '../external/where.ts';
@@ -66,7 +67,7 @@ export interface SeriesMeasure {
 }
 
 /** A LevelResult row for an external level, and the quantities the solver reported. */
-export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResultOptions): { level: LevelResult; quantities: Record<string, number> } {
+export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResultOptions): { level: LevelResult; quantities: Record<string, number>; errorCells?: LevelErrorCells } {
   const out = level.output;
   const pick = (v: Record<string, number>) => Object.fromEntries(opts.norms.map((nm) => [nm, v[nm]!]));
   const t = performance.now();
@@ -74,6 +75,7 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
   let interpolationErrors: Record<string, number> | undefined;
   let quasiOptimality: number | null = null;
   let cells: number;
+  let errorCells: LevelErrorCells | undefined;
   if (out.kind === 'errors') {
     // The code's own errors, under the norm names the study declares (built-in names or its own).
     errors = pick(out.errors);
@@ -94,7 +96,10 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
     cells = out.mesh.nCells;
   } else {
     const exact = opts.exact;
-    const errs: NormValues = errorNorms(out.field, exact, opts.errorOptions);
+    // The errors per cell of the code's own mesh, in the same pass (src/study/where.ts; the totals are the same bits).
+    const perCell = { L2: new Float64Array(out.mesh.nCells), H1semi: new Float64Array(out.mesh.nCells) };
+    const errs: NormValues = errorNorms(out.field, exact, { ...opts.errorOptions, perCell });
+    errorCells = { perCell, field: out.field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' }, mesh: out.mesh };
     errors = pick(errs as unknown as Record<string, number>);
     cells = out.mesh.nCells;
     if (opts.interpolation ?? true) {
@@ -118,6 +123,7 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
       seconds: { mesh: 0, assemble: 0, solve: level.seconds.solve, read: level.seconds.read, errors: tErrors, total: level.seconds.solve + level.seconds.read + tErrors },
     },
     quantities: { ...out.quantities },
+    errorCells,
   };
 }
 

@@ -64,7 +64,7 @@ async function runLevelUnguarded(
   const external = decl.discretization.kind === 'external';
   const tWhere = performance.now();
   const where = out.errorCells && env.total !== undefined
-    ? recordWhere(mesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? mesh.h, out: env.errorFiles ? env.out : undefined })
+    ? recordWhere(out.errorCells.mesh ?? mesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? mesh.h, out: env.errorFiles ? env.out : undefined })
     : {};
   if (out.errorCells) out.seconds.errors += seconds(tWhere);
   return {

@@ -21,6 +21,8 @@ export interface LevelErrorCells {
   exact: (x: number, y: number, z: number) => number;
   /** The norm names the per-cell values belong to ('L2' and 'H1semi', or 'L2_u' and 'H1semi_u' for a system). */
   norms: { L2: string; H1semi: string };
+  /** The mesh the cells belong to when it is not the level's own (an external code's, read from its VTK file). */
+  mesh?: Mesh;
 }
 
 /** What a level keeps of its error cells: the errors per region (small, in the level's row) and, on the finest

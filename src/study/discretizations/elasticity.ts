@@ -10,7 +10,7 @@ import type { LevelContext } from '../context.ts';
 import { DEFAULT_ERROR_FRACTION } from '../algebraic.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
-import { scalarOf, pickNorms, refuseRobin } from './system-common.ts';
+import { firstComponent, scalarOf, pickNorms, refuseRobin } from './system-common.ts';
 
 /** The displacement form is coercive when μ > 0 and the bulk modulus λ + 2μ/d > 0 (Braess 2007, ch. VI §1; Korn's
  *  inequality). In terms of Poisson's ratio ν = λ / (2(λ + μ)) that is −1 < ν < 1/2: at ν = 1/2 (λ = ∞) the
@@ -90,8 +90,3 @@ export function builtInElasticity(disc: LagrangeDiscretization): LevelDiscretiza
   };
 }
 
-/** The first component of a vector point function, as a scalar function. */
-function firstComponent(f: (x: number, y: number, z: number, out: Float64Array) => void, dim: number): (x: number, y: number, z: number) => number {
-  const out = new Float64Array(dim);
-  return (x, y, z) => { f(x, y, z, out); return out[0]!; };
-}

@@ -33,13 +33,13 @@ export function externalDiscretization(disc: ExternalDiscretization): LevelDiscr
           read: { level: { study: decl.name, index, n }, degree: disc.degree, fields: system.requests, maxOutputBytes: disc.maxOutputBytes },
         }
         : undefined;
-      const { level, quantities } = externalLevelResult(run, {
+      const { level, quantities, errorCells } = externalLevelResult(run, {
         index, n, exact: exact ?? undefined, norms, errorOptions: { k: coefficients.k, c: coefficients.c }, symmetric: problem.symmetric,
         system: system?.measure, overTime,
       });
       return {
         dofs: level.dofs, h: level.h, cells: level.cells, errors: level.errors, interpolationErrors: level.interpolationErrors, quasiOptimality: level.quasiOptimality,
-        solver: level.solver, quantities,
+        solver: level.solver, quantities, errorCells,
         seconds: { assemble: 0, solve: tSolve, errors: seconds(t) },
       };
     },

@@ -10,7 +10,7 @@ import type { DiscreteField, ExactField } from '../../norms/types.ts';
 import type { LagrangeDiscretization } from '../declaration.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
-import { pickNorms, refuseRobin, scalarOf } from './system-common.ts';
+import { firstComponent, pickNorms, refuseRobin, scalarOf } from './system-common.ts';
 
 /** MINRES stops at this relative (preconditioned) residual unless the study says otherwise, as for Stokes: well below
  *  the discretization error of the ladders rungs runs (the residual of an indefinite system is no error estimate). */
@@ -106,7 +106,9 @@ export function builtInMixedElasticity(disc: LagrangeDiscretization): LevelDiscr
       const pScalar = scalarOf(exactP.value);
       const uFields = [vectorLagrangeField(us, dim, sol.displacement), vectorLagrangeField(us, dim, interpolateVector(us, dim, exactU.value))];
       const pFields = [lagrangeField(ps, sol.pressure), lagrangeField(ps, interpolate(ps, pScalar))];
-      const [eu, iu] = fieldErrors(uFields, exactU, { divergence: true, elasticity: shearEnergyOptions(mu) });
+      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const uField = uFields[0]!;
+      const [eu, iu] = fieldErrors(uFields, exactU, { divergence: true, elasticity: shearEnergyOptions(mu), perCell });
       const [ep, ip] = fieldErrors(pFields, exactP);
       const wantEnergy = norms.includes('energy');
       const [epw, ipw] = wantEnergy ? inverseLambdaPressureNorms(pFields, exactP, lambda) : [Number.NaN, Number.NaN];
@@ -120,6 +122,8 @@ export function builtInMixedElasticity(disc: LagrangeDiscretization): LevelDiscr
         interpolationErrors: pickNorms(named(iu, ip, ipw), norms),
         quasiOptimality: null,
         solver: sol.solver,
+        // Where the displacement error lives (src/study/where.ts); the files show its first component.
+        errorCells: { perCell, field: uField, exact: firstComponent(exactU.value, dim), norms: { L2: 'L2_u', H1semi: 'H1semi_u' } },
         seconds: { assemble: sol.seconds.space + sol.seconds.assemble, solve: sol.seconds.solve, errors: seconds(t) },
       };
     },

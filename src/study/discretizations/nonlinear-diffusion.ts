@@ -44,7 +44,9 @@ export function builtInNonlinearDiffusion(disc: LagrangeDiscretization): LevelDi
         solver,
       });
       const t = performance.now();
-      const [e] = errorNormsOf([lagrangeField(sol.space.fields[0].space.scalar, sol.coefficients)], exact);
+      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const field = lagrangeField(sol.space.fields[0].space.scalar, sol.coefficients);
+      const [e] = errorNormsOf([field], exact, { perCell });
       const all = (v: typeof e) => ({ L2: v.L2, H1semi: v.H1semi, H1: v.H1, maxNodal: v.maxNodal });
       const last = sol.steps[sol.steps.length - 1];
       return {
@@ -54,6 +56,8 @@ export function builtInNonlinearDiffusion(disc: LagrangeDiscretization): LevelDi
         quasiOptimality: null,
         solver: { ...last.linear, iterations: sol.steps.reduce((s, st) => s + st.linear.iterations, 0), message: `Newton: ${sol.steps.length} steps, updates ${sol.steps.map((s) => s.update.toExponential(1)).join(' → ')}` },
         algebraic: target !== undefined ? { estimate: sol.nonlinearError, target, fraction, floors: { H1semi: sol.nonlinearError } } : null,
+        // Where the error lives (src/study/where.ts).
+        errorCells: { perCell, field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' } },
         seconds: { assemble: sol.seconds.space + sol.seconds.assemble, solve: sol.seconds.solve, errors: seconds(t) + tInterp },
       };
     },

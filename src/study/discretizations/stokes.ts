@@ -6,7 +6,7 @@ import { fieldErrors } from '../../norms/field-errors.ts';
 import type { LagrangeDiscretization } from '../declaration.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
-import { pickNorms, refuseRobin, scalarOf } from './system-common.ts';
+import { firstComponent, pickNorms, refuseRobin, scalarOf } from './system-common.ts';
 
 /** MINRES stops at this relative residual unless the study says otherwise: well below the discretization error of
  *  the ladders rungs runs (the residual is not an error estimate for an indefinite system, so no tie as for CG). */
@@ -41,7 +41,9 @@ export function builtInStokes(disc: LagrangeDiscretization): LevelDiscretization
       const t = performance.now();
       const vs = sol.space.fields[0].space.scalar, ps = sol.space.fields[1].space.scalar;
       const pScalar = scalarOf(exactP.value);
-      const [eu, iu] = fieldErrors([vectorLagrangeField(vs, dim, sol.velocity), vectorLagrangeField(vs, dim, interpolateVector(vs, dim, exactU.value))], exactU, { divergence: true });
+      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const uField = vectorLagrangeField(vs, dim, sol.velocity);
+      const [eu, iu] = fieldErrors([uField, vectorLagrangeField(vs, dim, interpolateVector(vs, dim, exactU.value))], exactU, { divergence: true, perCell });
       const [ep, ip] = fieldErrors([lagrangeField(ps, sol.pressure), lagrangeField(ps, interpolate(ps, pScalar))], exactP, { meanFree });
       const named = (u: typeof eu, p: typeof ep) => ({ L2_u: u.L2, H1semi_u: u.H1semi, H1_u: u.H1, div_u: u.div!, maxNodal_u: u.maxNodal, L2_p: p.L2 });
       return {
@@ -50,6 +52,8 @@ export function builtInStokes(disc: LagrangeDiscretization): LevelDiscretization
         interpolationErrors: pickNorms(named(iu, ip), norms),
         quasiOptimality: null,
         solver: sol.solver,
+        // Where the velocity error lives (src/study/where.ts); the files show its first component.
+        errorCells: { perCell, field: uField, exact: firstComponent(exactU.value, dim), norms: { L2: 'L2_u', H1semi: 'H1semi_u' } },
         seconds: { assemble: sol.seconds.space + sol.seconds.assemble, solve: sol.seconds.solve, errors: seconds(t) },
       };
     },

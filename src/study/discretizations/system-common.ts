@@ -19,3 +19,9 @@ export function refuseRobin(problem: StudyProblem, study: string, file: string):
     throw new RungsInputError(`${file} (study '${study}'): boundary.robin: rungs's own solver for ${problem.pde.label ?? 'this pde'} takes Dirichlet and Neumann parts only; use boundary.dirichlet / boundary.neumann, or an external code for Robin data`, file);
   }
 }
+
+/** The first component of a vector point function, as a scalar function. */
+export function firstComponent(f: (x: number, y: number, z: number, out: Float64Array) => void, dim: number): (x: number, y: number, z: number) => number {
+  const out = new Float64Array(dim);
+  return (x, y, z) => { f(x, y, z, out); return out[0]!; };
+}
