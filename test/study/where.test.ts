@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import { afterAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -48,6 +49,25 @@ describe('where the error lives, on the bundled studies', async () => {
     expect(grid.nPoints).toBe((2 * m + 1) * (m + 1));
     expect(grid.nCells).toBe(4 * m * m);
     expect(grid.pointData.map((a) => a.name).sort()).toEqual(['error', 'u', 'u_h']);
+  });
+
+  // VTK's own reader (Debian's python3-vtk9, installed by .ci/run): the file a user opens in a visualization tool.
+  const python = ['/usr/bin/python3', 'python3'].find((py) => spawnSync(py, ['-c', 'import vtk'], { encoding: 'utf8' }).status === 0);
+  it.skipIf(!python)(`errors.vtu opens in VTK's own reader with its arrays${python ? '' : ' (skipped: no python3 with `import vtk`)'}`, () => {
+    const r = by['tile-p2']!;
+    const n = r.levels.length;
+    const file = join(out, 'tile-p2', `level-${n}`, 'errors.vtu');
+    const script = [
+      'import sys, vtk',
+      'rd = vtk.vtkXMLUnstructuredGridReader(); rd.SetFileName(sys.argv[1]); rd.Update(); g = rd.GetOutput()',
+      'pd, cd = g.GetPointData(), g.GetCellData()',
+      'print(g.GetNumberOfPoints(), g.GetNumberOfCells(), sorted(pd.GetArrayName(i) for i in range(pd.GetNumberOfArrays())), sorted(cd.GetArrayName(i) for i in range(cd.GetNumberOfArrays())))',
+    ].join('\n');
+    const run = spawnSync(python!, ['-c', script, file], { encoding: 'utf8' });
+    expect(run.status, run.stderr).toBe(0);
+    const m = r.levels[n - 1]!.n!;
+    // Counts of the 2 × 1 tile as above (by hand).
+    expect(run.stdout.trim()).toBe(`${(2 * m + 1) * (m + 1)} ${4 * m * m} ['error', 'u', 'u_h'] ['H1semi_density', 'L2_density']`);
   });
 
   it('hands the report the finest level\'s density maps and the local orders of the level below', () => {
