@@ -32,6 +32,8 @@ export interface LevelResult {
   quantities?: Record<string, number>;
   /** The errors in each boundary strip and the interior (src/mesh/regions.ts), when measured per cell. */
   regions?: import('../mesh/regions.ts').RegionErrors;
+  /** The finest two levels' meshes and errors per cell, taken off the row as soon as it arrives (src/study/where.ts). */
+  cellErrors?: import('./where.ts').LevelCellErrors;
   /** The finest level's error maps, moved to StudyResult.errorMaps when the study completes. */
   maps?: ErrorMapEntry[];
   /** Peak resident set size in bytes while this level ran, when measured. */

@@ -3,6 +3,7 @@ import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOp
 import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import { analyseRegions } from '../analysis/regions.ts';
+import { localOrderMap, type LevelCellErrors } from './where.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -59,6 +60,8 @@ export interface PreparedStudy {
   result: StudyResult;
   /** Seconds spent deriving the PDE data (symbolic differentiation and checks). */
   prepareSeconds: number;
+  /** The finest two levels' meshes and errors per cell, by level index, until the study completes. */
+  cellErrors: Map<number, LevelCellErrors>;
 }
 
 /** Validates the PDE data and sets up the result; throws RungsInputError for bad input before any level runs. */
@@ -99,7 +102,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     : undefined;
   const prepareSeconds = (performance.now() - t0) / 1e3;
   result.seconds = prepareSeconds;
-  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, env: { out, data, total, errorFiles: opts.errorFiles ?? false } };
+  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, cellErrors: new Map(), env: { out, data, total, errorFiles: opts.errorFiles ?? false } };
 }
 
 function manufacturedWarnings(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): string[] {
@@ -140,6 +143,10 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
 
 /** Records a finished level (levels may arrive in any order; they are kept sorted). */
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
+  if (level.cellErrors) {
+    p.cellErrors.set(level.index, level.cellErrors);
+    delete level.cellErrors;
+  }
   p.result.levels.push(level);
   p.result.levels.sort((a, b) => a.index - b.index);
   // The study's own compute time (levels may run interleaved with other studies' on a pool).
@@ -154,6 +161,10 @@ export function completeStudy(p: PreparedStudy): StudyResult {
   // The finest level's error maps belong to the study (the report draws them), not to its row.
   const maps = p.result.levels.flatMap((l) => l.maps ?? []);
   for (const l of p.result.levels) delete l.maps;
+  const coarse = p.cellErrors.get(p.total - 2), fine = p.cellErrors.get(p.total - 1);
+  const local = coarse && fine ? localOrderMap(coarse, fine, p.total - 2) : null;
+  if (local) maps.push(local);
+  p.cellErrors.clear();
   if (maps.length) p.result.errorMaps = maps;
   p.result.asExpected = expectationMet(p.result);
   p.result.seconds += (performance.now() - t0) / 1e3;

@@ -30,11 +30,13 @@ export interface LevelErrorCells {
 export interface LevelWhere {
   regions?: RegionErrors;
   maps?: ErrorMapEntry[];
+  /** The finest two levels' mesh and ∫_K |e|² per cell, handed to the study (src/study/runner.ts addLevel) for the
+   *  local orders; never written (levels may come from other workers, so the pair meets only there). */
+  cellErrors?: LevelCellErrors;
 }
 
-/** The finest level of the last study run in this thread but one, kept to compare cell by cell with the finest
- *  (local orders need both meshes and both error arrays in one process; levels computed on other workers miss it). */
-const previous = new Map<string, { index: number; mesh: Mesh; perCell: PerCellErrors; h: number }>();
+/** A level's mesh with its ∫_K |e|² per cell, for the local orders of the pair of finest levels. */
+export interface LevelCellErrors { mesh: Mesh; L2: Float64Array; norm: string; h: number }
 
 export interface WhereOptions {
   study: string;
@@ -51,8 +53,8 @@ export interface WhereOptions {
  * - the errors in each boundary strip and the interior (src/mesh/regions.ts), on every level with boundary tags;
  * - on the finest two levels, `level-k/errors.vtu` (the mesh, u_h and u at the vertices, u − u_h, and the cell
  *   densities √(∫_K e² / |K|) and √(∫_K |∇e|² / |K|));
- * - on the finest level, the density maps of both norms, and the local orders per cell of the level below when both
- *   were computed in this process on nested meshes (Richardson-style per cell: log(e_K / e_children) / log(h_c/h_f)).
+ * - on the finest level, the density maps of both norms;
+ * - on the finest two, their mesh and errors per cell for the local orders (localOrderMap, once both are in).
  */
 export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions): LevelWhere {
   const out: LevelWhere = {};
@@ -66,21 +68,21 @@ export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions)
     for (const [norm, values] of [[cells.norms.L2, perCell.L2], [cells.norms.H1semi, perCell.H1semi]] as const) {
       maps.push({ level: o.index, norm, what: 'density', map: encodeErrorMap(rasterizeCells(mesh, cellDensities(mesh, values))) });
     }
-    const prev = previous.get(o.study);
-    // Local orders compare a mesh with its refinement: not on a ladder in Δt (one mesh) or across a grid's rows.
-    if (prev && prev.index === o.index - 1 && prev.h > o.h * (1 + 1e-9)) {
-      const nest = parentCells(prev.mesh, mesh);
-      if (nest.nested) {
-        const orders = localOrders(prev.perCell.L2, perCell.L2, nest.parent, prev.h / o.h);
-        maps.push({ level: prev.index, norm: cells.norms.L2, what: 'local-order', map: encodeErrorMap(rasterizeCells(prev.mesh, orders)) });
-      }
-    }
-    previous.delete(o.study);
     out.maps = maps;
-  } else {
-    previous.set(o.study, { index: o.index, mesh, perCell, h: o.h });
   }
+  out.cellErrors = { mesh, L2: perCell.L2, norm: cells.norms.L2, h: o.h };
   return out;
+}
+
+/** The local order of each cell of the coarser of the two finest levels, from its error and its children's on the
+ *  finest (log(e_K / e_children) / log(h_coarse / h_fine)), as a map for the report; null when the meshes are the
+ *  same (a ladder in Δt) or not nested. */
+export function localOrderMap(coarse: LevelCellErrors, fine: LevelCellErrors, coarseIndex: number): ErrorMapEntry | null {
+  if (!(coarse.h > fine.h * (1 + 1e-9))) return null;
+  const nest = parentCells(coarse.mesh, fine.mesh);
+  if (!nest.nested) return null;
+  const orders = localOrders(coarse.L2, fine.L2, nest.parent, coarse.h / fine.h);
+  return { level: coarseIndex, norm: coarse.norm, what: 'local-order', map: encodeErrorMap(rasterizeCells(coarse.mesh, orders)) };
 }
 
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, base64 above (a third the time). */

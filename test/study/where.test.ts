@@ -79,4 +79,12 @@ describe('where the error lives, on the bundled studies', async () => {
     const v = Array.from(local.values).filter((x) => Number.isFinite(x)).sort((a, b) => a - b);
     expect(Math.abs(v[Math.floor(v.length / 2)]! - 3)).toBeLessThan(0.2);
   });
+
+  it('computes the local orders also when the finest two levels ran on different workers', async () => {
+    const par = await executeStudies(['studies/tile-p2.study.ts'], { out: join(out, 'workers'), quiet: true, jobs: 2, parallelMinDofs: 0 });
+    const maps = par.results[0]!.errorMaps!;
+    expect(maps.map((m) => `${m.what}:${m.level}`)).toEqual(['density:4', 'density:4', 'local-order:3']);
+    // The same map as the serial run's: the levels are the same bits wherever they run.
+    expect(maps[2]!.map).toEqual(by['tile-p2']!.errorMaps!.find((m) => m.what === 'local-order')!.map);
+  });
 });
