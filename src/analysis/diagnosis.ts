@@ -92,6 +92,14 @@ export function crossNormReasons(analyses: readonly SeriesAnalysis[]): CrossNorm
     const falls = below.map((a) => shortfall(a)!);
     const spread = Math.max(...falls) - Math.min(...falls);
     const mean = falls.reduce((x, y) => x + y, 0) / falls.length;
+    if (spread <= SAME_SHORTFALL && mean >= 0.5 && below.every((a) => a.axis === 'dt')) {
+      out.push({
+        norms: names(below),
+        reason: `across norms: every norm loses about ${plain(Math.round(mean * 2) / 2)} order${Math.abs(mean - 1) < 0.25 ? '' : 's'} ` +
+          'in Δt alike — the time stepper, not the space discretization, is the likely cause',
+      });
+      return out;
+    }
     if (spread <= SAME_SHORTFALL && mean >= 0.5) {
       out.push({
         norms: names(below),

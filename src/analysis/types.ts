@@ -45,6 +45,9 @@ export interface SeriesInput {
   /** The study accepts a verdict from a fit over fewer than three levels (or a window floors cut short); the text
    *  is the study's reason. */
   allowFewLevels?: string;
+  /** What the ladder refines: 'h' (default) or 'dt' (a study with time refined in Δt on one mesh), which words the
+   *  reasons for a consistent loss of order in terms of the time stepper. */
+  axis?: 'h' | 'dt';
 }
 
 export type NormKind = 'global' | 'pointwise' | 'other';
@@ -67,6 +70,8 @@ export interface SeriesAnalysis {
   /** Departures from the default rules the study declared for this series, with the study's reasons; an
    *  above-order verdict passes a plain study only when `aboveOrder` is set. */
   allowed?: { aboveOrder?: string; fewLevels?: string };
+  /** Set to 'dt' for a series refined in Δt (SeriesInput.axis); absent for one refined in h. */
+  axis?: 'dt';
   /** Reasons in words, most important first. */
   reasons: string[];
   warnings: string[];

@@ -138,6 +138,12 @@ function shapeReasons(shape: RateShape, input: SeriesInput, expected: number, to
         'consistency error (quadrature, boundary data) or a solver floor'];
     case 'stable':
       if (shape.rates.length < 2 || Math.abs(shape.mean - expected) <= tolerance) return [];
+      if (shape.mean < expected && input.axis === 'dt') {
+        // In Δt on a fixed mesh, a consistent loss points at the stepper, not at the space discretization.
+        return [`rates in Δt are stable at ${fixed2(shape.mean)} instead of ${plain(expected)}: a consistent loss of temporal order — ` +
+          'typical of a time-stepping slip: a source or boundary data taken at the wrong time (the old time level, the ' +
+          'start of the step instead of a stage time), a start-up step of too low an order, or a stepper of lower order than declared'];
+      }
       if (shape.mean < expected) {
         return [`rates are stable at ${fixed2(shape.mean)} instead of ${plain(expected)}: a consistent loss of order — ` +
           'typical of an inconsistent term (under-integration, wrong boundary data, wrong sign)'];
@@ -194,6 +200,7 @@ export function analyseSeries(input: SeriesInput): SeriesAnalysis {
     floorFrom: floor.from,
     floorKind: floor.kind,
     ...(allowed ? { allowed } : {}),
+    ...(input.axis === 'dt' ? { axis: 'dt' as const } : {}),
   };
 
   if (floor.levels.every((k) => k === 'round-off')) {

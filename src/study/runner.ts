@@ -235,6 +235,7 @@ function finishAnalysis(
         : nm === 'maxNodal' || ((builtIn || fieldNormsOfVtk) && isPointwiseNorm(nm)) ? 'pointwise' : 'other',
       allowAboveOrder: allow.aboveOrder?.[nm],
       allowFewLevels: allow.fewLevels?.[nm],
+      ...(axis === 'dt' ? { axis: 'dt' as const } : {}),
     });
     if ((axis === 'dt' || axis === 'h') && addTimePitfalls(a, decl, levels, axis)) atAxisFloor.add(a);
     analyses.push(a);
@@ -255,7 +256,6 @@ function finishAnalysis(
   // The pattern across norms, mapped to likely causes.
   addCrossNormReasons(analyses);
   for (const a of atAxisFloor) a.reasons = a.reasons.filter((r) => !r.startsWith('across norms:'));
-  if (axis === 'dt') for (const a of analyses) a.reasons = a.reasons.map(inTime);
   // Where the order is lost: the errors of each boundary strip and of the interior fitted on their own
   // (src/analysis/regions.ts); on a ladder in Δt the mesh does not change, so there is nothing to compare.
   if (axis !== 'dt' && levels.length >= 2 && levels.every((l) => l.regions)) {
@@ -339,21 +339,6 @@ function addTimePitfalls(a: SeriesAnalysis, decl: StudyDeclaration, levels: Leve
 
 /** A finest rate below this is errors that no longer fall (common practice, no source). */
 const STALL = 0.3;
-
-/** The generic reasons of a ladder in Δt said in terms of time: a consistent loss of order there points at the time
- *  stepper (a source or boundary datum at the wrong time level or stage time, a start-up step of too low an order),
- *  not at the space discretization. */
-function inTime(reason: string): string {
-  const stable = /^rates are stable at (\S+) instead of (\S+): a consistent loss of order/.exec(reason);
-  if (stable) {
-    return `rates in Δt are stable at ${stable[1]} instead of ${stable[2]}: a consistent loss of temporal order — typical of a time-stepping slip: ` +
-      'a source or boundary data taken at the wrong time (the old time level, the start of the step instead of a stage time), ' +
-      'a start-up step of too low an order, or a stepper of lower order than declared';
-  }
-  const across = /^across norms: every norm is about (\S+) orders? low/.exec(reason);
-  if (across) return `across norms: every norm loses about ${across[1]} order${across[1] === '1' ? '' : 's'} in Δt alike — the time stepper, not the space discretization, is the likely cause`;
-  return reason;
-}
 
 /** What a study with time reports about its time axis (StudyResult.time). */
 function timeOf(decl: StudyDeclaration): NonNullable<StudyResult['time']> {

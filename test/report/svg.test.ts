@@ -3,63 +3,9 @@ import { OKABE_ITO, SERIES_COLORS } from '../../src/report/palette.ts';
 import { svgPlot } from '../../src/report/svg.ts';
 import { tileP1Patch, tileP2, tileP1Flawed } from './fixture.ts';
 import { byClass, byTag, hasClass, parseXml, textOf, type XmlNode } from './xml-tree.ts';
+import { logAxisOf as axisOf, markerCentre, pixelOf as pixel, triangleSlope } from './plot-geometry.ts';
 
 const MARKER_TAGS = new Set(['circle', 'rect', 'polygon']);
-
-/** "10−3" → -3; null when the label is not a power of ten. */
-function exponentOf(label: string): number | null {
-  const m = label.match(/^10([−-]?\d+)$/);
-  return m ? Number(m[1].replace('−', '-')) : null;
-}
-
-interface Axis {
-  /** Pixel position of the decade tick 10^k. */
-  at: Map<number, number>;
-  /** Pixels per decade. */
-  perDecade: number;
-}
-
-function axisOf(svg: XmlNode, cls: 'axis-x' | 'axis-y'): Axis {
-  const axis = byClass(svg, cls)[0];
-  const at = new Map<number, number>();
-  for (const tick of byClass(axis, 'tick-major')) {
-    const label = byClass(tick, 'tick-label')[0];
-    const k = exponentOf(textOf(label));
-    if (k === null) throw new Error(`tick label ${textOf(label)} is not a power of ten`);
-    expect(Number(tick.attrs['data-value'])).toBeCloseTo(10 ** k, 12 - k);
-    at.set(k, Number(cls === 'axis-x' ? label.attrs.x : label.attrs.y) - (cls === 'axis-y' ? 4 : 0));
-  }
-  const ks = [...at.keys()].sort((a, b) => a - b);
-  const perDecade = (at.get(ks[1])! - at.get(ks[0])!) / (ks[1] - ks[0]);
-  return { at, perDecade };
-}
-
-/** Data value → pixel on a log axis, from two decade ticks. */
-function pixel(axis: Axis, value: number): number {
-  const [k0, p0] = [...axis.at.entries()][0];
-  return p0 + (Math.log10(value) - k0) * axis.perDecade;
-}
-
-function markerCentre(m: XmlNode): [number, number] {
-  if (m.tag === 'circle') return [Number(m.attrs.cx), Number(m.attrs.cy)];
-  if (m.tag === 'rect') return [Number(m.attrs.x) + Number(m.attrs.width) / 2, Number(m.attrs.y) + Number(m.attrs.height) / 2];
-  const pts = m.attrs.points.split(' ').map((p) => p.split(',').map(Number));
-  const xs = pts.map((p) => p[0]);
-  const ys = pts.map((p) => p[1]);
-  return [(Math.min(...xs) + Math.max(...xs)) / 2, (Math.min(...ys) + Math.max(...ys)) / 2];
-}
-
-/** Slope of a triangle's hypotenuse in decades of y per decade of x. */
-function triangleSlope(tri: XmlNode, x: Axis, y: Axis): number {
-  const poly = byTag(tri, 'polygon')[0];
-  const pts = poly.attrs.points.split(' ').map((p) => p.split(',').map(Number));
-  // The right-angle corner shares its x with one corner and its y with the other; the remaining two span the hypotenuse.
-  const right = pts.findIndex((p, i) => pts.some((q, j) => j !== i && q[0] === p[0]) && pts.some((q, j) => j !== i && q[1] === p[1]));
-  const [a, b] = pts.filter((_, i) => i !== right);
-  const dx = (b[0] - a[0]) / x.perDecade;
-  const dy = (b[1] - a[1]) / y.perDecade;
-  return dy / dx;
-}
 
 describe('svgPlot against h', () => {
   const result = tileP2();
