@@ -65,3 +65,65 @@ function largest(values: Float64Array): number {
   for (let i = 0; i < values.length; i++) if (values[i]! > top && Number.isFinite(values[i]!)) top = values[i]!;
   return top;
 }
+
+/** What the local orders of a pair of levels say, in numbers a sentence can carry (summarizeLocalOrders). */
+export interface LocalOrderSummary {
+  /** Share of the coarse level's measure (area, length or volume) whose cells have a local order; the rest are at
+   *  round-off (LOCAL_ORDER_ROUND_OFF) or have no children. */
+  covered: number;
+  /** Measure-weighted 5%, 50% and 95% quantiles of the local orders over the cells that have one. */
+  p05: number;
+  median: number;
+  p95: number;
+  /** With an expected order p: the share of the covered measure whose local order lies below p − tolerance, and the
+   *  share above p + tolerance; null without one. */
+  below: number | null;
+  above: number | null;
+  /** The expected order and tolerance these shares are taken against (null without an expected order). */
+  expected: number | null;
+  tolerance: number;
+}
+
+/**
+ * Measure-weighted quantiles of per-cell local orders (localOrders) and the shares of the measure below and above the
+ * expected order's band: weighting by |K| makes the figures those of the domain, not of the mesh's cell count (a
+ * graded mesh has many small cells near a singularity). Quantile q is the smallest order whose cumulative weight
+ * reaches q of the total (the lower weighted quantile; common practice, no source). NaN orders are left out and
+ * their measure counts as not covered. Null when no cell has a local order.
+ */
+export function summarizeLocalOrders(
+  orders: Float64Array, measures: Float64Array, expected: number | null, tolerance: number,
+): LocalOrderSummary | null {
+  if (measures.length !== orders.length) {
+    throw new RungsInputError(`measures must hold one value per cell (${orders.length}), got ${measures.length}`, 'measures');
+  }
+  let total = 0, covered = 0, below = 0, above = 0;
+  const have: number[] = [];
+  for (let K = 0; K < orders.length; K++) {
+    const w = measures[K]!;
+    total += w;
+    const p = orders[K]!;
+    if (!Number.isFinite(p)) continue;
+    have.push(K);
+    covered += w;
+    if (expected !== null && p < expected - tolerance) below += w;
+    if (expected !== null && p > expected + tolerance) above += w;
+  }
+  if (have.length === 0 || !(covered > 0)) return null;
+  have.sort((a, b) => orders[a]! - orders[b]!);
+  const quantile = (q: number): number => {
+    let acc = 0;
+    for (const K of have) {
+      acc += measures[K]!;
+      if (acc >= q * covered) return orders[K]!;
+    }
+    return orders[have[have.length - 1]!]!;
+  };
+  return {
+    covered: covered / total,
+    p05: quantile(0.05), median: quantile(0.5), p95: quantile(0.95),
+    below: expected !== null ? below / covered : null,
+    above: expected !== null ? above / covered : null,
+    expected, tolerance,
+  };
+}

@@ -9,6 +9,8 @@
 import { scaleLinear } from 'd3-scale';
 import { decodeErrorMap, type ErrorMap } from '../mesh/raster.ts';
 import type { ErrorMapEntry, StudyResult } from '../study/result.ts';
+import type { LocalOrderSummary } from '../analysis/local-orders.ts';
+import type { RegionOrder } from '../analysis/regions.ts';
 import { COLOURS, densityScale, NO_VALUE, orderScale, type ColourScale } from './colour-scale.ts';
 import { fixed, levelNumber, orderText, sci } from './numbers.ts';
 import { OKABE_ITO } from './palette.ts';
@@ -331,6 +333,24 @@ function entryTitle(e: ErrorMapEntry): string {
   return e.what === 'density' ? `${e.norm} error density, level ${levelNumber(e.level)}` : `Local order of the ${e.norm} error, level ${levelNumber(e.level)}`;
 }
 
+/** A share of the area in words: "3%", "under 1%" for a small non-zero share, "none" for zero. */
+function shareText(x: number): string {
+  if (x === 0) return 'none';
+  if (x < 0.005) return 'under 1%';
+  if (x > 0.995 && x < 1) return 'over 99%';
+  return `${Math.round(100 * x)}%`;
+}
+
+/** The local orders of a map in one sentence: "Local orders over 98% of the area (the rest at round-off): median 2.98,
+ *  90% of the area between 2.85 and 3.10; 3% of it below 2.9 and none above 3.1 (expected 3 ± 0.1)." */
+export function localOrderSummaryText(s: LocalOrderSummary): string {
+  const where = s.covered < 0.995 ? `over ${shareText(s.covered)} of the area (the rest at round-off)` : 'over the whole area';
+  const band = s.expected !== null && s.below !== null && s.above !== null
+    ? `; ${shareText(s.below)} of it below ${orderText(s.expected - s.tolerance)} and ${shareText(s.above)} above ${orderText(s.expected + s.tolerance)} (expected ${orderText(s.expected)} ± ${orderText(s.tolerance)})`
+    : '';
+  return `Local orders ${where}: median ${fixed(s.median)}, 90% of the area between ${fixed(s.p05)} and ${fixed(s.p95)}${band}.`;
+}
+
 function entryCaption(r: StudyResult, e: ErrorMapEntry, map: ErrorMap, expected: number | null): string {
   const finest = r.levels.length > 0 && e.level === r.levels[r.levels.length - 1]!.index;
   const levelWords = `level ${levelNumber(e.level)}${finest ? ' (the finest)' : ''}`;
@@ -346,7 +366,8 @@ function entryCaption(r: StudyResult, e: ErrorMapEntry, map: ErrorMap, expected:
     : expected !== null
       ? `. Colours: red below the expected order ${orderText(expected)}, blue above it, pale on it (ColorBrewer RdBu)`
       : '. Colours: viridis on a linear scale (no expected order)';
-  return `Local observed order of the ${e.norm} error on each cell K of ${levelWords}, from its error and that of its children on level ${levelNumber(e.level + 1)}, ${where}${scaleWords}. ${hover}`;
+  const summary = e.summary ? ` ${localOrderSummaryText(e.summary)}` : '';
+  return `Local observed order of the ${e.norm} error on each cell K of ${levelWords}, from its error and that of its children on level ${levelNumber(e.level + 1)}, ${where}${scaleWords}.${summary} ${hover}`;
 }
 
 /** Added to the stylesheet only when some study has maps, so reports without them stay as they were. */
@@ -354,6 +375,9 @@ export const ERROR_MAP_CSS = `
 .error-maps { display: flex; flex-wrap: wrap; gap: 16px 28px; align-items: flex-start; }
 .error-maps figure { margin: 8px 0; max-width: 100%; }
 .error-maps figure svg { border: 1px solid var(--line); border-radius: 6px; }
+table.regions td.low, table.regions td.named { color: var(--bad); }
+table.regions td.named { font-weight: 600; }
+ul.region-reasons { margin: 2px 0 8px; padding-left: 18px; font-size: 13.5px; }
 @media print { .error-maps { gap: 8px 16px; } }
 `;
 
@@ -385,5 +409,46 @@ export function errorMapSection(r: StudyResult): string {
       `${svg}<figcaption>${escapeXml(entryCaption(r, e, map, expected))}</figcaption></figure>`
     );
   });
-  return ['<h3>Where the error lives</h3>', `<div class="error-maps">`, ...figures, '</div>'].join('\n');
+  return ['<h3>Where the error lives</h3>', `<div class="error-maps">`, ...figures, '</div>', regionTable(r)].filter((x) => x !== '').join('\n');
+}
+
+/** A region's name in the table: "interior", "strip along 'top'", "where 'left' and 'top' meet". */
+function regionName(o: RegionOrder): string {
+  if (o.kind === 'interior') return 'interior';
+  if (o.kind === 'strip') return `strip along '${o.tags[0]}'`;
+  return `where ${o.tags.map((t) => `'${t}'`).join(' and ')} meet`;
+}
+
+/**
+ * The order fitted in each region (the interior, the strip along each boundary tag, the cells where two strips meet)
+ * for each norm the study analysed by region (src/analysis/regions.ts), a region slower than the interior marked, and
+ * the analysis's reason per norm under the table; '' for a study without regions.
+ */
+export function regionTable(r: StudyResult): string {
+  const where = r.where ?? [];
+  if (where.length === 0) return '';
+  // Rows in the first norm's order (every norm has the same regions: they come from the same mesh tags).
+  const rows = [where[0]!.analysis.interior, ...where[0]!.analysis.strips, ...where[0]!.analysis.meets].map(regionName);
+  const cell = (o: RegionOrder | undefined, places: readonly string[]): string => {
+    if (!o || o.order === null) return '<td class="num">—</td>';
+    const ci = o.fit && Number.isFinite(o.fit.ciLow) && Number.isFinite(o.fit.ciHigh) ? ` [${fixed(o.fit.ciLow)}, ${fixed(o.fit.ciHigh)}]` : '';
+    const named = o.kind === 'strip' && places.includes(o.tags[0]!);
+    const marks = (o.low ? ' <span class="low-mark" title="slower than the interior">▼</span>' : '') +
+      (named ? ' <span class="named-mark" title="named as the likely cause">●</span>' : '');
+    return `<td class="num${o.low ? ' low' : ''}${named ? ' named' : ''}">${escapeXml(`${fixed(o.order)}${ci}`)}${marks}</td>`;
+  };
+  const byName = where.map((w) => {
+    const all = [w.analysis.interior, ...w.analysis.strips, ...w.analysis.meets];
+    return new Map(all.map((o) => [regionName(o), o]));
+  });
+  const body = rows.map((name) => `<tr><td class="text">${escapeXml(name)}</td>${byName.map((m, k) => cell(m.get(name), where[k]!.analysis.places)).join('')}</tr>`);
+  const expected = where.map((w) => `${w.norm} ${orderText(w.analysis.expected)}`).join(', ');
+  return [
+    '<table class="regions">',
+    `<caption>${escapeXml(`Observed order in each region, fitted like the global order over the finest levels before any floor, with its 95% interval (expected: ${expected}). ▼: slower than the interior; ●: a strip named as the likely cause in the reason below.`)}</caption>`,
+    `<thead><tr><th class="text">region</th>${where.map((w) => `<th>${escapeXml(w.norm)}</th>`).join('')}</tr></thead>`,
+    `<tbody>${body.join('\n')}</tbody>`,
+    '</table>',
+    `<ul class="region-reasons">${where.map((w) => `<li>${escapeXml(`${w.norm}: ${w.analysis.reason}`)}</li>`).join('')}</ul>`,
+  ].join('\n');
 }

@@ -16,7 +16,7 @@ import type { LevelErrorCells } from './where.ts';
 import { levelRuns, readSolutionFile, solutionSeries, SOLUTION_FILES, type ReadOutputOptions } from '../external/output.ts';
 import { outputLimit } from '../external/vtk/limits.ts';
 import { levelLabel } from '../external/where.ts';
-import { scalarOf } from './discretizations/system-common.ts';
+import { firstComponent, scalarOf } from './discretizations/system-common.ts';
 import { TIME_NORMS } from './discretizations/system-norms.ts';
 import { timeNormSums } from './discretizations/time-norms.ts';
 import { inverseLambdaPressureNorms, shearEnergyOptions } from './discretizations/mixed-elasticity.ts';
@@ -84,6 +84,7 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
     cells = out.mesh.nCells;
     if (!opts.system) throw new Error('internal: the fields of a system were read without what measures them');
     const m = systemErrors(out.fields, opts.system, opts.interpolation ?? true);
+    if (m.cells) errorCells = { ...m.cells, mesh: out.mesh };
     if (opts.overTime && opts.norms.some((nm) => TIME_NORMS.includes(nm))) {
       Object.assign(m.errors, seriesNorms(out.file, out.fields, opts.overTime));
       if (m.interpolation) Object.assign(m.interpolation, { Linf_L2: Number.NaN, L2_H1: Number.NaN });
@@ -138,8 +139,20 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
  */
 export function systemErrors(
   fields: readonly VtkSystemField[], sys: SystemMeasure, withInterpolant: boolean,
-): { errors: Record<string, number>; interpolation: Record<string, number> | null; quasiOptimality: number | null } {
+): { errors: Record<string, number>; interpolation: Record<string, number> | null; quasiOptimality: number | null; cells: LevelErrorCells } {
   const errors: Record<string, number> = {};
+  // Where the first field's error lives (src/study/where.ts), from the same cell sums as its totals (same bits).
+  const first = fields[0]!;
+  const nCells = first.field.mesh.nCells;
+  const perCell = { L2: new Float64Array(nCells), H1semi: new Float64Array(nCells) };
+  const firstSuffix = sys.lone ? '' : `_${first.name}`;
+  const firstExactField = sys.exact[first.name]!;
+  const firstExact = (x: number, y: number, z: number, o: Float64Array) => firstExactField.value(x, y, z, o);
+  const cells: LevelErrorCells = {
+    perCell, field: first.field,
+    exact: first.kind === 'scalar' ? scalarOf(firstExact) : firstComponent(firstExact, first.components),
+    norms: { L2: `L2${firstSuffix}`, H1semi: `H1semi${firstSuffix}` },
+  };
   const interp: Record<string, number> = {};
   const interpolants = new Map<string, DiscreteField>();
   const elastic = sys.preset === 'linear-elasticity' || sys.preset === 'nearly-incompressible-elasticity';
@@ -148,6 +161,7 @@ export function systemErrors(
     const exact = sys.exact[f.name];
     if (!exact) throw new Error(`internal: no exact field for ${f.name}`);
     const opts: FieldErrorOptions = { meanFree: sys.meanFree.includes(f.name) };
+    if (f === first) opts.perCell = perCell;
     if (f.kind === 'vector') opts.divergence = true;
     if (elastic && f.name === 'u') {
       if (!sys.lambda || !sys.mu) throw new Error('internal: the elasticity norms need λ and μ');
@@ -183,7 +197,7 @@ export function systemErrors(
       interp.energy = ipw !== undefined ? Math.sqrt(energyU[1] * energyU[1] + ipw * ipw) : Number.NaN;
     }
   }
-  return { errors, interpolation: withInterpolant ? interp : null, quasiOptimality };
+  return { errors, interpolation: withInterpolant ? interp : null, quasiOptimality, cells };
 }
 
 function name(into: Record<string, number>, v: FieldNormValues, suffix: string): void {

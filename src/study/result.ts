@@ -49,6 +49,8 @@ export interface ErrorMapEntry {
   norm: string;
   what: 'density' | 'local-order';
   map: EncodedErrorMap;
+  /** Local orders: their measure-weighted quantiles and the shares of the area off the expected order's band. */
+  summary?: import('../analysis/local-orders.ts').LocalOrderSummary;
 }
 
 export interface StudyResult {

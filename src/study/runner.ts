@@ -30,8 +30,9 @@ import { fileStem } from './names.ts';
 /** The norms of a scalar study that names none (systems: src/study/expected.ts defaultNorms). */
 export const DEFAULT_NORMS: NormName[] = ['L2', 'H1semi'];
 type StudyProblemOf = ReturnType<typeof buildProblem>;
-export const DEFAULT_TOLERANCE = 0.1;
-export const DEFAULT_FIT_WINDOW = 3;
+/** The verdict's defaults, defined with the rules (src/analysis/verdict.ts). */
+export { DEFAULT_FIT_WINDOW, DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
+import { DEFAULT_FIT_WINDOW, DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
 /** The Céa bound's allowance for quadrature and round-off lives with the rule (src/analysis/cea.ts). */
 export { QUASI_OPTIMALITY_SLACK } from '../analysis/index.ts';
 /** Verdicts a plain study passes with; above-order passes only in a norm the study declares in allow.aboveOrder. */
@@ -162,7 +163,9 @@ export function completeStudy(p: PreparedStudy): StudyResult {
   const maps = p.result.levels.flatMap((l) => l.maps ?? []);
   for (const l of p.result.levels) delete l.maps;
   const coarse = p.cellErrors.get(p.total - 2), fine = p.cellErrors.get(p.total - 1);
-  const local = coarse && fine ? localOrderMap(coarse, fine, p.total - 2) : null;
+  const local = coarse && fine
+    ? localOrderMap(coarse, fine, p.total - 2, p.expected[coarse.norm] ?? null, p.loaded.declaration.tolerance ?? DEFAULT_TOLERANCE)
+    : null;
   if (local) maps.push(local);
   p.cellErrors.clear();
   if (maps.length) p.result.errorMaps = maps;

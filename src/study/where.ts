@@ -6,7 +6,8 @@ import type { PerCellErrors } from '../norms/errors.ts';
 import { boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
 import { parentCells } from '../mesh/nesting.ts';
 import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts';
-import { localOrders } from '../analysis/local-orders.ts';
+import { localOrders, summarizeLocalOrders } from '../analysis/local-orders.ts';
+import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
 import { writeVtu, vertexValues } from '../external/vtk/write.ts';
 import { levelFolder } from '../external/index.ts';
 import { fileStem } from './names.ts';
@@ -75,14 +76,18 @@ export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions)
 }
 
 /** The local order of each cell of the coarser of the two finest levels, from its error and its children's on the
- *  finest (log(e_K / e_children) / log(h_coarse / h_fine)), as a map for the report; null when the meshes are the
- *  same (a ladder in Δt) or not nested. */
-export function localOrderMap(coarse: LevelCellErrors, fine: LevelCellErrors, coarseIndex: number): ErrorMapEntry | null {
+ *  finest (log(e_K / e_children) / log(h_coarse / h_fine)), as a map for the report with its summary (quantiles and
+ *  the shares of the area off the expected order's band ±tolerance); null when the meshes are the same (a ladder in
+ *  Δt) or not nested. */
+export function localOrderMap(
+  coarse: LevelCellErrors, fine: LevelCellErrors, coarseIndex: number, expected: number | null = null, tolerance = DEFAULT_TOLERANCE,
+): ErrorMapEntry | null {
   if (!(coarse.h > fine.h * (1 + 1e-9))) return null;
   const nest = parentCells(coarse.mesh, fine.mesh);
   if (!nest.nested) return null;
   const orders = localOrders(coarse.L2, fine.L2, nest.parent, coarse.h / fine.h);
-  return { level: coarseIndex, norm: coarse.norm, what: 'local-order', map: encodeErrorMap(rasterizeCells(coarse.mesh, orders)) };
+  const summary = summarizeLocalOrders(orders, cellMeasures(coarse.mesh), expected, tolerance);
+  return { level: coarseIndex, norm: coarse.norm, what: 'local-order', map: encodeErrorMap(rasterizeCells(coarse.mesh, orders)), ...(summary ? { summary } : {}) };
 }
 
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, base64 above (a third the time). */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { localOrders, LOCAL_ORDER_ROUND_OFF } from '../../src/analysis/local-orders.ts';
+import { localOrders, LOCAL_ORDER_ROUND_OFF, summarizeLocalOrders } from '../../src/analysis/local-orders.ts';
 import { RungsInputError } from '../../src/errors.ts';
 import { parentCells } from '../../src/mesh/nesting.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
@@ -77,5 +77,53 @@ describe('localOrders', () => {
     expect(() => localOrders(coarse, fine, parents.subarray(1), 2)).toThrow(/parents/);
     expect(() => localOrders(coarse, fine, Int32Array.from(parents, () => 5), 2)).toThrow(/not a coarse cell/);
     expect(() => localOrders(coarse, fine, parents, 2, 1)).toThrow(/threshold/);
+  });
+});
+
+describe('summarizeLocalOrders', () => {
+  it('weighted quantiles: the smallest order whose cumulative measure reaches q of the covered measure (worked by hand)', () => {
+    // Orders 1, 2, 3 on cells of equal measure and one cell without an order: covered 3/4; median at cumulative 1.5
+    // of 3 → the second cell (2); 5% → the first (1); 95% at 2.85 → the third (3). Against 2 ± 0.1: one third below,
+    // one third above.
+    const s = summarizeLocalOrders(Float64Array.of(3, 1, Number.NaN, 2), Float64Array.of(1, 1, 1, 1), 2, 0.1)!;
+    expect(s).toEqual({ covered: 0.75, p05: 1, median: 2, p95: 3, below: 1 / 3, above: 1 / 3, expected: 2, tolerance: 0.1 });
+    // Weights, not counts: a cell of measure 3 with order 1 beside one of measure 1 with order 2 puts the median at 1.
+    expect(summarizeLocalOrders(Float64Array.of(2, 1), Float64Array.of(1, 3), null, 0.1)).toMatchObject({ median: 1, below: null, above: null });
+  });
+
+  it('a strip of order 1 along the top of a mesh of order 2 (1/8 of the area): the shares are the strip\'s area', () => {
+    // 'crossed' triangles on the unit square, 8 → 16 per side; cells whose centroid lies above y = 7/8 carry
+    // density h^1, the others h^2, so their local orders are exactly 1 and 2 (closed form as in `ladder` above).
+    const coarse = rectangleMesh({ x: [0, 1], y: [0, 1], nx: 8, ny: 8, cells: 'triangles', diagonal: 'crossed' });
+    const fine = rectangleMesh({ x: [0, 1], y: [0, 1], nx: 16, ny: 16, cells: 'triangles', diagonal: 'crossed' });
+    const measures = (m: typeof coarse) => {
+      const a = new Float64Array(m.nCells);
+      for (let c = 0; c < m.nCells; c++) a[c] = 1 / m.nCells;
+      return a;
+    };
+    const top = (m: typeof coarse, c: number) => {
+      let y = 0;
+      for (let k = 0; k < 3; k++) y += m.coords[2 * m.cells[3 * c + k]! + 1]! / 3;
+      return y > 7 / 8;
+    };
+    const perCell = (m: typeof coarse, h: number) => {
+      const a = new Float64Array(m.nCells);
+      for (let c = 0; c < m.nCells; c++) a[c] = h ** (top(m, c) ? 2 : 4) / m.nCells;
+      return a;
+    };
+    const nest = parentCells(coarse, fine);
+    expect(nest.nested).toBe(true);
+    const orders = localOrders(perCell(coarse, 1 / 8), perCell(fine, 1 / 16), nest.parent, 2);
+    const s = summarizeLocalOrders(orders, measures(coarse), 2, 0.1)!;
+    expect(s.covered).toBe(1);
+    expect(s.median).toBeCloseTo(2, 12);
+    expect(s.p05).toBeCloseTo(1, 12);
+    expect(s.below).toBeCloseTo(1 / 8, 12);
+    expect(s.above).toBe(0);
+  });
+
+  it('null when no cell has an order; refuses measures of another length', () => {
+    expect(summarizeLocalOrders(Float64Array.of(Number.NaN), Float64Array.of(1), 2, 0.1)).toBeNull();
+    expect(() => summarizeLocalOrders(Float64Array.of(1, 2), Float64Array.of(1), 2, 0.1)).toThrow(RungsInputError);
   });
 });

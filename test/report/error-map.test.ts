@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { lShapeMesh, meshFromArrays } from '../../src/mesh/index.ts';
 import { encodeErrorMap, rasterizeCells, type ErrorMap } from '../../src/mesh/raster.ts';
 import { densityScale, orderScale } from '../../src/report/colour-scale.ts';
-import { errorMapSection, errorMapSvg, hoverRegions, ERROR_MAP_CSS } from '../../src/report/error-map.ts';
+import { errorMapSection, errorMapSvg, hoverRegions, localOrderSummaryText, ERROR_MAP_CSS } from '../../src/report/error-map.ts';
 import { htmlReport } from '../../src/report/html.ts';
 import { crc32, encodeIndexedPng, PNG_SIGNATURE } from '../../src/report/png.ts';
 import { demoResults } from './fixture.ts';
@@ -264,6 +264,18 @@ describe('the report section', () => {
     // Ids are unique on the page.
     const ids = [...htmlReport(results).matchAll(/ id="([^"]+)"/g)].map((m) => m[1]);
     expect(new Set(ids).size).toBe(ids.length);
+  });
+
+  it('states the local orders\' summary under their map, in shares of the area', () => {
+    const r = structuredClone(results[1]!);
+    const entry = r.errorMaps!.find((e) => e.what === 'local-order')!;
+    entry.summary = { covered: 0.97, p05: 1.3312, median: 1.98, p95: 2.041, below: 0.031, above: 0, expected: 2, tolerance: 0.1 };
+    expect(errorMapSection(r)).toContain(
+      'Local orders over 97% of the area (the rest at round-off): median 1.98, 90% of the area between 1.33 and 2.04; 3% of it below 1.9 and none above 2.1 (expected 2 ± 0.1).');
+    entry.summary = { covered: 1, p05: 2.9, median: 3, p95: 3.1, below: null, above: null, expected: null, tolerance: 0.1 };
+    expect(errorMapSection(r)).toContain('Local orders over the whole area: median 3.00, 90% of the area between 2.90 and 3.10.');
+    expect(localOrderSummaryText({ covered: 1, p05: 1, median: 2, p95: 2, below: 0.001, above: 0.9999, expected: 2, tolerance: 0.1 }))
+      .toContain('under 1% of it below 1.9 and over 99% above 2.1');
   });
 
   it('says where a 3D map was sliced, and draws a 1D study as profiles', () => {

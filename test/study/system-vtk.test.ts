@@ -2,7 +2,7 @@
 // file (L2_u, H1semi_u, div_u, energy, mean-free L2_p) with the orders of the preset; the stand-in
 // test/fixtures/handoff/system-vtk/interpolant-solver.mjs writes the nodal interpolant of the exact solution on a mesh
 // of its own, sound or with a flaw. Also the `fields` option's validation and the level errors of a bad file.
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -12,6 +12,8 @@ import { defineStudy, external, linearElasticity, rectangle, stokes } from '../.
 import { validateStudy } from '../../src/study/schema.ts';
 import { defaultNorms, expectedOrders } from '../../src/study/expected.ts';
 import type { StudyResult } from '../../src/study/result.ts';
+import { readVtkFile } from '../../src/external/vtk/read.ts';
+import { decodeErrorMap } from '../../src/mesh/raster.ts';
 
 const tmp = mkdtempSync(join(tmpdir(), 'rungs-system-vtk-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -89,6 +91,22 @@ describe('a Stokes code\'s VTK solution measured like rungs\'s own Taylor–Hood
       }
     }
     expect(bad).toEqual([]);
+  });
+
+  it('where the velocity error lives, as for rungs\'s own systems: regions, errors.vtu on the finest two levels, maps and local orders', () => {
+    const r = result('system-vtk-stokes-interpolant');
+    const n = r.levels.length;
+    for (let k = 1; k <= n; k++) expect(existsSync(join(tmp, 'out', r.study, `level-${k}`, 'errors.vtu'))).toBe(k >= n - 1);
+    expect(readVtkFile(join(tmp, 'out', r.study, `level-${n}`, 'errors.vtu')).pointData.map((a) => a.name).sort()).toEqual(['error', 'u', 'u_h']);
+    const maps = r.errorMaps!;
+    expect(maps.map((m) => `${m.what}:${m.norm}`).sort()).toEqual(['density:H1semi_u', 'density:L2_u', 'local-order:L2_u']);
+    // The P2 interpolant's L2 error is O(h³) on every cell where u is smooth (Brenner & Scott 2008, Thm 4.4.20, applied
+    // cell by cell), so both the regions and the median local order say 3.
+    const v = Array.from(decodeErrorMap(maps.find((m) => m.what === 'local-order')!.map).values).filter(Number.isFinite).sort((a, b) => a - b);
+    expect(Math.abs(v[Math.floor(v.length / 2)]! - 3)).toBeLessThan(0.2);
+    const where = r.where!.find((w) => w.norm === 'L2_u')!.analysis;
+    expect(where.pattern).toBe('uniform');
+    expect(Math.abs(where.interior.order! - 3)).toBeLessThan(0.2);
   });
 
   it('a pressure written with a constant 1000 added: the mean-free L2_p does not see it (the pressure is fixed only up to a constant)', () => {

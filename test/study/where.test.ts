@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { executeStudies } from '../../src/cli/execute.ts';
 import { readVtkFile } from '../../src/external/vtk/read.ts';
 import { decodeErrorMap } from '../../src/mesh/raster.ts';
+import { regionTable } from '../../src/report/error-map.ts';
 
 // Where the error lives, through the bundled studies. Facts behind the expectations (each study file explains its
 // flaw): the Dirichlet-node flaw shifts the data one node along every Dirichlet side, so its data are wrong on 'left',
@@ -78,6 +79,36 @@ describe('where the error lives, on the bundled studies', async () => {
     // for the global order; per cell it holds where the solution is smooth).
     const v = Array.from(local.values).filter((x) => Number.isFinite(x)).sort((a, b) => a - b);
     expect(Math.abs(v[Math.floor(v.length / 2)]! - 3)).toBeLessThan(0.2);
+    // The same in the map's summary, weighted by area: the median on 3, and no more than a few per cent of the area
+    // outside 3 ± 0.1 (the study's tolerance).
+    const s = maps.find((m) => m.what === 'local-order')!.summary!;
+    expect([s.covered, s.expected, s.tolerance]).toEqual([1, 3, 0.1]);
+    expect(Math.abs(s.median - 3)).toBeLessThan(0.05);
+    expect(s.below! + s.above!).toBeLessThan(0.05);
+  });
+
+  it('tabulates the order of every region in the report, the slow strips marked, with the reason per norm', () => {
+    const html = regionTable(by['flaw-dirichlet-node']!);
+    const rows = [...html.matchAll(/<tr><td class="text">([^<]+)<\/td>(<td[^>]*>.*?<\/td>)(<td[^>]*>.*?<\/td>)<\/tr>/g)]
+      .map((m) => ({ region: m[1]!.replaceAll('&apos;', "'"), L2: m[2]!, H1semi: m[3]! }));
+    // The interior first, then the four sides of the unit square in tag order, then the corners where two meet.
+    expect(rows.slice(0, 5).map((r) => r.region)).toEqual(['interior', "strip along 'left'", "strip along 'right'", "strip along 'bottom'", "strip along 'top'"]);
+    // In L2 the strips named as the cause are marked (the analysis above names them); 'bottom', where the data vanish, is not.
+    expect(rows.filter((r) => r.L2.includes('●')).map((r) => r.region)).toEqual(["strip along 'left'", "strip along 'right'", "strip along 'top'"]);
+    // In each column, the regions flagged slower than the interior are the ones the analysis flags.
+    const a = reason('flaw-dirichlet-node', 'H1semi');
+    const lowH1 = [a.interior, ...a.strips, ...a.meets].filter((o) => o.low).length;
+    expect(rows.filter((r) => r.H1semi.includes('▼')).length).toBe(lowH1);
+    expect(html.replaceAll('&apos;', "'")).toContain(`L2: ${reason('flaw-dirichlet-node', 'L2').reason}`);
+    expect(regionTable({ ...by['tile-p2']!, where: undefined })).toBe('');
+  });
+
+  it('summarises the Neumann-sign flaw\'s local orders as below the expected order over the whole area', () => {
+    // A flux of the wrong sign is an O(1) error in the data, so u_h converges to another solution: local order 0
+    // everywhere (the flaw's own file explains it).
+    const s = by['flaw-neumann-sign']!.errorMaps!.find((m) => m.what === 'local-order')!.summary!;
+    expect(s.below).toBe(1);
+    expect(Math.abs(s.median)).toBeLessThan(0.1);
   });
 
   it('computes the local orders also when the finest two levels ran on different workers', async () => {
