@@ -90,7 +90,9 @@ async function checkRun(
   if (baseline && !flags.updateBaseline) {
     // A study that could not run is an error already; "in the baseline but not run" would only repeat it.
     const failed = new Set(problems.map((p) => p.study));
-    findings = compareAll(results, baseline, { partial: flags.quick, facts })
+    // A run shortened on purpose (--quick, --levels N) is compared on the levels it ran, and says so.
+    const partial = flags.quick ? '--quick' : flags.levels !== undefined ? `--levels ${flags.levels}` : false;
+    findings = compareAll(results, baseline, { partial, facts })
       .filter((f) => !(f.kind === 'study-not-run' && failed.has(f.study)));
     printFindings(findings, flags);
   }
@@ -139,9 +141,10 @@ function printFindings(findings: readonly BaselineFinding[], flags: CheckFlags):
   const failures = findings.filter((f) => f.severity === 'failure').length;
   const partial = findings.filter((f) => f.kind === 'partial');
   const spans = new Set(partial.map((f) => `${f.level} of ${f.baseline}`));
+  const by = flags.quick ? '--quick' : `--levels ${flags.levels}`;
   const quick = partial.length === 0 ? ''
-    : spans.size === 1 ? `; --quick: the first ${[...spans][0]} recorded levels compared`
-      : `; --quick: fewer levels than recorded compared in ${partial.length} stud${partial.length === 1 ? 'y' : 'ies'} (see the notes)`;
+    : spans.size === 1 ? `; ${by}: the first ${[...spans][0]} recorded levels compared`
+      : `; ${by}: fewer levels than recorded compared in ${partial.length} stud${partial.length === 1 ? 'y' : 'ies'} (see the notes)`;
   if (errors === 0 && failures === 0) say(`baseline: no regressions${quick}`);
   else {
     const parts = [errors ? `${errors} error${errors > 1 ? 's' : ''} (the baseline cannot vouch for the run)` : '', failures ? `${failures} failure${failures > 1 ? 's' : ''}` : ''];

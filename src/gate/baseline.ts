@@ -156,7 +156,7 @@ export type FindingKind =
   | 'study-new' // the baseline has no entry for the study
   | 'declaration-changed' // the study's declaration differs from the one recorded
   | 'declaration-unrecorded' // the entry predates declaration hashes
-  | 'partial' // --quick: the first levels of a longer baseline were compared
+  | 'partial' // --quick or --levels: the first levels of a longer baseline were compared
   | 'study-not-run'; // the baseline has a study this run did not run
 
 /**
@@ -199,7 +199,7 @@ const RECORD_AGAIN = 'record it again (--update-baseline) from a trusted run';
 /**
  * How the run's ladder sits on the baseline's: the number of levels to compare, or the finding that stops the
  * comparison. Levels run must be the baseline's first levels, h and dofs alike; a shorter run is compared on the
- * levels it ran only when `partial` allows it (--quick), and a baseline shorter than the run cannot vouch for it.
+ * levels it ran only when `partial` allows it (--quick or --levels), and a baseline shorter than the run cannot vouch for it.
  */
 function ladderFit(result: StudyResult, entry: BaselineStudy, partial: boolean): { compared: number } | BaselineFinding {
   const s = result.study;
@@ -217,7 +217,7 @@ function ladderFit(result: StudyResult, entry: BaselineStudy, partial: boolean):
   }
   if (run === recorded || (run < recorded && partial)) return { compared: run };
   if (run < recorded) {
-    return mismatch(`${s}  ladder  ${run} levels vs baseline ${recorded} levels: the baseline was recorded on another ladder; record it again (only --quick compares a shorter run with a baseline's first levels)`);
+    return mismatch(`${s}  ladder  ${run} levels vs baseline ${recorded} levels: the baseline was recorded on another ladder; record it again (only --quick and --levels compare a shorter run with a baseline's first levels)`);
   }
   const lacking = Array.from({ length: run - recorded }, (_, i) => recorded + i + 1);
   return {
@@ -231,8 +231,9 @@ function ladderFit(result: StudyResult, entry: BaselineStudy, partial: boolean):
 export interface CompareOptions {
   /** Allowed relative growth of an error (default: the baseline's own tolerance, else 0.05). */
   relTol?: number;
-  /** Compare a run shorter than the baseline on the levels it ran (`rungs check --quick`). */
-  partial?: boolean;
+  /** Compare a run shorter than the baseline on the levels it ran: true or the option that shortened it ('--quick',
+   *  the default wording, or '--levels 3'), named in the note. */
+  partial?: boolean | string;
   /** The hash of the study's declaration now; compared with the recorded one. */
   declaration?: string;
 }
@@ -299,7 +300,7 @@ export function compareToBaseline(result: StudyResult, entry: BaselineStudy, opt
     if (compared < entry.ladder.levels) {
       findings.push({
         kind: 'partial', severity: 'note', study: s, level: compared, baseline: entry.ladder.levels,
-        line: `${s}  compared ${levelsText(Array.from({ length: compared }, (_, i) => i + 1))} of the baseline's ${entry.ladder.levels} (--quick)`,
+        line: `${s}  compared ${levelsText(Array.from({ length: compared }, (_, i) => i + 1))} of the baseline's ${entry.ladder.levels} (${typeof options.partial === 'string' ? options.partial : '--quick'})`,
       });
     }
   } else {
@@ -325,8 +326,8 @@ export function compareToBaseline(result: StudyResult, entry: BaselineStudy, opt
 }
 
 export interface CompareAllOptions {
-  /** Compare runs shorter than the baseline on the levels they ran (`rungs check --quick`). */
-  partial?: boolean;
+  /** Compare runs shorter than the baseline on the levels they ran (`rungs check --quick` or `--levels N`). */
+  partial?: boolean | string;
   /** Per study: the hash of its declaration now and its declared tolerance (which overrides the recorded one). */
   facts?: Record<string, StudyFacts>;
 }

@@ -46,9 +46,20 @@ describe('rungs check', () => {
     const missing = rungs('check', STUDY, '--baseline', join(dir, 'nope.json'), '--out', out);
     expect(missing.status).toBe(2);
     expect(missing.err).toMatch(/nope\.json/);
-    const shorter = rungs('check', STUDY, '--baseline', base, '--levels', '3', '--out', out);
-    expect(shorter.status).toBe(2);
-    expect(shorter.err).toMatch(/tile-p1  ladder  3 levels vs baseline 5 levels/);
+    // Another ladder: the baseline's first level recorded at another h.
+    const b = JSON.parse(readFileSync(base, 'utf8'));
+    b.studies['tile-p1'].ladder.h[0] *= 2;
+    const other = join(dir, 'other-ladder.json');
+    writeFileSync(other, JSON.stringify(b));
+    const moved = rungs('check', STUDY, '--baseline', other, '--out', out);
+    expect(moved.status).toBe(2);
+    expect(moved.err).toMatch(/other-ladder\.json: field studies\.tile-p1\.norms\.\w+\[0\]: level 1 \(h .*\) is not on the study's ladder/);
+  });
+  it('--levels N against a longer baseline compares the levels it ran, and says so', () => {
+    const shorter = rungs('check', STUDY, '--baseline', base, '--levels', '3', '--out', join(dir, 'levels3'));
+    expect(shorter.status).toBe(0);
+    expect(shorter.out).toMatch(/note: tile-p1  compared levels 1–3 of the baseline's 5 \(--levels 3\)/);
+    expect(shorter.out).toMatch(/baseline: no regressions; --levels 3: the first 3 of 5 recorded levels compared/);
   });
   it('--quick runs only the coarsest levels that still give a fit (3 unless the study says)', () => {
     const q = join(dir, 'quick');
