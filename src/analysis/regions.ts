@@ -1,7 +1,7 @@
 // Where the order drops: an observed order per region of the mesh (the strip along each boundary tag, the cells
 // where two strips meet, the interior) and a reason that names the place. The regions and their error sums come
 // from src/mesh/regions.ts.
-import type { RegionError, RegionErrors } from '../mesh/regions.ts';
+import type { RegionError, RegionErrors, RegionPeak } from '../mesh/regions.ts';
 import { fitOrderInH } from './fit.ts';
 import { rateInH } from './rates.ts';
 import type { OrderFit } from './types.ts';
@@ -18,6 +18,12 @@ export const REGION_ORDER_MARGIN = 0.3;
  *  source: smooth sound errors vary by less than that between a strip and the interior of a simple domain). */
 export const DENSITY_NOTE_FACTOR = 2;
 
+/** A region's error comes from one point when the cells around one vertex hold at least this share of it on the
+ *  finest two levels (an error spread along a strip of m cells puts about 6/m there in 2D, under 0.4 from m = 16 on)
+ *  and the share falls by less than POINT_SHARE_FALL between them (a spread error's halves). Chosen, no source. */
+export const POINT_SHARE = 0.5;
+export const POINT_SHARE_FALL = 1.5;
+
 export type RegionNorm = 'L2' | 'H1semi';
 
 /** One level: its mesh size and the error sums of its regions (regionErrors). */
@@ -33,6 +39,9 @@ export interface RegionOptions {
   tolerance?: number;
   /** First level on a floor in the global analysis (SeriesAnalysis.floorFrom); it and later levels are left out. */
   floorFrom?: number | null;
+  /** Whether the exact solution is singular at a point (its gradient grows toward it; src/study/where.ts
+   *  singularityTest). Without it, no strip is put down to a point singularity. */
+  singularAt?: (at: number[]) => boolean;
 }
 
 /** The observed order of one region. The local measure is the RMS density sqrt(Σ ∫_K e² / |region|): it does not
@@ -53,13 +62,20 @@ export interface RegionOrder {
   densityRatio: number | null;
   /** Order below the interior's by more than REGION_ORDER_MARGIN. */
   low: boolean;
+  /** Where the region's error gathers on the finest usable level (strips and meets; null for the interior). */
+  peak: RegionPeak | null;
+  /** The region's error comes from one point, peak.at (see pointOf). */
+  point: boolean;
+  /** A slow strip whose error comes from a point where the exact solution is singular (RegionOptions.singularAt). */
+  singular?: boolean;
 }
 
-/** 'localised': some strips (or meets of two strips) converge more slowly than the interior; 'uniform': every
+/** 'localised': some strips (or meets of two strips) converge more slowly than the interior; 'point': the only slow
+ *  strips owe their order to one point where the exact solution is singular (a re-entrant corner, say); 'uniform': every
  *  region shares the interior's order; 'faster-strips': none is slower but some strips converge faster (below
  *  the expected order, the strips that are not faster are named: nothing holds the error down there);
  *  'inconclusive': the interior or every strip lacks an order. */
-export type RegionPattern = 'localised' | 'uniform' | 'faster-strips' | 'inconclusive';
+export type RegionPattern = 'localised' | 'point' | 'uniform' | 'faster-strips' | 'inconclusive';
 
 export interface RegionAnalysis {
   norm: RegionNorm;
@@ -84,8 +100,12 @@ export function analyseRegions(
   const usableEnd = Math.min(levels.length, options.floorFrom ?? levels.length);
   const window = options.fitWindow ?? DEFAULT_FIT_WINDOW;
   const tolerance = options.tolerance ?? DEFAULT_TOLERANCE;
-  const build = (kind: RegionOrder['kind'], tags: string[], pick: (r: RegionErrors) => RegionError | undefined) =>
-    regionOrder(kind, tags, levels.map((l) => rmsOf(pick(l.regions), norm)), h, usableEnd, window);
+  const build = (kind: RegionOrder['kind'], tags: string[], pick: (r: RegionErrors) => RegionError | undefined) => {
+    const order = regionOrder(kind, tags, levels.map((l) => rmsOf(pick(l.regions), norm)), h, usableEnd, window);
+    // Meets are a few cells at a corner by construction: their peak says nothing about where the error comes from.
+    if (kind === 'strip') pointOf(order, levels.map((l) => peakOf(pick(l.regions), norm)), h, usableEnd);
+    return order;
+  };
 
   const interior = build('interior', [], (r) => r.interior);
   const tagNames = levels.length > 0 ? levels[levels.length - 1]!.regions.tagNames : [];
@@ -93,7 +113,31 @@ export function analyseRegions(
   const meets = meetKeys(levels).map(([a, b]) =>
     build('meet', [a, b], (r) => r.meets.find((m) => m.tags[0] === a && m.tags[1] === b)));
   for (const region of [...strips, ...meets]) compareWithInterior(region, interior, usableEnd);
+  // A slow strip whose error gathers at one point where the exact solution is singular owes its order to that point.
+  for (const s of strips) s.singular = s.low && s.point && s.peak !== null && (options.singularAt?.(s.peak.at) ?? false);
   return { norm, expected, interior, strips, meets, ...judge(interior, strips, meets, expected, tolerance) };
+}
+
+function peakOf(region: RegionError | undefined, norm: RegionNorm): RegionPeak | null {
+  if (region === undefined) return null;
+  return (norm === 'L2' ? region.peakL2 : region.peakH1semi) ?? null;
+}
+
+/**
+ * Whether a region's error comes from one point: on the finest two usable levels that have a peak, the cells around
+ * one vertex hold at least POINT_SHARE of the region's error, at the same place (within the coarser level's h), and
+ * the share does not fall away (an error spread along the region halves its share with every halving of h; see
+ * src/mesh/regions.ts regionPeak). Sets region.peak (the finest) and region.point.
+ */
+function pointOf(region: RegionOrder, peaks: (RegionPeak | null)[], h: readonly number[], usableEnd: number): void {
+  const found: number[] = [];
+  for (let i = usableEnd - 1; i >= 0 && found.length < 2; i--) if (peaks[i] && region.rms[i] !== null) found.push(i);
+  region.peak = found.length > 0 ? peaks[found[0]!]! : null;
+  if (found.length < 2) return;
+  const fine = peaks[found[0]!]!, coarse = peaks[found[1]!]!;
+  const apart = Math.hypot(...fine.at.map((x, d) => x - coarse.at[d]!));
+  region.point = fine.share >= POINT_SHARE && coarse.share >= POINT_SHARE && fine.share >= coarse.share / POINT_SHARE_FALL &&
+    apart <= h[found[1]!]!;
 }
 
 function rmsOf(region: RegionError | undefined, norm: RegionNorm): number | null {
@@ -122,7 +166,7 @@ function regionOrder(
   for (let i = 0; i < usableEnd; i++) if (rms[i] !== null) usable.push(i);
   const chosen = usable.slice(-Math.max(window, 2));
   const fit = chosen.length >= 2 ? fitOrderInH(rms.map((e) => e ?? Number.NaN), h, chosen) : null;
-  return { kind, tags, rms, rates, fit, order: fit ? fit.order : null, densityRatio: null, low: false };
+  return { kind, tags, rms, rates, fit, order: fit ? fit.order : null, densityRatio: null, low: false, peak: null, point: false };
 }
 
 function compareWithInterior(region: RegionOrder, interior: RegionOrder, usableEnd: number): void {
@@ -144,15 +188,23 @@ function judge(
   if (!strips.some((s) => s.order !== null)) {
     return { pattern: 'inconclusive', places: [], reason: 'no boundary strip has two levels with a positive error: the regions cannot be compared' };
   }
+  const singular = strips.filter((s) => s.singular);
   const lowTags = new Set(strips.filter((s) => s.low).map((s) => s.tags[0]!));
   // A meet that is low only because one of its strips is low says nothing new; one between two sound strips
   // points at the corner (2D) or edge (3D) itself.
   const lowMeets = meets.filter((m) => m.low && !m.tags.some((t) => lowTags.has(t)));
   // Lowest first by the order as shown (one decimal), so that ties keep the tag order.
   const shown = (r: RegionOrder) => Math.round(r.order! * 10);
-  const low = [...strips.filter((s) => s.low), ...lowMeets].sort((a, b) => shown(a) - shown(b));
+  const low = [...strips.filter((s) => s.low && !s.singular), ...lowMeets].sort((a, b) => shown(a) - shown(b));
   const below = expected !== null && pInterior < expected - tolerance;
-  if (low.length > 0) return localised(low, pInterior, below ? expected : null);
+  if (low.length > 0) {
+    const l = localised(low, pInterior, below ? expected : null);
+    return singular.length > 0 ? { ...l, reason: `${l.reason}; ${singularText(singular, null)}` } : l;
+  }
+  if (singular.length > 0) {
+    const also = below ? `; the interior, too, is below the expected order ${expected}` : '';
+    return { pattern: 'point', places: [], reason: `${singularText(singular, pInterior)}${also}` };
+  }
   const faster = strips.filter((s) => s.order !== null && s.order > pInterior + REGION_ORDER_MARGIN);
   if (faster.length === 0) {
     const loss = below ? `: the loss is not tied to one part of the boundary${densityNote(strips)}` : '';
@@ -217,6 +269,24 @@ function localised(low: RegionOrder[], pInterior: number, expected: number | nul
     places,
     reason: `${where}, ${fmt(pInterior)} in the interior: the data ${andList(causes)} is the likely cause${also}`,
   };
+}
+
+/** "order 0.2 in the strip along 'reentrant', with 92% of its error around (0, 0), where the exact solution is not
+ *  smooth (…): the singularity at (0, 0), not the data on 'reentrant', is the likely cause (…)" for strips put down to
+ *  a singular point; with the interior's order after the first strip when pInterior is given. */
+function singularText(strips: RegionOrder[], pInterior: number | null): string {
+  const interior = pInterior !== null ? ` (${fmt(pInterior)} in the interior)` : '';
+  const one = (s: RegionOrder, i: number) =>
+    `order ${fmt(s.order!)} in the strip along '${s.tags[0]}'${i === 0 ? interior : ''}, with ${Math.round(100 * s.peak!.share)}% of its error in the cells around ${pointText(s.peak!.at)}`;
+  const points = [...new Set(strips.map((s) => pointText(s.peak!.at)))];
+  return `${strips.map(one).join(', ')}, where the exact solution is not smooth (its gradient grows toward ${points.length > 1 ? 'those points' : 'that point'}): ` +
+    `the singularity at ${andList(points)}, not the data on ${andList(strips.map((s) => quote(s.tags[0]!)))}, is the likely cause ` +
+    '(uniform refinement cannot restore the order next to it; graded meshes can)';
+}
+
+/** "(0, 0)", "(0.5, 1, 0.25)": coordinates with up to three significant digits. */
+function pointText(at: number[]): string {
+  return `(${at.map((x) => String(Number(x.toPrecision(3)))).join(', ')})`;
 }
 
 /** "; on the finest level the error is densest in the strip along 'top' (3.1 times the interior's RMS)" naming the

@@ -141,8 +141,17 @@ function findMeets(stripCells: Int32Array[], mark: Uint8Array, measures: Float64
   return meets;
 }
 
+/** Where a region's error peaks: the vertex around which its error gathers most, and the share of the region's
+ *  squared error in the region's cells that touch that vertex (see regionPeak). */
+export interface RegionPeak {
+  share: number;
+  /** The vertex's coordinates (dim values). */
+  at: number[];
+}
+
 /** Error sums over one region: L2 = sqrt(Σ ∫_K e²), H1semi = sqrt(Σ ∫_K |∇e|²), and the RMS densities
- *  sqrt(Σ / measure) (null for an empty region; H1 values null when no gradient densities were given). */
+ *  sqrt(Σ / measure) (null for an empty region; H1 values null when no gradient densities were given); for the
+ *  strips and meets, where each norm's error peaks (peakL2, peakH1semi; null for an empty region or a zero error). */
 export interface RegionError {
   cells: number;
   measure: number;
@@ -150,6 +159,8 @@ export interface RegionError {
   H1semi: number | null;
   rmsL2: number | null;
   rmsH1semi: number | null;
+  peakL2?: RegionPeak | null;
+  peakH1semi?: RegionPeak | null;
 }
 
 /** Per-region errors of one level: small plain data (JSON-safe: no typed arrays, no NaN). */
@@ -173,13 +184,65 @@ export function regionErrors(
   requirePerCell(mesh, perCellL2sq, 'perCellL2sq');
   if (perCellH1sq !== null) requirePerCell(mesh, perCellH1sq, 'perCellH1sq');
   const sum = (set: CellSet): RegionError => sumOver(set, perCellL2sq, perCellH1sq);
+  // Peaks only where a reason may need them (a strip or a meet, never the interior, which may hold most cells).
+  const onBoundary = boundaryVertices(mesh);
+  const withPeak = (set: CellSet): RegionError => ({
+    ...sum(set),
+    peakL2: regionPeak(mesh, set, perCellL2sq, onBoundary),
+    peakH1semi: perCellH1sq === null ? null : regionPeak(mesh, set, perCellH1sq, onBoundary),
+  });
   return {
     tagNames: [...regions.tagNames],
     strips: regions.strips.map(sum),
-    own: regions.own.map(sum),
-    meets: regions.meets.map((m) => ({ ...sum(m), tags: [regions.tagNames[m.tags[0]]!, regions.tagNames[m.tags[1]]!] })),
+    own: regions.own.map(withPeak),
+    meets: regions.meets.map((m) => ({ ...withPeak(m), tags: [regions.tagNames[m.tags[0]]!, regions.tagNames[m.tags[1]]!] })),
     interior: sum(regions.interior),
   };
+}
+
+/**
+ * Where a region's error gathers: among the vertices of its cell with the largest error, the one whose touching
+ * cells (of the region) hold the most of it (a tie goes to a vertex on the boundary), with that share of the region's total. An error spread along a strip
+ * of m cells puts about (cells around one vertex) / m of it there, a share that halves with every halving of h; an
+ * error that comes from one point (the singular gradient at a re-entrant corner, data or coefficients that jump at a
+ * point) keeps a share of order one on every level, since the local errors fall off geometrically with the distance
+ * from the point in units of h (common practice, no source). Null for an empty region or a zero error. O(cells of
+ * the region × vertices per cell).
+ */
+export function regionPeak(mesh: Mesh, set: CellSet, perCell: Float64Array, onBoundary = boundaryVertices(mesh)): RegionPeak | null {
+  const n = mesh.verticesPerCell, { cells } = mesh;
+  let total = 0, worst = -1, top = 0;
+  for (let k = 0; k < set.cells.length; k++) {
+    const c = set.cells[k]!, v = perCell[c]!;
+    total += v;
+    if (v > top) { top = v; worst = c; }
+  }
+  if (worst < 0 || !(total > 0)) return null;
+  const candidates = Array.from({ length: n }, (_, k) => cells[worst * n + k]!);
+  const around = new Float64Array(n);
+  for (let k = 0; k < set.cells.length; k++) {
+    const c = set.cells[k]!;
+    for (let j = 0; j < n; j++) {
+      const at = candidates.indexOf(cells[c * n + j]!);
+      if (at >= 0) around[at]! += perCell[c]!;
+    }
+  }
+  // Ties (two vertices of the worst cell touching the same cells) go to a boundary vertex: a strip is about the boundary.
+  let best = 0;
+  for (let j = 1; j < n; j++) {
+    const tie = around[j]! >= around[best]! * (1 - 1e-12) && around[j]! <= around[best]! * (1 + 1e-12);
+    if (around[j]! > around[best]! * (1 + 1e-12) || (tie && onBoundary[candidates[j]!] === 1 && onBoundary[candidates[best]!] !== 1)) best = j;
+  }
+  const v = candidates[best]!, dim = mesh.dim;
+  return { share: around[best]! / total, at: Array.from({ length: dim }, (_, d) => mesh.coords[v * dim + d]!) };
+}
+
+/** 1 for the vertices of the mesh's boundary facets. */
+function boundaryVertices(mesh: Mesh): Uint8Array {
+  const mark = new Uint8Array(mesh.nVertices);
+  const m = mesh.verticesPerFacet;
+  for (let k = 0; k < mesh.nFacets * m; k++) mark[mesh.facets[k]!] = 1;
+  return mark;
 }
 
 function requirePerCell(mesh: Mesh, values: Float64Array, name: string): void {

@@ -434,7 +434,8 @@ export function regionTable(r: StudyResult): string {
     const ci = o.fit && Number.isFinite(o.fit.ciLow) && Number.isFinite(o.fit.ciHigh) ? ` [${fixed(o.fit.ciLow)}, ${fixed(o.fit.ciHigh)}]` : '';
     const named = o.kind === 'strip' && places.includes(o.tags[0]!);
     const marks = (o.low ? ' <span class="low-mark" title="slower than the interior">▼</span>' : '') +
-      (named ? ' <span class="named-mark" title="named as the likely cause">●</span>' : '');
+      (named ? ' <span class="named-mark" title="named as the likely cause">●</span>' : '') +
+      (o.singular ? ' <span class="point-mark" title="its error gathers at a point where the exact solution is singular">✱</span>' : '');
     return `<td class="num${o.low ? ' low' : ''}${named ? ' named' : ''}">${escapeXml(`${fixed(o.order)}${ci}`)}${marks}</td>`;
   };
   const byName = where.map((w) => {
@@ -445,7 +446,7 @@ export function regionTable(r: StudyResult): string {
   const expected = where.map((w) => `${w.norm} ${orderText(w.analysis.expected)}`).join(', ');
   return [
     '<table class="regions">',
-    `<caption>${escapeXml(`Observed order in each region, fitted like the global order over the finest levels before any floor, with its 95% interval (expected: ${expected}). ▼: slower than the interior; ●: a strip named as the likely cause in the reason below.`)}</caption>`,
+    `<caption>${escapeXml(`Observed order in each region, fitted like the global order over the finest levels before any floor, with its 95% interval (expected: ${expected}). ▼: slower than the interior; ●: a strip named as the likely cause in the reason below; ✱: a strip whose error gathers at a point where the exact solution is singular.`)}</caption>`,
     `<thead><tr><th class="text">region</th>${where.map((w) => `<th>${escapeXml(w.norm)}</th>`).join('')}</tr></thead>`,
     `<tbody>${body.join('\n')}</tbody>`,
     '</table>',

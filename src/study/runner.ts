@@ -3,7 +3,7 @@ import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOp
 import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import { analyseRegions } from '../analysis/regions.ts';
-import { localOrderMap, type LevelCellErrors } from './where.ts';
+import { localOrderMap, readLevelCellErrors, singularityTest, type LevelCellErrors } from './where.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -162,7 +162,22 @@ export function completeStudy(p: PreparedStudy): StudyResult {
   // The finest level's error maps belong to the study (the report draws them), not to its row.
   const maps = p.result.levels.flatMap((l) => l.maps ?? []);
   for (const l of p.result.levels) delete l.maps;
-  const coarse = p.cellErrors.get(p.total - 2), fine = p.cellErrors.get(p.total - 1);
+  let coarse = p.cellErrors.get(p.total - 2), fine = p.cellErrors.get(p.total - 1);
+  // A level reused by --resume comes without its cell errors (its record keeps only its row): read them back from the
+  // errors.vtu the earlier run wrote, when the finest level has maps (it measured cells) and files are being written.
+  if ((!coarse || !fine) && p.total >= 2 && maps.length > 0 && p.env.errorFiles) {
+    const dir = join(p.env.out, fileStem(p.loaded.declaration.name));
+    const back = (index: number): LevelCellErrors | undefined => {
+      const level = p.result.levels.find((l) => l.index === index);
+      if (!level) return undefined;
+      const got = readLevelCellErrors(dir, index, level.h);
+      if ('cells' in got) return got.cells;
+      p.result.warnings.push(`no local orders: level ${index + 1}'s cell errors were not kept with its record, and ${got.missing}`);
+      return undefined;
+    };
+    coarse ??= back(p.total - 2);
+    if (coarse) fine ??= back(p.total - 1);
+  }
   const local = coarse && fine
     ? localOrderMap(coarse, fine, p.total - 2, p.expected[coarse.norm] ?? null, p.loaded.declaration.tolerance ?? DEFAULT_TOLERANCE)
     : null;
@@ -263,10 +278,14 @@ function finishAnalysis(
   // (src/analysis/regions.ts); on a ladder in Δt the mesh does not change, so there is nothing to compare.
   if (axis !== 'dt' && levels.length >= 2 && levels.every((l) => l.regions)) {
     result.where = [];
+    // A slow strip may owe its order to a point where u is singular (a re-entrant corner): the exact solution says so.
+    // Scalar steady studies only (the gradient of u at the final time of a heat study is not at hand here).
+    const exact = problem.exact;
+    const singularAt = exact && !decl.time ? singularityTest(exact.grad, decl.domain.dim, levels[levels.length - 1]!.h) : undefined;
     for (const a of analyses) {
       const norm = a.name === 'L2' || a.name === 'L2_u' ? 'L2' : a.name === 'H1semi' || a.name === 'H1semi_u' ? 'H1semi' : null;
       if (!norm) continue;
-      const r = analyseRegions(levels.map((l) => ({ h: l.h, regions: l.regions! })), norm, a.expected, { fitWindow, tolerance, floorFrom: a.floorFrom });
+      const r = analyseRegions(levels.map((l) => ({ h: l.h, regions: l.regions! })), norm, a.expected, { fitWindow, tolerance, floorFrom: a.floorFrom, singularAt });
       result.where.push({ norm: a.name, analysis: r });
       if (a.verdict !== 'on-order' && a.verdict !== 'exact') a.reasons.push(`where: ${r.reason}`);
     }

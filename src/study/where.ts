@@ -9,6 +9,9 @@ import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts
 import { localOrders, summarizeLocalOrders } from '../analysis/local-orders.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
 import { writeVtu, vertexValues } from '../external/vtk/write.ts';
+import { readVtkFile } from '../external/vtk/read.ts';
+import { meshFromArrays } from '../mesh/from-arrays.ts';
+import { CELL_DIM, type CellKind } from '../mesh/types.ts';
 import { levelFolder } from '../external/index.ts';
 import { fileStem } from './names.ts';
 import type { ErrorMapEntry } from './result.ts';
@@ -90,6 +93,42 @@ export function localOrderMap(
   return { level: coarseIndex, norm: coarse.norm, what: 'local-order', map: encodeErrorMap(rasterizeCells(coarse.mesh, orders)), ...(summary ? { summary } : {}) };
 }
 
+/** The linear VTK cell types writeVtu writes, by id (vtkCellType.h: VTK_LINE 3, VTK_TRIANGLE 5, VTK_QUAD 9,
+ *  VTK_TETRA 10, VTK_HEXAHEDRON 12), in rungs's vertex order (see src/external/vtk/write.ts). */
+const WRITTEN_KINDS: Readonly<Record<number, CellKind>> = { 3: 'interval', 5: 'triangle', 9: 'quadrilateral', 10: 'tetrahedron', 12: 'hexahedron' };
+
+/**
+ * A level's mesh and ∫_K |e|² per cell read back from the `errors.vtu` an earlier run wrote for it (writeLevelVtu),
+ * for a level that `--resume` reuses: its cell errors were not kept with its record, and the local orders need them.
+ * ∫_K e² = density² · |K| (the file's `<norm>_density` array, the first whose name starts with 'L2'), equal to what
+ * was written up to two roundings. Null, with the reason, when the file is missing or not one rungs wrote.
+ */
+export function readLevelCellErrors(studyDir: string, index: number, h: number): { cells: LevelCellErrors } | { missing: string } {
+  const file = join(levelFolder(studyDir, index), 'errors.vtu');
+  let grid;
+  try {
+    grid = readVtkFile(file);
+  } catch (err) {
+    return { missing: `${file} could not be read (${err instanceof Error ? err.message : String(err)})` };
+  }
+  const density = grid.cellData.find((a) => a.name.startsWith('L2') && a.name.endsWith('_density') && a.components === 1);
+  const kind = grid.nCells > 0 ? WRITTEN_KINDS[grid.types[0]!] : undefined;
+  if (!density || !kind || grid.types.some((t) => WRITTEN_KINDS[t] !== kind)) return { missing: `${file} is not an errors.vtu rungs wrote (no L2 density per cell, or cells of another kind)` };
+  const mesh = meshFromArrays({ cellKind: kind, coords: vtkCoords(grid.points, grid.nPoints, kind), cells: grid.connectivity }, file);
+  const measure = cellMeasures(mesh);
+  const L2 = new Float64Array(mesh.nCells);
+  for (let c = 0; c < L2.length; c++) L2[c] = density.values[c]! * density.values[c]! * measure[c]!;
+  return { cells: { mesh, L2, norm: density.name.slice(0, -'_density'.length), h } };
+}
+
+/** The first dim of VTK's three coordinates per point. */
+function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Array {
+  const dim = CELL_DIM[kind];
+  const out = new Float64Array(n * dim);
+  for (let v = 0; v < n; v++) for (let d = 0; d < dim; d++) out[v * dim + d] = points[3 * v + d]!;
+  return out;
+}
+
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, base64 above (a third the time). */
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
@@ -110,5 +149,38 @@ function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, ind
     pointData: { u_h: components === 1 ? uh : { values: uh, components }, u: u, error: err },
     cellData: { [`${cells.norms.L2}_density`]: density(cells.perCell.L2), [`${cells.norms.H1semi}_density`]: density(cells.perCell.H1semi) },
     format: mesh.nCells > 200_000 ? 'binary' : 'ascii',
+  });
+}
+
+/** Halvings of the distance over which singularityTest watches the gradient grow, and the growth it needs. */
+const SINGULAR_HALVINGS = 4;
+const SINGULAR_GROWTH = 1.5;
+
+/**
+ * Whether an exact solution is singular at a point: its gradient grows toward it. Along 8 directions in 2D (14 in
+ * 3D: the axes and the cube's diagonals), |∇u| is taken at distances h, h/2, …, h/2^SINGULAR_HALVINGS from the point;
+ * the solution is singular there when along some direction those values are finite and the last is at least
+ * SINGULAR_GROWTH times the first. A smooth u has |∇u(p + r d)| → |∇u(p)|, so the ratio tends to 1 (1 + O(h)); a
+ * gradient singularity |∇u| ∼ r^(α−1), 0 < α < 1 (u ∼ r^(2/3) at a re-entrant corner of angle 3π/2: Grisvard 1985),
+ * grows by 2^((1−α)·SINGULAR_HALVINGS), which is 2.5 for α = 2/3 and still 1.5 for α = 0.85. Singularities of
+ * higher derivatives only (u ∼ r^α with α > 1) are not detected. Directions that leave the domain are harmless: the
+ * growth is measured toward the point either way.
+ */
+export function singularityTest(grad: (x: number, y: number, z: number, out: Float64Array) => void, dim: number, h: number): (at: number[]) => boolean {
+  const g = new Float64Array(dim);
+  const dirs: number[][] = dim === 1 ? [[1], [-1]]
+    : dim === 2 ? Array.from({ length: 8 }, (_, k) => [Math.cos((k * Math.PI) / 4), Math.sin((k * Math.PI) / 4)])
+      : [[1, 0, 0], [-1, 0, 0], [0, 1, 0], [0, -1, 0], [0, 0, 1], [0, 0, -1],
+        ...[-1, 1].flatMap((a) => [-1, 1].flatMap((b) => [-1, 1].map((c) => [a, b, c].map((x) => x / Math.sqrt(3)))))];
+  const norm = (p: number[]): number => {
+    grad(p[0]!, p[1] ?? 0, p[2] ?? 0, g);
+    let s = 0;
+    for (let d = 0; d < dim; d++) s += g[d]! * g[d]!;
+    return Math.sqrt(s);
+  };
+  return (at) => dirs.some((d) => {
+    const near = norm(at.map((x, i) => x + (h / 2 ** SINGULAR_HALVINGS) * d[i]!));
+    const far = norm(at.map((x, i) => x + h * d[i]!));
+    return Number.isFinite(near) && Number.isFinite(far) && far > 0 && near >= SINGULAR_GROWTH * far;
   });
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyseRegions, DENSITY_NOTE_FACTOR, REGION_ORDER_MARGIN, type RegionLevel } from '../../src/analysis/regions.ts';
+import { analyseRegions, DENSITY_NOTE_FACTOR, POINT_SHARE, REGION_ORDER_MARGIN, type RegionLevel } from '../../src/analysis/regions.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { boundaryStrips, regionErrors, type BoundaryStrips } from '../../src/mesh/regions.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
@@ -144,5 +144,42 @@ describe('analyseRegions: what is left out', () => {
     for (const r of top.rates.slice(1)) expect(r).toBeCloseTo(1, 10);
     // On n = 64: RMS 2h against h^2, h = √2 / 64.
     expect(top.densityRatio).toBeCloseTo(2 / (Math.SQRT2 / 64), 8);
+  });
+});
+
+describe('analyseRegions: a slow strip that owes its order to one point', () => {
+  // Density h^(1/2) in the two cells of the 'left' column that touch the vertex (0, 1/2), h^4 everywhere else: the
+  // strip's RMS is sqrt(2 h^(5/2) / h) ∝ h^(3/4) against order 2 in the interior, and those two cells hold nearly all
+  // of the strip's error on every level (closed form, as the ladders above).
+  const atMid = (mesh: Mesh, c: number) => {
+    const { cells, coords } = mesh;
+    for (let k = 0; k < 4; k++) { const v = cells[4 * c + k]!; if (coords[2 * v] === 0 && coords[2 * v + 1] === 0.5) return true; }
+    return false;
+  };
+  const levels = ladder((c, h, _s, mesh) => (atMid(mesh, c) ? h ** 0.5 : h ** 4));
+
+  it('without a word on the exact solution the strip is named, as for a data error', () => {
+    const a = analyseRegions(levels, 'L2', 2);
+    expect(a.pattern).toBe('localised');
+    expect(a.places).toEqual(['left']);
+    const left = a.strips.find((s) => s.tags[0] === 'left')!;
+    expect(left.point).toBe(true);
+    expect(left.peak!.at).toEqual([0, 0.5]);
+    expect(left.peak!.share).toBeGreaterThan(0.99);
+  });
+
+  it('where the exact solution is singular at that point, the point is named instead of the data', () => {
+    const seen: number[][] = [];
+    const a = analyseRegions(levels, 'L2', 2, { singularAt: (at) => { seen.push(at); return at[0] === 0 && at[1] === 0.5; } });
+    expect(seen).toEqual([[0, 0.5]]);
+    expect(a.pattern).toBe('point');
+    expect(a.places).toEqual([]);
+    expect(a.reason).toMatch(/^order 0\.8 in the strip along 'left' \(2\.0 in the interior\), with 100% of its error in the cells around \(0, 0\.5\), where the exact solution is not smooth .*: the singularity at \(0, 0\.5\), not the data on 'left', is the likely cause/);
+  });
+
+  it(`an error spread along a strip keeps no point: its share around one vertex halves with h (under ${POINT_SHARE} from n = 16 on)`, () => {
+    const a = analyseRegions(ladder((c, h, s) => (inStrip(s, TOP, c) ? h ** 2 : h ** 4)), 'L2', 2, { singularAt: () => true });
+    expect(a.strips.find((s) => s.tags[0] === 'top')!.point).toBe(false);
+    expect(a.pattern).toBe('localised');
   });
 });

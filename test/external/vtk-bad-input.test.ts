@@ -136,13 +136,20 @@ describe('VTU bad input', () => {
     expect(gridToField(parseVtkText(goodVtu, file, level), { level }).degree).toBe(2);
   });
 
-  it('binary and appended data are rejected with a clear message', () => {
+  it('a DataArray marked binary or appended whose data is not what the mark says', () => {
+    // ASCII numbers under format="binary": the digits and blanks read as base64, whose first word (the byte count)
+    // does not fit the 48 connectivity entries; the message names the line of the data.
     const at = lineOf(goodVtu, (l) => l.includes('Name="connectivity"'));
     const e = problem(goodVtu.replace('Name="connectivity" format="ascii"', 'Name="connectivity" format="binary"'), file);
-    expect(e.message.startsWith(prefix(file, at))).toBe(true);
-    expect(e.message).toContain('DataArray "connectivity" has format="binary"; rungs reads ASCII DataArrays only');
+    expect(e.message.startsWith(prefix(file, at + 1))).toBe(true);
+    expect(e.message).toMatch(/DataArray "connectivity" \(line \d+\) holds \d+ bytes of Int64 \(not a whole number of values\), but the 48 connectivity entries the offsets declare \(last offset 48\) need 384 bytes/);
+    // An <AppendedData> no array uses is read past; an array pointing into an empty one is refused.
     const appended = goodVtu.replace('</UnstructuredGrid>', '</UnstructuredGrid>\n  <AppendedData encoding="raw">_</AppendedData>');
-    expect(problem(appended, file).message).toMatch(/<AppendedData> is not read/);
+    expect(gridToField(parseVtkText(appended, file, level), { level }).degree).toBe(2);
+    const pointing = appended.replace('Name="connectivity" format="ascii"', 'Name="connectivity" format="appended" offset="0"');
+    const p = problem(pointing, file);
+    expect(p.message.startsWith(prefix(file, at))).toBe(true);
+    expect(p.message).toContain('DataArray "connectivity" has offset="0", past the end of the appended data (0 bytes');
   });
 
   it('a truncated file', () => {

@@ -86,7 +86,9 @@ describe('writeVtu, read back with rungs\'s own reader (ASCII)', () => {
       expect(grid.pointData.map((p) => [p.name, p.components])).toEqual([['temperature', 1], ['flux', 3]]);
       expect(bitDiffs(grid.pointData[0].values, temperature)).toEqual([]);
       expect(bitDiffs(grid.pointData[1].values, flux.values)).toEqual([]);
-      // rungs's reader keeps point data only; the cell data is read from the same file with its XML scanner.
+      expect(grid.cellData.map((p) => [p.name, p.components])).toEqual([['error density L2', 1]]);
+      expect(bitDiffs(grid.cellData[0].values, density)).toEqual([]);
+      // The same cell data read from the file with the XML scanner alone, as text.
       const text = readFileSync(file, 'utf8');
       const piece = childrenNamed(childrenNamed(parseXml(text, file), 'UnstructuredGrid')[0], 'Piece')[0];
       const cellArrays = childrenNamed(childrenNamed(piece, 'CellData')[0], 'DataArray');

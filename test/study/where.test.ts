@@ -7,6 +7,7 @@ import { executeStudies } from '../../src/cli/execute.ts';
 import { readVtkFile } from '../../src/external/vtk/read.ts';
 import { decodeErrorMap } from '../../src/mesh/raster.ts';
 import { regionTable } from '../../src/report/error-map.ts';
+import { singularityTest } from '../../src/study/where.ts';
 
 // Where the error lives, through the bundled studies. Facts behind the expectations (each study file explains its
 // flaw): the Dirichlet-node flaw shifts the data one node along every Dirichlet side, so its data are wrong on 'left',
@@ -111,11 +112,71 @@ describe('where the error lives, on the bundled studies', async () => {
     expect(Math.abs(s.median)).toBeLessThan(0.1);
   });
 
+  it('--resume that reuses the finest two levels reads their cell errors back from errors.vtu for the local orders', async () => {
+    const dir = join(out, 'resume');
+    const first = await executeStudies(['studies/tile-p2.study.ts'], { out: dir, quiet: true });
+    const again = await executeStudies(['studies/tile-p2.study.ts'], { out: dir, quiet: true, resume: true });
+    expect(again.reused.get('tile-p2')).toEqual(first.results[0]!.levels.map((l) => l.index));
+    const local = (r: typeof first) => decodeErrorMap(r.results[0]!.errorMaps!.find((m) => m.what === 'local-order')!.map).values;
+    // ∫_K e² comes back as density² · |K| from the file, equal up to two roundings; the map holds float32 values.
+    const a = local(first), b = local(again);
+    let worst = 0;
+    for (let i = 0; i < a.length; i++) if (Number.isFinite(a[i]!)) worst = Math.max(worst, Math.abs(a[i]! - b[i]!));
+    expect(b.length).toBe(a.length);
+    expect(worst).toBeLessThan(1e-5);
+    // Without the coarser level's file, the study says why it has no local orders instead of dropping them silently.
+    const n = first.results[0]!.levels.length;
+    rmSync(join(dir, 'tile-p2', `level-${n - 1}`, 'errors.vtu'));
+    const third = await executeStudies(['studies/tile-p2.study.ts'], { out: dir, quiet: true, resume: true });
+    expect(third.results[0]!.errorMaps!.some((m) => m.what === 'local-order')).toBe(false);
+    expect(third.results[0]!.warnings.some((w) => w.startsWith(`no local orders: level ${n - 1}'s cell errors`))).toBe(true);
+  });
+
   it('computes the local orders also when the finest two levels ran on different workers', async () => {
     const par = await executeStudies(['studies/tile-p2.study.ts'], { out: join(out, 'workers'), quiet: true, jobs: 2, parallelMinDofs: 0 });
     const maps = par.results[0]!.errorMaps!;
     expect(maps.map((m) => `${m.what}:${m.level}`)).toEqual(['density:4', 'density:4', 'local-order:3']);
     // The same map as the serial run's: the levels are the same bits wherever they run.
     expect(maps[2]!.map).toEqual(by['tile-p2']!.errorMaps!.find((m) => m.what === 'local-order')!.map);
+  });
+});
+
+describe('a slow strip put down to a singular point of the exact solution', () => {
+  // u = r^(2/3) sin(2θ/3) on the L-shape: ∇u ∼ r^(−1/3) at the re-entrant corner (Grisvard 1985), so |∇u| grows by
+  // 2^(4/3) ≈ 2.5 over the test's four halvings of the distance; u = exp(x) sin(2y) + y is smooth everywhere.
+  const theta = (x: number, y: number) => { const t = Math.atan2(y, x); return t < 0 ? t + 2 * Math.PI : t; };
+  const corner = (x: number, y: number, _z: number, out: Float64Array) => {
+    const s = (2 / 3) / Math.cbrt(Math.hypot(x, y)), t = theta(x, y) / 3;
+    out[0] = -s * Math.sin(t);
+    out[1] = s * Math.cos(t);
+  };
+  const smooth = (x: number, y: number, _z: number, out: Float64Array) => {
+    out[0] = Math.exp(x) * Math.sin(2 * y);
+    out[1] = 2 * Math.exp(x) * Math.cos(2 * y) + 1;
+  };
+
+  it('singularityTest: the corner of r^(2/3) is singular; other points, and a smooth u anywhere, are not', () => {
+    const atCorner = singularityTest(corner, 2, 1 / 32);
+    expect(atCorner([0, 0])).toBe(true);
+    expect([[0.5, 0.5], [-0.5, 0.25], [0, -1]].map(atCorner)).toEqual([false, false, false]);
+    const s = singularityTest(smooth, 2, 1 / 32);
+    expect([[0, 0], [1, 1], [0.5, 0]].map(s)).toEqual([false, false, false]);
+  });
+
+  it('the L-shaped tile: the slow strip along the re-entrant edges is put down to the corner, not to its data', async () => {
+    const out = mkdtempSync(join(tmpdir(), 'rungs-where-corner-'));
+    try {
+      const run = await executeStudies(['studies/lshape-corner.study.ts'], { out, quiet: true });
+      const r = run.results[0]!.where!.find((w) => w.norm === 'H1semi')!.analysis;
+      expect(r.pattern).toBe('point');
+      expect(r.places).toEqual([]);
+      expect(r.reason).toMatch(/in the cells around \(0, 0\), where the exact solution is not smooth .*: the singularity at \(0, 0\), not the data on 'reentrant', is the likely cause/);
+      // The report's region table marks that strip as owing its order to the point, and names no strip.
+      const table = regionTable(run.results[0]!);
+      expect(table).toMatch(/reentrant&apos;<\/td><td[^>]*>[^<]*<\/td><td class="num low">[^<]*<span class="low-mark"[^>]*>▼<\/span> <span class="point-mark"/);
+      expect(table).not.toContain('class="named-mark"');
+    } finally {
+      rmSync(out, { recursive: true, force: true });
+    }
   });
 });

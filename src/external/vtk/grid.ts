@@ -1,4 +1,4 @@
-/** One point-data array of a VTK file. */
+/** One point-data or cell-data array of a VTK file. */
 export interface VtkPointArray {
   name: string;
   components: number;
@@ -23,6 +23,8 @@ export interface VtkGrid {
   /** Line of each cell type entry, for messages. */
   typeLines: Int32Array;
   pointData: VtkPointArray[];
+  /** Cell data: nCells × components values per array (the legacy reader leaves it empty: it skips CELL_DATA). */
+  cellData: VtkPointArray[];
   /** Line the file ends on, for messages about something missing. */
   endLine: number;
 }

@@ -2,7 +2,8 @@
 // has a version line "# vtk DataFile Version x.y", a title line, ASCII or BINARY, then DATASET UNSTRUCTURED_GRID with
 // POINTS n type, CELLS, CELL_TYPES n, and attribute sections POINT_DATA n / CELL_DATA n holding SCALARS (with
 // LOOKUP_TABLE), VECTORS, NORMALS, TENSORS, TEXTURE_COORDINATES, COLOR_SCALARS and FIELD arrays). Point data kept:
-// SCALARS (1 to 4 components), VECTORS (3 components) and FIELD arrays (any count); the others are skipped. Both cell layouts
+// SCALARS (1 to 4 components), VECTORS (3 components) and FIELD arrays (any count); the others are skipped. CELL_DATA
+// arrays are read and checked like point data but not kept: the grid's cellData is empty. Both cell layouts
 // are read: "CELLS n size" followed by "k i0 … ik-1" per cell (versions up to 4.2), and "CELLS nOffsets nConn" followed
 // by OFFSETS and CONNECTIVITY arrays (version 5.1).
 // Truncation is found by structure: every declared count must be met before the next keyword or the end of the file,
@@ -264,5 +265,5 @@ export function readLegacyVtk(source: ByteSource, file: string, ref?: LevelRef, 
     fail(endLine, `the file does not end with a line break, so its last line may be cut off (truncated file?): '${utf8(cur.tok).slice(0, 40)}' ` +
       'may be part of a longer number; a complete legacy VTK file ends with a line break');
   }
-  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, endLine };
+  return { file, nPoints, points, nCells, offsets, connectivity, connectivityLines, types, typeLines, pointData, cellData: [], endLine };
 }

@@ -20,7 +20,8 @@ export interface ReadVtkOptions {
   chunkBytes?: number;
 }
 
-/** Reads a .vtk (legacy ASCII) or .vtu (XML, ASCII data) file chunk by chunk, never holding the whole file. */
+/** Reads a .vtk (legacy ASCII) or .vtu (XML: ASCII, inline binary or appended data, optionally zlib-compressed) file
+ *  chunk by chunk, never holding the whole file. */
 export function readVtkFile(file: string, level?: LevelRef, opts: ReadVtkOptions = {}): VtkGrid {
   let source: ByteSource;
   try {

@@ -91,6 +91,18 @@ export class ByteWindow {
     return this.base + this.filled >= this.end;
   }
 
+  /** Moves the window to start at `at` (at or after its current start, within the range), dropping what it holds;
+   *  `have`, the bytes from `at` on that the caller has already read, fill it without reading them again (bytes
+   *  passed over are not seen: lastNonBlank does not follow them). */
+  seek(at: number, have: Uint8Array): void {
+    const n = Math.min(have.length, this.buf.length, Math.max(0, this.end - at));
+    this.buf.set(have.subarray(0, n), 0);
+    this.base = at;
+    this.filled = n;
+    this.text = this.buf.toString('latin1', 0, n);
+    if (n === 0) this.more(0);
+  }
+
   /** Drops the text before `keep` and reads the next chunk; false (nothing changed) when the range is all read. */
   more(keep: number): boolean {
     if (this.done) return false;

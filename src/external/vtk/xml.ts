@@ -4,7 +4,10 @@
 // are rejected because VTK's ASCII data never needs them. Every reference is checked: a named one must be one of the
 // five, a character reference (&#NNN; or &#xHHH;) must name a character XML allows (§2.2, production [2] Char) and a
 // bare & is an error. Well-formedness that catches truncation and damage: one root element closed at the end,
-// matching tags, no attribute twice, no < in attribute values, no text outside the root or beside child elements.
+// matching tags, no attribute twice, no < in attribute values, no text outside the root or beside child elements
+// (except a DataArray's values before its <InformationKey> elements, which VTK 9 writes there).
+// <AppendedData> ends the scan: its data, after a '_', may hold any byte, so it is located, not scanned — from the
+// byte after the '_' to the closing </AppendedData></VTKFile> the file must end with (checked from the end).
 import { RungsInputError } from '../../errors.ts';
 import { placeOf, type LevelRef } from '../where.ts';
 import { bufferSource, ByteWindow, CHUNK_BYTES, utf8, type ByteSource } from './source.ts';
@@ -105,10 +108,31 @@ export function scanXml(source: ByteSource, file: string, ref?: LevelRef, chunkB
       if (!more(pos)) return -1;
     }
   };
+  let scratch: Buffer | null = null;
+  /** Moves the window to the next '<' or '&' after it (or to the end of the file), counting the line breaks passed. */
+  const skipText = (): void => {
+    scratch ??= Buffer.allocUnsafe(Math.max(16, Math.min(chunkBytes, CHUNK_BYTES)));
+    let at = w.base + text.length;
+    let rest: Uint8Array;
+    for (;;) {
+      const got = source.read(scratch, 0, Math.min(scratch.length, Math.max(0, source.size - at)), at);
+      const chunk = scratch.subarray(0, got);
+      const lt = chunk.indexOf(60), amp = chunk.indexOf(38);
+      const stop = lt < 0 ? (amp < 0 ? got : amp) : amp < 0 ? lt : Math.min(lt, amp);
+      for (let nl = chunk.indexOf(10); nl >= 0 && nl < stop; nl = chunk.indexOf(10, nl + 1)) line++;
+      at += stop;
+      rest = chunk.subarray(stop);
+      if (stop < got || got === 0) break;
+    }
+    w.seek(at, rest);
+    text = w.text;
+    pos = 0;
+  };
   const stack: XmlElement[] = [];
   /** Line of the first non-blank text directly inside each open element (0: none yet). */
   const textAt: number[] = [];
   let root: XmlElement | null = null;
+  let appended: XmlElement | null = null;
   if (text.startsWith('\xEF\xBB\xBF')) pos = 3; // UTF-8 byte order mark
 
   for (;;) {
@@ -150,7 +174,14 @@ export function scanXml(source: ByteSource, file: string, ref?: LevelRef, chunkB
         decode(chunk, (offset, message) => fail(line + breaks(chunk, 0, offset), message));
       }
       advance(to);
-      if (lt >= 0 || !more(pos)) break;
+      if (lt >= 0) break;
+      // The rest of a long text (a DataArray's numbers or base64) whose start has been checked: passed over in raw
+      // chunks up to the next '<' or '&', counting lines, without making window text of it.
+      if (seenText && pos === text.length && !w.done) {
+        skipText();
+        continue;
+      }
+      if (!more(pos)) break;
     }
     if (lt < 0) break;
     // Markup: make sure its opening characters are in the window.
@@ -179,7 +210,7 @@ export function scanXml(source: ByteSource, file: string, ref?: LevelRef, chunkB
       textAt.length = stack.length;
       if (!open) fail(line, `closing tag </${name}> without an opening tag`);
       if (open!.name !== name) fail(line, `closing tag </${name}> does not match <${open!.name}> opened at line ${open!.line}`);
-      open!.textEnd = w.base + pos;
+      if (!open!.children.length) open!.textEnd = w.base + pos;
       advance(end + 1);
     } else {
       const tagLine = line;
@@ -217,17 +248,49 @@ export function scanXml(source: ByteSource, file: string, ref?: LevelRef, chunkB
         at = attrRe.lastIndex;
       }
       if (rest.slice(at).trim() !== '') fail(tagLine, `malformed attributes in <${name}>: "${rest.slice(at).trim().slice(0, 40)}"; write name="value" pairs separated by blanks`);
+      const tagStart = w.base + pos;
       advance(p + 1);
       const el: XmlElement = { name, attrs, children: [], line: tagLine, textStart: w.base + pos, textEnd: w.base + pos, textLine: line };
       if (stack.length) {
         const parent = stack[stack.length - 1]!;
         const textLine = textAt[stack.length - 1];
-        if (textLine) fail(textLine, `text beside the child elements of <${parent.name}> (line ${parent.line}); VTK elements hold either elements or data, not both`);
+        // VTK 9 writes <InformationKey> elements after a DataArray's values (checked on its files): the data ends there.
+        const afterData = parent.name === 'DataArray' && name === 'InformationKey' && parent.children.length === 0;
+        if (textLine && !afterData) fail(textLine, `text beside the child elements of <${parent.name}> (line ${parent.line}); VTK elements hold either elements or data, not both`);
+        if (parent.children.length === 0) parent.textEnd = tagStart;
         parent.children.push(el);
       } else if (root) fail(tagLine, `a second root element <${name}>; the file must have one root`);
       else root = el;
       if (!selfClosing) { stack.push(el); textAt[stack.length - 1] = 0; }
+      if (name === 'AppendedData' && !selfClosing) {
+        // The appended data may hold any byte ('<' and '&' too): markup is not scanned past its '_'.
+        if (stack.length !== 2) fail(tagLine, `<AppendedData> must be a child of the root element <VTKFile>, found inside <${stack[stack.length - 2]!.name}>`);
+        for (;;) {
+          while (pos < text.length && /[ \t\r\n]/.test(text[pos]!)) advance(pos + 1);
+          if (pos < text.length || !more(pos)) break;
+        }
+        if (text[pos] !== '_') {
+          fail(line, `<AppendedData> (line ${tagLine}) must start its data with '_' after blanks, found ${pos < text.length ? `'${text[pos]}'` : 'the end of the file'}`);
+        }
+        el.textStart = w.base + pos + 1;
+        el.textLine = line;
+        appended = el;
+        break;
+      }
     }
+  }
+  if (appended) {
+    // The data runs to the closing tags at the end of the file; their absence means a truncated file.
+    const tailBytes = Math.min(source.size - appended.textStart, 4096);
+    const tail = Buffer.alloc(tailBytes);
+    const got = source.read(tail, 0, tailBytes, source.size - tailBytes);
+    const m = /<\/AppendedData>[ \t\r\n]*<\/VTKFile>[ \t\r\n]*$/.exec(tail.toString('latin1', 0, got));
+    if (!m) {
+      fail(line, `the file does not end with </AppendedData></VTKFile> after the appended data that starts here (line ${line}): ` +
+        'truncated file?');
+    }
+    appended.textEnd = source.size - tailBytes + m!.index;
+    stack.length = 0;
   }
   if (stack.length) {
     const open = stack[stack.length - 1]!;
