@@ -1,12 +1,26 @@
 #!/usr/bin/env node
+// Only commander and what the help text needs are loaded up front: each command's code (and with it mathjs, the
+// numerics, the reports and the worker pool) is imported when that command runs, so `--version` and `--help` start as
+// fast as Node does (test/bench/startup.bench.ts).
 import { Command, InvalidArgumentError, Option } from 'commander';
-import { runCommand } from './run-command.ts';
-import { listCommand } from './list-command.ts';
-import { checkCommand } from './check-command.ts';
-import { defaultJobs } from '../parallel/pool.ts';
-import { fitCommand } from './fit-command.ts';
-import { dataCommand } from './data-command.ts';
-import { LANGUAGES } from '../codegen/index.ts';
+import { LANGUAGES } from '../codegen/languages.ts';
+import { packageVersions } from '../study/versions.ts';
+
+/** Study files are TypeScript: the compiled CLI registers tsx's loader once the command's own modules are loaded, just
+ *  before it loads study files. Registered earlier, every one of the hundreds of modules of mathjs and the numerics
+ *  would be resolved and loaded through the loader's thread, which costs seconds. Run from the source (bin/rungs.mjs
+ *  in a checkout, or tsx), the loader is already in place. */
+async function studyFilesLoadable(): Promise<void> {
+  if (import.meta.url.endsWith('.ts')) return;
+  const { register } = await import('tsx/esm/api');
+  register();
+}
+
+/** --jobs when not given: the cores this process may use (the pool's own default, loaded only for a run). */
+async function withJobs<T extends { jobs?: number }>(o: T): Promise<T> {
+  if (o.jobs === undefined) o.jobs = (await import('../parallel/pool.ts')).defaultJobs();
+  return o;
+}
 
 function jobCount(v: string): number {
   const n = Number(v);
@@ -23,6 +37,7 @@ function positiveInt(v: string): number {
 const program = new Command();
 program
   .name('rungs')
+  .version(packageVersions().rungs, '-V, --version', 'print the version of rungs')
   .description('Convergence studies for finite element discretizations: run a ladder of refined meshes, measure the errors, fit the observed orders and give a verdict with reasons.')
   .showHelpAfterError()
   .exitOverride((err) => { process.exit(err.exitCode === 0 ? 0 : 2); });
@@ -33,12 +48,16 @@ program
   .argument('[paths...]', 'study files or folders', ['studies'])
   .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
-  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())
+  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount)
   .option('--json', 'print the whole result as JSON on standard output instead of tables')
   .option('--resume', 'reuse the finished levels of an earlier run into --out whose inputs are unchanged; compute the rest')
   .option('--quiet', 'print only the verdict lines')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
-  .action(async (paths: string[], o) => { process.exitCode = await runCommand(paths, o); });
+  .action(async (paths: string[], o) => {
+    const { runCommand } = await import('./run-command.ts');
+    await studyFilesLoadable();
+    process.exitCode = await runCommand(paths, await withJobs(o));
+  });
 
 program
   .command('check')
@@ -50,9 +69,13 @@ program
   .option('--quick', 'run each study\'s short ladder (ladder.quick, default its 3 coarsest levels; a two-axis design: every step count on its coarsest meshes)')
   .option('--levels <n>', 'run only the first n levels of each ladder', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
-  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount, defaultJobs())
+  .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount)
   .option('--quiet', 'print only failures')
-  .action(async (paths: string[], o) => { process.exitCode = await checkCommand(paths, o); });
+  .action(async (paths: string[], o) => {
+    const { checkCommand } = await import('./check-command.ts');
+    await studyFilesLoadable();
+    process.exitCode = await checkCommand(paths, await withJobs(o));
+  });
 
 program
   .command('fit')
@@ -75,7 +98,10 @@ program
   .option('--out <dir>', 'folder for the reports', 'reports')
   .option('--json', 'print the result as JSON')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
-  .action(async (table: string, o) => { process.exitCode = await fitCommand(table, o); });
+  .action(async (table: string, o) => {
+    const { fitCommand } = await import('./fit-command.ts');
+    process.exitCode = await fitCommand(table, o);
+  });
 
 program
   .command('data')
@@ -86,12 +112,30 @@ program
   .option('--at <points.csv>', 'print the values at these points instead (CSV with columns x, y, z, t, nx, ny, nz; one study)')
   .option('--values <file>', 'with --at: write the values to this CSV file instead of standard output')
   .option('--quiet', 'do not print the formulas')
-  .action(async (paths: string[], o) => { process.exitCode = await dataCommand(paths, o); });
+  .action(async (paths: string[], o) => {
+    const { dataCommand } = await import('./data-command.ts');
+    await studyFilesLoadable();
+    process.exitCode = await dataCommand(paths, o);
+  });
 
 program
   .command('list')
   .description('list the studies found, with their ladders and expected orders')
   .argument('[paths...]', 'study files or folders', ['studies'])
-  .action(async (paths: string[]) => { process.exitCode = await listCommand(paths); });
+  .action(async (paths: string[]) => {
+    const { listCommand } = await import('./list-command.ts');
+    await studyFilesLoadable();
+    process.exitCode = await listCommand(paths);
+  });
+
+program
+  .command('init')
+  .description('scaffold a project for rungs: a first study, a tsconfig.json if there is none, and a CI workflow running the gate nightly; nothing existing is overwritten')
+  .argument('[dir]', 'the project folder', '.')
+  .option('--quiet', 'print nothing but errors')
+  .action(async (dir: string, o) => {
+    const { initCommand } = await import('./init-command.ts');
+    process.exitCode = await initCommand(dir, o);
+  });
 
 await program.parseAsync(process.argv);

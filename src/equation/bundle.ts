@@ -1,4 +1,5 @@
-import { OperatorNode, type MathNode } from 'mathjs';
+import { OperatorNode } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { NORMAL_ARGUMENTS, POINT_ARGUMENTS, type DataBundle, type GeneratedFunction } from '../codegen/types.ts';
 import { compileOutputs, type ArgumentsFn } from '../exact/compile.ts';
 import { VARIABLES } from '../exact/formula.ts';

@@ -1,4 +1,5 @@
-import { ConstantNode, OperatorNode, SymbolNode, parse, type MathNode } from 'mathjs';
+import { ConstantNode, OperatorNode, SymbolNode, parse } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { RungsInputError } from '../errors.ts';
 import { compileOutputs } from '../exact/compile.ts';
 import { differentiate } from '../exact/differentiate.ts';

@@ -1,4 +1,5 @@
-import { ConstantNode, SymbolNode, type MathNode } from 'mathjs';
+import { ConstantNode, SymbolNode } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { RungsInputError } from '../errors.ts';
 import { parseFormula } from '../exact/formula.ts';
 import { simplifyDerived, type SimplifyMode } from '../exact/simplify.ts';

@@ -1,4 +1,5 @@
-import { ConstantNode, FunctionNode, OperatorNode, SymbolNode, parse, type MathNode } from 'mathjs';
+import { ConstantNode, FunctionNode, OperatorNode, SymbolNode, parse } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { RungsInputError } from '../errors.ts';
 import { CONSTANTS, FUNCTION_ARITY, variablesOf } from '../exact/formula.ts';
 import { simplifyDerived } from '../exact/simplify.ts';

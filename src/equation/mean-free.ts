@@ -2,7 +2,8 @@
 // in the equations only through its gradient and in no boundary datum, so the discrete problem is singular unless
 // the solver fixes its mean (common practice, no source). Decided symbolically: add a constant C to the field and
 // see whether any source, or the natural data of an equation with a natural boundary, changes.
-import { ConstantNode, OperatorNode, SymbolNode, type MathNode } from 'mathjs';
+import { ConstantNode, OperatorNode, SymbolNode } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { compileOutputs } from '../exact/compile.ts';
 import { differentiate } from '../exact/differentiate.ts';
 import { samplePoints, DEFAULT_SEED } from '../exact/sample-points.ts';

@@ -1,4 +1,5 @@
-import { ConstantNode, OperatorNode, type MathNode } from 'mathjs';
+import { ConstantNode, OperatorNode } from '../exact/mathjs.ts';
+import type { MathNode } from 'mathjs';
 
 /** A value of the equation language: a scalar, a vector of `dim` components or a dim × dim matrix (row-major), each
  *  component a formula tree in x, y, z, t. Fields, coefficients, fluxes and sources are all tensors. */

@@ -1,4 +1,5 @@
-import { SymbolNode, derivative, type MathNode } from 'mathjs';
+import { SymbolNode, derivative } from './mathjs.ts';
+import type { MathNode } from 'mathjs';
 
 /** ∂node/∂variable by mathjs. sign(g), which our simplification puts in place of abs(g)/g, is held fixed: its
  *  derivative is 0 away from g = 0 (mathjs cannot differentiate it). The Dirac part at a kink of u is not

@@ -1,4 +1,5 @@
-import { parse, type MathNode } from 'mathjs';
+import { parse } from './mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { RungsInputError } from '../errors.ts';
 import type { Dim } from './types.ts';
 import { compileScalar as compileScalarOf } from './compile.ts';

@@ -1,4 +1,5 @@
-import { FunctionNode, SymbolNode, simplify, simplifyConstant, simplifyCore, type MathNode } from 'mathjs';
+import { FunctionNode, SymbolNode, simplify, simplifyConstant, simplifyCore } from './mathjs.ts';
+import type { MathNode } from 'mathjs';
 import { mulberry32 } from '../mesh/random.ts';
 import { compileScalar } from './compile.ts';
 import type { Dim } from './types.ts';

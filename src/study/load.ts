@@ -35,8 +35,9 @@ export interface LoadedStudy {
   declaration: StudyDeclaration;
 }
 
-/** The entry point study files get for `import ... from 'rungs'`: the rungs that is running them. */
-const RUNGS_ENTRY = new URL('../index.ts', import.meta.url).href;
+/** The entry point study files get for `import ... from 'rungs'`: the rungs that is running them (src/index.ts run
+ *  from the source, dist/index.js in the compiled package). */
+const RUNGS_ENTRY = new URL(import.meta.url.endsWith('.ts') ? '../index.ts' : '../index.js', import.meta.url).href;
 
 let resolverRegistered = false;
 

@@ -1,4 +1,4 @@
-import { parse } from 'mathjs';
+import { parse } from '../../exact/mathjs.ts';
 import { RungsInputError } from '../../errors.ts';
 import { compileBundle, dataBundle } from '../../equation/bundle.ts';
 import type { DerivedProblem } from '../../equation/derive.ts';
