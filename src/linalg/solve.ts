@@ -68,8 +68,9 @@ export interface LinearSolver {
   preconditioner: Exclude<PreconditionerName, 'auto'>;
   /** Hierarchy figures when the multigrid preconditioner was built. */
   amg?: AmgStats;
-  /** Solves A x = b from x0 (zero when absent); stopWhen replaces the one given at setup for this solve. */
-  solve(b: Float64Array, opts?: { x0?: Float64Array; stopWhen?: SolveOptions['stopWhen'] }): SolveSystemResult;
+  /** Solves A x = b from x0 (zero when absent); stopWhen replaces the one given at setup for this solve. The
+   *  solution is written into `out` when given (it may be x0 itself), else into a new vector. */
+  solve(b: Float64Array, opts?: { x0?: Float64Array; stopWhen?: SolveOptions['stopWhen']; out?: Float64Array }): SolveSystemResult;
   /** Frees the preconditioner (the multigrid arena's memory goes to the next setup). */
   dispose(): void;
 }
@@ -93,19 +94,20 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
   if (method === 'cg' && !symmetric) {
     throw new RungsInputError("solveSystem: method 'cg' needs a symmetric matrix; use 'gmres' or 'bicgstab' for symmetric: false", WHERE);
   }
-  const start = (b: Float64Array, x0: Float64Array | undefined): Float64Array => {
+  const start = (b: Float64Array, x0: Float64Array | undefined, out?: Float64Array): Float64Array => {
     if (b.length !== n) throw new RungsInputError(`solveSystem: b has length ${b.length}, expected ${n}`, WHERE);
-    const x = new Float64Array(n);
+    if (out && out.length !== n) throw new RungsInputError(`solveSystem: out has length ${out.length}, expected ${n}`, WHERE);
+    const x = out ?? new Float64Array(n);
     if (x0) {
       if (x0.length !== n) throw new RungsInputError(`solveSystem: x0 has length ${x0.length}, expected ${n}`, WHERE);
-      x.set(x0);
-    }
+      if (x0 !== x) x.set(x0);
+    } else if (out) x.fill(0);
     return x;
   };
   if (method === 'direct') {
     return {
       method, preconditioner: 'none',
-      solve: (b, opts = {}) => { const x = start(b, opts.x0 ?? options.x0); return { x, stats: directSolve(A, b, x) }; },
+      solve: (b, opts = {}) => { const x = start(b, opts.x0 ?? options.x0, opts.out); return { x, stats: directSolve(A, b, x) }; },
       dispose: () => {},
     };
   }
@@ -157,7 +159,7 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
     method, preconditioner: built, amg,
     solve(b, opts = {}) {
       if (disposed) throw new Error('internal: a linear solver was used after dispose()');
-      const x = start(b, opts.x0 ?? options.x0);
+      const x = start(b, opts.x0 ?? options.x0, opts.out);
       const solveOpts: SolveOptions = {
         relTol: options.relTol, maxIter: options.maxIter, preconditioner: M, stopWhen: opts.stopWhen ?? options.stopWhen, restart: options.restart,
         skipSymmetryCheck: method === 'cg',

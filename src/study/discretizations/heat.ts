@@ -1,5 +1,6 @@
 import { RungsInputError } from '../../errors.ts';
 import { compileOutputs } from '../../exact/compile.ts';
+import { dataBundle } from '../../equation/bundle.ts';
 import { differentiate } from '../../exact/differentiate.ts';
 import { lagrangeSpace } from '../../fem/dofmap/dofmap.ts';
 import { interpolate, lagrangeField } from '../../fem/field/lagrange-field.ts';
@@ -8,6 +9,7 @@ import { solveHeat } from '../../fem/time/heat.ts';
 import { systemDegrees } from '../../fem/discretizations/quadrature-degrees.ts';
 import { fieldErrors, type FieldNormValues } from '../../norms/field-errors.ts';
 import type { MathNode } from 'mathjs';
+import type { DerivedProblem } from '../../equation/derive.ts';
 import type { LagrangeDiscretization } from '../declaration.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
@@ -57,10 +59,12 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       const measureOverTime = norms.some((nm) => TIME_NORMS.includes(nm));
       const overTime = timeNormSums(time.dt);
       const exactAt = (t: number) => data.exact('u', t);
+      const source = sourceText(decl.name, derived);
       const run = solveHeat({
         space: singleField('u', space),
         k: data.has('coef_k') ? data.point('coef_k') : (_x, _y, _z, out) => { out[0] = 1; },
-        f: data.pointInTime('source_balance'),
+        f: new Function(`"use strict";\nreturn (${source});`)() as (x: number, y: number, z: number, t: number, out: Float64Array) => void,
+        fSource: source,
         g: data.pointInTime('exact_u'),
         u0: data.has('initial_u') ? data.point('initial_u') : data.point('exact_u', 0),
         gDot: (x, y, z, t, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = t; dudt(args, out); },
@@ -96,4 +100,18 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       };
     },
   };
+}
+
+/** The derived source of the heat equation as the text of a function (x, y, z, t, out) that a worker thread can
+ *  rebuild (HeatProblem.fSource): the bundle's generated function source_balance, compiled as compileBundle compiles
+ *  it (so the same operations as data.pointInTime('source_balance')), is made by the Function constructor and so
+ *  closes over nothing but the globals; its text (Function.prototype.toString of such a function is its synthesized
+ *  source, ECMAScript 2019 and later) is wrapped to take x, y, z, t as arguments. The main thread builds its f from
+ *  the same text. */
+export function sourceText(study: string, derived: DerivedProblem): string {
+  const fn = dataBundle(study, derived).functions.find((g) => g.name === 'source_balance');
+  if (!fn) throw new Error('internal: no generated function source_balance');
+  const compiled = compileOutputs(fn.args, fn.outputs);
+  const slots = fn.args.map((a, i) => `a[${i}] = ${['x', 'y', 'z', 't'].includes(a) ? a : 0};`).join(' ');
+  return `((g) => { const a = new Float64Array(${fn.args.length}); return (x, y, z, t, out) => { ${slots} g(a, out); }; })(${compiled.toString()})`;
 }
