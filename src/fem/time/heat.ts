@@ -12,6 +12,7 @@ import { alexander3, type TimeMethodName } from './methods.ts';
 import type { SourceFn } from './load.ts';
 import { loadAhead, type LoadAhead } from './load-ahead.ts';
 import { extrapolation } from './extrapolation.ts';
+import { boundaryLoad, type NeumannInTime } from './boundary-load.ts';
 
 /** Data of the heat equation ∂u/∂t − ∇·(k∇u) = f(x, t), u = g on Dirichlet tags, u(·, 0) = u0. */
 export interface HeatProblem {
@@ -29,6 +30,8 @@ export interface HeatProblem {
    *  method its order when the boundary data move (its stage order is 1). */
   gDot?: (x: number, y: number, z: number, t: number, out: Float64Array) => void;
   dirichletTags: readonly string[];
+  /** Neumann data on the other tags: ∫ g(·, t) v ds is added to every F(t) (boundary-load.ts). */
+  neumann?: NeumannInTime;
   /** Quadrature degrees of the stiffness, mass and load. */
   degrees: { stiffness: number; mass: number; load: number };
   solver?: Omit<SolveSystemOptions, 'symmetric'>;
@@ -168,9 +171,14 @@ function steppers(
     for (let u = 0; u < n; u++) { fn(X[u * dim], dim > 1 ? X[u * dim + 1] : 0, dim > 2 ? X[u * dim + 2] : 0, one); out[u] = one[0]; }
   };
   /** The load vector asked for last, into `slot` (loads.request): assembled now, or waited for. */
+  // The Neumann part of F(t), added on this thread when a load vector is taken, at the time it was asked for.
+  const neumann = p.neumann ? boundaryLoad(p.space, p.neumann) : null;
+  const askedAt = [0, 0];
+  const request = (slot: 0 | 1, t: number): void => { askedAt[slot] = t; loads.request(slot, t); };
   const take = (slot: 0 | 1): Float64Array => {
     const t0 = performance.now();
     const F = loads.take(slot);
+    if (neumann) neumann(askedAt[slot]!, F);
     seconds.load += (performance.now() - t0) / 1000;
     return F;
   };
@@ -240,10 +248,10 @@ function steppers(
     let started = false;
     // F(t_n) and F(t_{n+1}) are the two vectors of `loads`: F(t_{n+2}) is asked for into F(t_n)'s once the
     // right-hand side of step n is formed, and is assembled (on the worker) while step n solves.
-    loads.request(0, 0);
+    request(0, 0);
     let Fn = take(0);
     let cur: 0 | 1 = 1;
-    loads.request(cur, (0 + 1) * dt);
+    request(cur, (0 + 1) * dt);
     const explicitPart = (1 - theta) * dt, twoThirdsDt = (2 / 3) * dt;
     for (let s = 0; s < steps; s++) {
       const t1 = (s + 1) * dt;
@@ -258,7 +266,7 @@ function steppers(
         spmv(op.M, u, Mu); spmv(op.K, u, Ku);
         for (let i = 0; i < n; i++) rhs[i] = Mu[i] - explicitPart * Ku[i] + dt * (theta * F1[i] + (1 - theta) * Fn[i]);
       }
-      if (s + 1 < steps) loads.request(cur === 0 ? 1 : 0, (s + 2) * dt);
+      if (s + 1 < steps) request(cur === 0 ? 1 : 0, (s + 2) * dt);
       guesses.guess(t1, next);
       boundary(t1, next);
       if (method === 'bdf2' && started) bdf!(rhs, next); else first.step(rhs, next);
@@ -283,7 +291,7 @@ function steppers(
     // The stage loads in order, alternating between the two vectors of `loads`: the next stage's (or the next
     // step's first) is asked for once this stage's right-hand side is formed, and assembled while this stage solves.
     let slot: 0 | 1 = 0;
-    loads.request(slot, 0 * dt + tab.c[0] * dt);
+    request(slot, 0 * dt + tab.c[0] * dt);
     for (let s = 0; s < steps; s++) {
       const t0 = s * dt;
       spmv(op.M, u, Mu);
@@ -294,8 +302,8 @@ function steppers(
         for (let k = 0; k < n; k++) rhs[k] = Mu[k] + gammaDt * Fi[k];
         for (let j = 0; j < i; j++) { const a = tab.a[i][j] * dt; const sl = slopes[j]; for (let k = 0; k < n; k++) rhs[k] += a * sl[k]; }
         const after: 0 | 1 = slot === 0 ? 1 : 0;
-        if (i + 1 < nStages) loads.request(after, t0 + tab.c[i + 1] * dt);
-        else if (s + 1 < steps) loads.request(after, (s + 1) * dt + tab.c[0] * dt);
+        if (i + 1 < nStages) request(after, t0 + tab.c[i + 1] * dt);
+        else if (s + 1 < steps) request(after, (s + 1) * dt + tab.c[0] * dt);
         guesses.guess(ti, Ui);
         if (p.gDot) {
           // Boundary stage values from the same Runge–Kutta stages applied to u_d' = ∂g/∂t.

@@ -23,7 +23,7 @@ const atTime = (v: FieldNormValues): Record<string, number> => ({ L2: v.L2, H1se
 /**
  * rungs's own Lagrange elements for the heat equation ∂u/∂t − ∇·(k∇u) = f, advanced from u(·, 0) to T with the
  * study's stepper in the level's number of equal steps (src/fem/time/heat.ts: the matrix M + γΔtK and its multigrid
- * set up once per level). The source and the Dirichlet data are the derived ones at every time the stepper asks for
+ * set up once per level). The source, the Dirichlet data and the heat flux k∇u·n on Neumann parts are the derived ones at every time the stepper asks for
  * (non-autonomous manufactured solutions); the DIRK takes the boundary values from ∂u/∂t at its stage times.
  *
  * Norms at the final time T are those of u(T) − u_h(T). The norms over time (src/study/discretizations/system-norms.ts
@@ -39,15 +39,13 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       const stepper = decl.time?.stepper;
       if (!derived || !time || !stepper) throw new RungsInputError(`${where}: the heat equation needs the exact solution as a formula, time: { final, stepper } and a time ladder`, file);
       refuseRobin(problem, decl.name, file);
-      if ((problem.byName.neumann.balance ?? []).length) {
-        throw new RungsInputError(`${where}: boundary.neumann: rungs's own heat stepper takes Dirichlet data only (on every part of the boundary); give the Neumann parts to an external code, or make them Dirichlet`, file);
-      }
       const k = (problem.pde.preset?.args as { k?: string | number } | undefined)?.k;
       if (typeof k === 'string' && /\bt\b/.test(k)) {
         throw new RungsInputError(`${where}: pde.coefficients.k: '${k}' depends on t, and rungs's own stepper sets its matrix up once per level; give a conductivity in x, y, z only, or use an external code`, file);
       }
       const data = systemData(decl.name, derived);
       const dTags = problem.byName.dirichlet.u ?? [];
+      const nTags = problem.byName.neumann.balance ?? [];
       const field = derived.fields[0]!;
       // ∂u/∂t of the exact solution, for the DIRK's stage boundary values (src/fem/time/heat.ts, gDot).
       const dudt = compileOutputs(['x', 'y', 'z', 't'], [differentiate(field.exact.c as MathNode, 't')]);
@@ -69,6 +67,8 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
         u0: data.has('initial_u') ? data.point('initial_u') : data.point('exact_u', 0),
         gDot: (x, y, z, t, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = t; dudt(args, out); },
         dirichletTags: dTags,
+        // Heat-flux parts: k∇u·n of the exact solution at every time F(t) is formed (the equation's flux F = k∇u).
+        neumann: nTags.length ? { tags: nTags, flux: data.normalInTime('flux_balance'), degree: deg.source } : undefined,
         degrees: { stiffness: deg.gradGrad, mass: 2 * disc.degree + (mesh.cellKind === 'quadrilateral' || mesh.cellKind === 'hexahedron' ? 1 : 0), load: deg.source },
         solver,
       }, stepper, time.T, time.steps, {

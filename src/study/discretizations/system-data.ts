@@ -16,6 +16,8 @@ export interface SystemData {
   /** A datum as a function of position and time, for time steppers. */
   pointInTime(name: string): (x: number, y: number, z: number, t: number, out: Float64Array) => void;
   normal(name: string): NormalData;
+  /** Normal data at time t: (x, y, z, t, nx, ny, nz, out). */
+  normalInTime(name: string): (x: number, y: number, z: number, t: number, nx: number, ny: number, nz: number, out: Float64Array) => void;
   has(name: string): boolean;
   /** The exact field and its gradient at time t (default 0). */
   exact(field: string, t?: number): ExactField;
@@ -43,8 +45,15 @@ export function systemData(study: string, derived: DerivedProblem): SystemData {
     const args = new Float64Array(7);
     return (x, y, z, nx, ny, nz, out) => { args[0] = x; args[1] = y; args[2] = z; args[3] = 0; args[4] = nx; args[5] = ny; args[6] = nz; f(args, out); };
   };
+  const normalInTime = (name: string) => {
+    const f = get(name).evaluate;
+    const args = new Float64Array(7);
+    return (x: number, y: number, z: number, t: number, nx: number, ny: number, nz: number, out: Float64Array) => {
+      args[0] = x; args[1] = y; args[2] = z; args[3] = t; args[4] = nx; args[5] = ny; args[6] = nz; f(args, out);
+    };
+  };
   return {
-    point, pointInTime, normal,
+    point, pointInTime, normal, normalInTime,
     has: (name) => fns.has(name),
     exact(field, t = 0) {
       const components = get(`exact_${field}`).outputs;
