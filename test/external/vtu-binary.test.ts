@@ -3,7 +3,7 @@
 // data mode it has, and against the values VTK held in memory when it wrote them; rungs's own binary writer read
 // back bit for bit; damaged files refused with messages that name the file and the line or byte.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { deflateSync } from 'node:zlib';
@@ -207,6 +207,19 @@ describe.skipIf(!python)(`.vtu files written by VTK's own writer in every data m
       expect(problems).toEqual([]);
     });
   }
+
+  it('a compressed file is held to the output limit by the values it declares, not by its size', () => {
+    const w = written!.grids.triangles!;
+    const file = w.files['binary-ZLib-UInt32']!;
+    const g = readVtkFile(file);
+    // Values: 3 coordinates and 1 + 3 point values per point, 1 cell value and offset and type per cell.
+    const values = 7 * g.nPoints + 3 * g.nCells;
+    const size = statSync(file).size;
+    expect(readVtkFile(file, undefined, { limit: { bytes: 8 * values, source: 'the test' } }).nPoints).toBe(g.nPoints);
+    expect(8 * values - 1).toBeGreaterThan(size);
+    expect(() => readVtkFile(file, undefined, { limit: { bytes: 8 * values - 1, source: 'the test' } }))
+      .toThrow(new RegExp(`the file is compressed, and the ${values} values its counts declare .* more than the limit of .* \\(the test\\); it was not read`));
+  });
 
   it('a file without header_type is read with UInt32 headers, as VTK 9.1\'s own reader reads it', () => {
     const w = written!.grids.triangles!;

@@ -31,7 +31,7 @@ export function readVtkFile(file: string, level?: LevelRef, opts: ReadVtkOptions
   }
   try {
     checkOutputSize(file, source.size, opts.limit, level);
-    return isVtu(file) ? readVtu(source, file, level, opts.chunkBytes) : readLegacyVtk(source, file, level, opts.chunkBytes);
+    return isVtu(file) ? readVtu(source, file, level, opts.chunkBytes, opts.limit) : readLegacyVtk(source, file, level, opts.chunkBytes);
   } catch (err) {
     if (err instanceof RungsInputError || !(err as NodeJS.ErrnoException).code) throw err;
     throw new RungsInputError(`${placeOf(level, file)}: cannot read the VTK file (${(err as NodeJS.ErrnoException).code})`, file);

@@ -26,6 +26,7 @@ import { MAX_ENTRIES, readNumbers, TokenCursor } from './number-reader.ts';
 import { parseDigits } from '../../csv/read.ts';
 import { childrenNamed, scanXml, type XmlElement } from './xml.ts';
 import { bufferSource, CHUNK_BYTES, type ByteSource } from './source.ts';
+import { showBytes, type OutputLimit } from './limits.ts';
 import { openBinaryArray, VTK_TYPE_WIDTH, VTK_TYPES, type BinaryLayout, type BinarySource, type Fail as BinaryFail } from './binary.ts';
 
 /** Parses .vtu text (as the tests and callers holding text do); see readVtu. */
@@ -39,7 +40,7 @@ export function parseVtu(text: string, file: string, ref?: LevelRef, chunkBytes?
  * needs, parsed or decoded from its range straight into typed arrays. Every problem names the level, the file and
  * the line (the byte, in raw appended data).
  */
-export function readVtu(source: ByteSource, file: string, ref?: LevelRef, chunkBytes = CHUNK_BYTES): VtkGrid {
+export function readVtu(source: ByteSource, file: string, ref?: LevelRef, chunkBytes = CHUNK_BYTES, limit?: OutputLimit): VtkGrid {
   const fail = (line: number, message: string): never => {
     throw new RungsInputError(`${placeOf(ref, file, line)}: ${message}`, file);
   };
@@ -53,6 +54,23 @@ export function readVtu(source: ByteSource, file: string, ref?: LevelRef, chunkB
   const piece = pieces[0]!;
   const nPoints = countAttr(piece, 'NumberOfPoints', fail);
   const nCells = countAttr(piece, 'NumberOfCells', fail);
+  // A compressed file can hold far more values than its size suggests (zlib packs up to about 1000:1), so the limit
+  // on output files (limits.ts), which readVtkFile checked against the file's size, is checked again against the
+  // values it declares, at 8 bytes each: the size of the same data uncompressed.
+  if (limit && root.attrs.compressor) {
+    let values = 3 * nPoints + 2 * nCells;
+    for (const [section, count] of [['PointData', nPoints], ['CellData', nCells]] as const) {
+      for (const el of childrenNamed(piece, section)) {
+        for (const da of childrenNamed(el, 'DataArray')) values += count * (parseDigits(da.attrs.NumberOfComponents ?? '1') ?? 1);
+      }
+    }
+    if (8 * values > limit.bytes) {
+      fail(piece.line, `the file is compressed, and the ${values} values its counts declare (NumberOfPoints="${nPoints}", ` +
+        `NumberOfCells="${nCells}" and its arrays) would be ${showBytes(8 * values)} uncompressed, more than the limit of ` +
+        `${showBytes(limit.bytes)} on a solver's output file (${limit.source}); it was not read. Write a smaller file ` +
+        '(a coarser level, fewer arrays) or, on a machine with the memory, raise external({ maxOutputBytes })');
+    }
+  }
 
   const pointsEl = one(piece, 'Points', fail);
   const pointsArray = one(pointsEl, 'DataArray', fail);
