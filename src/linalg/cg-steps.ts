@@ -44,3 +44,16 @@ export function spmvDot(A: Csr, p: Float64Array, q: Float64Array): number {
   }
   return pq;
 }
+
+/** r = b − A x, each row summed from b_i down (the order the residual kernel of sparse.wat transcribes); returns r·r. */
+export function residualInto(A: Csr, b: Float64Array, x: Float64Array, r: Float64Array): number {
+  const { nRows: n, rowPtr, colIdx, values } = A;
+  let rr = 0;
+  for (let i = 0; i < n; i++) {
+    let s = b[i];
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s -= values[k] * x[colIdx[k]];
+    r[i] = s;
+    rr += s * s;
+  }
+  return rr;
+}

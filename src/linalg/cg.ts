@@ -8,7 +8,7 @@ import {
   SINGULAR_HINT, isAllZero, nonFiniteError, prepareSolve, solveStats, stagnationWatch, zeroRhsStats,
 } from './iteration-control.ts';
 import type { Csr, SolveOptions, SolveStats } from './types.ts';
-import { javascriptCgSteps, spmvDot } from './cg-steps.ts';
+import { javascriptCgSteps, residualInto, spmvDot } from './cg-steps.ts';
 import { dot } from './vector.ts';
 
 /** Relative symmetry tolerance of the check CG runs before iterating (see isSymmetric). */
@@ -63,6 +63,9 @@ export function cg(A: Csr, b: Float64Array, x0InOut: Float64Array, opts: SolveOp
   // q = A p through the preconditioner's copy of A when it offers one (WebAssembly), else here.
   const product = M.product && M.product.matrix === A ? M.product : null;
   const applyA = (v: Float64Array, out: Float64Array): number => (product ? product.spmvDot(v, out) : spmvDot(A, v, out));
+  /** r = b − A x, returning ||r||: through the preconditioner's kernel when it offers one (the same bits). */
+  const trueResidual = (_A: Csr, b: Float64Array, x: Float64Array, r: Float64Array): number =>
+    Math.sqrt(product?.residual ? product.residual(b, x, r) : residualInto(A, b, x, r));
   const iterate = (): SolveStats => {
     let rel = isAllZero(x) ? (r.set(b), 1) : trueResidual(A, b, x, r) / bNorm;
     if (!Number.isFinite(rel)) throw nonFiniteError(method, 0, 'the initial residual');
@@ -181,18 +184,6 @@ function finish(
   return solveStats(t.method, t.M, t.t0, iterations, relativeResidual, stoppedBy, converged, message);
 }
 
-/** r = b − A x; returns ||r||. */
-function trueResidual(A: Csr, b: Float64Array, x: Float64Array, r: Float64Array): number {
-  const { nRows: n, rowPtr, colIdx, values } = A;
-  let rr = 0;
-  for (let i = 0; i < n; i++) {
-    let s = b[i];
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) s -= values[k] * x[colIdx[k]];
-    r[i] = s;
-    rr += s * s;
-  }
-  return Math.sqrt(rr);
-}
 
 
 

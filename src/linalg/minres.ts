@@ -45,7 +45,9 @@ export interface MinresOptions extends SolveOptions {
   workspace?: MinresWorkspace;
 }
 
-const VECTORS = 8;
+/** Vectors one solve works in (the length of MinresWorkspace.vectors). */
+export const MINRES_VECTORS = 8;
+const VECTORS = MINRES_VECTORS;
 /** How often the recursively updated residual may be replaced by the true one when they disagree at the end. */
 const MAX_RESIDUAL_REPLACEMENTS = 3;
 /** ||A r|| / (||A|| ||r||) at or below this, with ||r|| still above relTol: r lies numerically in the null space
@@ -161,11 +163,14 @@ export function minres(
       const s = 1 / beta;
       for (let i = 0; i < n; i++) v[i] = s * y[i];
       applyA(v, y);
+      // y −= (β/β_old) r1 and α = v·y in one pass (the same operations in the same order as two loops).
+      let alfa = 0;
       if (inner >= 1) {
         const c = beta / oldb;
-        for (let i = 0; i < n; i++) y[i] -= c * r1[i];
+        for (let i = 0; i < n; i++) { const yi = y[i] - c * r1[i]; y[i] = yi; alfa += v[i] * yi; }
+      } else {
+        alfa = dot(v, y);
       }
-      const alfa = dot(v, y);
       if (!Number.isFinite(alfa)) throw nonFiniteError(method, it, 'vᵀAv');
       const c2 = alfa / beta;
       for (let i = 0; i < n; i++) y[i] -= c2 * r2[i];

@@ -27,7 +27,12 @@ export interface Preconditioner {
   cgSteps?: CgSteps;
   /** Optional: q = matrix·p (returning p·q) with a copy of `matrix` in that memory; CG uses it in place of its own
    *  product when `matrix` is the very matrix it solves with. */
-  product?: { matrix: Csr; spmvDot(p: Float64Array, q: Float64Array): number };
+  product?: {
+    matrix: Csr;
+    spmvDot(p: Float64Array, q: Float64Array): number;
+    /** r = b − matrix·x (each row summed from b_i down, as cg.ts trueResidual does), returning r·r. */
+    residual?(b: Float64Array, x: Float64Array, r: Float64Array): number;
+  };
 }
 
 /** The fused vector updates of preconditioned CG. */

@@ -1,5 +1,5 @@
 import type { Mesh } from '../../mesh/types.ts';
-import type { Csr, SolveStats } from '../../linalg/types.ts';
+import type { SolveStats } from '../../linalg/types.ts';
 import { RungsInputError } from '../../errors.ts';
 import { solveSaddlePoint } from '../../linalg/saddle/index.ts';
 import type { AmgOptions } from '../../linalg/amg/types.ts';
@@ -86,24 +86,6 @@ export function mixedElasticityForm(space: MixedSpace, input: Omit<MixedElastici
   };
 }
 
-/** −K[m:, m:] of a matrix whose first m rows and columns are the first field: the block C of [[A, Bᵀ], [B, −C]]. */
-function negatedTrailingBlock(K: Csr, m: number): Csr {
-  const n = K.nRows, rows = n - m;
-  const { rowPtr, colIdx, values } = K;
-  const rp = new Int32Array(rows + 1);
-  for (let r = m; r < n; r++) {
-    let c = 0;
-    for (let s = rowPtr[r]; s < rowPtr[r + 1]; s++) if (colIdx[s] >= m) c++;
-    rp[r - m + 1] = rp[r - m] + c;
-  }
-  const ci = new Int32Array(rp[rows]), va = new Float64Array(rp[rows]);
-  for (let r = m; r < n; r++) {
-    let c = rp[r - m];
-    for (let s = rowPtr[r]; s < rowPtr[r + 1]; s++) if (colIdx[s] >= m) { ci[c] = colIdx[s] - m; va[c] = -values[s]; c++; }
-  }
-  return { nRows: rows, nCols: rows, rowPtr: rp, colIdx: ci, values: va };
-}
-
 /** Taylor–Hood P_k–P_(k−1) for nearly incompressible linear elasticity in mixed form: uniformly stable in λ, so it
  *  does not lock (Braess 2007, ch. VI §3; Boffi, Brezzi & Fortin 2013, §8.12). Solved by MINRES with the block-
  *  diagonal preconditioner diag(AMG(A), (M_{1/(2μ)} + (1/λ) M)⁻¹): smoothed aggregation with the rigid-body modes
@@ -117,8 +99,10 @@ export function solveMixedElasticity(input: MixedElasticityInput): MixedElastici
   const { velocity: uScalar, pressure: pScalar, space } = taylorHoodSpace(mesh, k);
   const t1 = performance.now();
   const { A: K, b } = assembleForm(space, mixedElasticityForm(space, input));
-  const { cons, sys, mu, A, B } = eliminateTaylorHood(space, K, b, input.dirichlet);
-  const C = negatedTrailingBlock(sys.A, mu);
+  const { cons, sys, mu, A, B, trailing } = eliminateTaylorHood(space, K, b, input.dirichlet, { trailing: true });
+  // The stored block is −C of [[A, Bᵀ], [B, −C]]; negated in its own copy.
+  const C = trailing!;
+  for (let i = 0; i < C.values.length; i++) C.values[i] = -C.values[i];
   // The pressure mass matrix weighted by 1/(2μ): with C = (1/λ) M the preconditioner's pressure block is
   // M_{1/(2μ)} + C = ∫ (1/(2μ) + 1/λ) q_i q_j (viscosity 1 in the solver's M/ν + C).
   const pSpace = singleField('p', pScalar);

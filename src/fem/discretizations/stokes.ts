@@ -11,7 +11,7 @@ import { pressureDivergenceTerms } from '../form/terms/divergence.ts';
 import { massTerm } from '../form/terms/mass.ts';
 import { boundaryLoadTerm, sourceTerm } from '../form/terms/loads.ts';
 import type { NormalData, PointData } from '../form/terms/types.ts';
-import { systemDegrees } from './quadrature-degrees.ts';
+import { NON_POLYNOMIAL_EXTRA, systemDegrees } from './quadrature-degrees.ts';
 import { taylorHoodSpace, eliminateTaylorHood, expandTaylorHood } from './taylor-hood.ts';
 
 export interface StokesInput {
@@ -31,7 +31,9 @@ export interface StokesInput {
   pressureMeanFree: boolean;
   hints?: { coefficients?: number | null; source?: number | null };
   solver?: { relTol?: number; maxIter?: number; amg?: AmgOptions };
-  /** A constant ν for the Schur complement approximation M/ν (default: ν at the domain's first vertex). */
+  /** A constant ν for the Schur complement approximation M/ν. Absent (the default): the pressure mass matrix weighted
+   *  by 1/ν, M_{1/ν} = ∫ q_i q_j / ν, which stays spectrally equivalent to the Schur complement when ν varies
+   *  (see solveStokes). */
   viscosityScale?: number;
 }
 
@@ -46,7 +48,10 @@ export interface StokesSolution {
 
 /** Taylor–Hood P_k–P_(k−1) Stokes flow, −∇·(ν∇u − pI) = f, ∇·u = g: MINRES with the block-diagonal preconditioner
  *  (multigrid on the velocity block, the pressure mass matrix / ν for the Schur complement; Elman, Silvester &
- *  Wathen 2014, ch. 4). */
+ *  Wathen 2014, ch. 4, for constant ν). For a variable ν the pressure block is the mass matrix weighted by 1/ν,
+ *  ∫ q_i q_j / ν: the Schur complement of a variable-viscosity Stokes system is spectrally equivalent to it with
+ *  constants that do not depend on the range of ν the way those of M/ν̄ do (Grinevich & Olshanskii 2009, SIAM J.
+ *  Sci. Comput. 31, 1569–1592, from memory). For a constant ν it is M/ν up to the rounding of the scaling. */
 export function solveStokes(input: StokesInput): StokesSolution {
   const { mesh, degree: k } = input;
   if (!(Number.isInteger(k) && k >= 2)) throw new RungsInputError(`Taylor–Hood needs a velocity degree of at least 2 (the pressure takes degree − 1), got ${k}`);
@@ -67,9 +72,19 @@ export function solveStokes(input: StokesInput): StokesSolution {
   // Pressure mass matrix and the integrals of the pressure basis (the mean constraint).
   const pSpace = singleField('p', pressureScalar);
   const one: PointData = (_x, _y, _z, out) => { out[0] = 1; };
-  const { A: M, b: w } = assembleForm(pSpace, { matrix: [massTerm(0, 1, 2 * (k - 1))], vector: [sourceTerm(0, 1, one, k - 1)] });
+  // With no constant scale given, the mass matrix weighted by 1/ν (quadrature: as for the weighted pressure mass of
+  // mixed elasticity, exact for a constant ν hinted as degree 0).
+  const weighted = input.viscosityScale === undefined;
+  const nuFn = input.nu;
+  const inverseNu: PointData = (x, y, z, out) => { nuFn(x, y, z, out); out[0] = 1 / out[0]; };
+  const quad = mesh.cellKind === 'quadrilateral' || mesh.cellKind === 'hexahedron' ? 2 : 0;
+  const massDegree = weighted ? 2 * (k - 1) + (input.hints?.coefficients === 0 ? 0 : k + NON_POLYNOMIAL_EXTRA) + quad : 2 * (k - 1);
+  const { A: M, b: w } = assembleForm(pSpace, {
+    matrix: [weighted ? massTerm(0, 1, massDegree, inverseNu) : massTerm(0, 1, massDegree)],
+    vector: [sourceTerm(0, 1, one, k - 1)],
+  });
   const f = sys.b.subarray(0, mu), g = sys.b.subarray(mu);
-  const nuScale = input.viscosityScale ?? (() => { const o = new Float64Array(1); input.nu(mesh.coords[0], dim > 1 ? mesh.coords[1] : 0, dim > 2 ? mesh.coords[2] : 0, o); return o[0]; })();
+  const nuScale = input.viscosityScale ?? 1;
   const t2 = performance.now();
   const res = solveSaddlePoint({
     A, B, M, f: f.slice(), g: g.slice(),

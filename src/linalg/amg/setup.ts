@@ -152,7 +152,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole
   // hierarchy into an arena of the exact size. No arena at all: the JavaScript cycle.
   const packed = arena && spill && !spill.spilled() && arena.fits(arenaVectorBytes(A.nRows))
-    ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows), ...operatorCopyFor(arena, A, symmetric && !exactProducts) }
+    ? { hierarchy: built, arena, ...arenaVectors(arena, A.nRows), ...operatorCopyFor(arena, A, symmetric && !exactProducts && opts.operatorCopy !== false) }
     : (opts.kernels ?? 'wasm') === 'wasm' ? packHierarchy(built) : null;
   if (spill?.spilled()) notes.push('the arena reserved for the setup was too small; the hierarchy was copied into a larger one');
   if (!packed && opts.kernels !== 'javascript') notes.push('no WebAssembly arena could hold the hierarchy; the cycle runs in JavaScript');

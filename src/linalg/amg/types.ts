@@ -23,6 +23,10 @@ export interface AmgOptions {
    *  src/linalg/kernels/sparse.wat; 'javascript': the same cycle in plain TypeScript (the reference the kernels are
    *  tested against, and the fallback where no arena can be had). Both give the same bits. */
   kernels?: 'wasm' | 'javascript';
+  /** Whether the arena may hold a copy of A for a CG solver's products with A (default true; it is made only when
+   *  the finest operator cannot stand in for A: see pack.ts operatorCopyFor). False for solvers that multiply with
+   *  another matrix (MINRES on a saddle-point system): the copy would cost memory and time for nothing. */
+  operatorCopy?: boolean;
   /** Whether A is symmetric; decides the coarsest solver (Cholesky or LU). Checked from A when absent. */
   symmetric?: boolean;
   /** Unknowns per node for a system of PDEs, interleaved node-major (unknown = node·blockSize + component). Above 1

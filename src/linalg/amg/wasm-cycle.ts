@@ -3,7 +3,7 @@
  *  the same bits, 3.7× as fast as the TypeScript cycle on the 1M P1 matrix (measured, test/bench/kernels.bench.ts).
  *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
  *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
-import { javascriptCgSteps, spmvDot } from '../cg-steps.ts';
+import { javascriptCgSteps, residualInto, spmvDot } from '../cg-steps.ts';
 import type { Csr, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
 import type { PackedHierarchy } from './pack.ts';
@@ -136,6 +136,18 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
           return arena.owns(p) && arena.owns(q)
             ? k.spmvDot(C.nRows, C.rowPtr.byteOffset, C.colIdx.byteOffset, C.values.byteOffset, p.byteOffset, q.byteOffset)
             : spmvDot(h.operator, p, q);
+        },
+        residual(b: Float64Array, x: Float64Array, r: Float64Array): number {
+          const C = packed.operatorCopy!;
+          if (arena.owns(x) && arena.owns(r)) {
+            // b is the caller's: through the staging vector, which no cycle uses while CG checks its residual.
+            k.residual(C.nRows, C.rowPtr.byteOffset, C.colIdx.byteOffset, C.values.byteOffset, input(b, staging.b), x.byteOffset, r.byteOffset);
+          } else {
+            return residualInto(h.operator, b, x, r);
+          }
+          let rr = 0;
+          for (let i = 0; i < r.length; i++) rr += r[i] * r[i];
+          return rr;
         },
       },
     } : {}),

@@ -30,8 +30,7 @@
 import { RungsInputError } from '../../errors.ts';
 import { assertFiniteMatrix, csrFromTriplets, isSymmetric } from '../csr.ts';
 import { CG_SYMMETRY_TOL } from '../cg.ts';
-import { saddlePointOperator } from './block-operator.ts';
-import type { SymmetricOperator } from '../minres.ts';
+import { saddlePointOperator, type SaddleOperator } from './block-operator.ts';
 import type { Csr, Preconditioner } from '../types.ts';
 import { CONSTANT_MODE_TOL, type MeanConstraint } from './constant-pressure.ts';
 import type { MassApproximation } from './pressure-mass.ts';
@@ -102,8 +101,10 @@ export function constantPressureMode(M: Csr, C: Csr): ConstantPressureMode {
 }
 
 /** K = [[A, Bᵀ], [B, −C]] applied block by block (Bᵀ transposed once at setup); allocates nothing per product. */
-export function saddlePointOperatorWithPressureBlock(A: Csr, B: Csr, C: Csr): SymmetricOperator {
-  return saddlePointOperator(A, B, C);
+export function saddlePointOperatorWithPressureBlock(
+  A: Csr, B: Csr, C: Csr, opts: Parameters<typeof saddlePointOperator>[3] = {},
+): SaddleOperator {
+  return saddlePointOperator(A, B, C, opts);
 }
 
 export interface PressureBlockPreconditioner extends Preconditioner {

@@ -6,10 +6,10 @@ import { RungsInputError } from '../../errors.ts';
 import { amgSetup } from '../amg/setup.ts';
 import { assertFiniteMatrix, isSymmetric } from '../csr.ts';
 import { CG_SYMMETRY_TOL } from '../cg.ts';
-import { minres, minresWorkspace, type SymmetricOperator } from '../minres.ts';
+import { MINRES_VECTORS, minres, type MinresWorkspace } from '../minres.ts';
 import type { Csr } from '../types.ts';
 import { allFinite } from '../vector.ts';
-import { saddlePointOperator } from './block-operator.ts';
+import { saddlePointOperator, type SaddleOperator } from './block-operator.ts';
 import { BLOCK_PRECONDITIONER_NAME, blockDiagonalPreconditioner, type BlockPreconditioner } from './block-preconditioner.ts';
 import { constantPressureIsFree, meanConstraintFor, removeConstant, removeMeanOfDatum } from './constant-pressure.ts';
 import { pressureMassApproximation, type MassApproximation } from './pressure-mass.ts';
@@ -22,6 +22,7 @@ import type { SaddlePointInput, SaddlePointOptions, SaddlePointResult, SaddlePoi
 const WHERE = 'linalg/saddle';
 /** Default tolerance on the preconditioned residual. */
 export const SADDLE_DEFAULT_REL_TOL = 1e-10;
+
 
 function checkBlocks(A: Csr, B: Csr, M: Csr): void {
   const nu = A.nRows, np = B.nRows;
@@ -46,24 +47,25 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
   const C = opts.pressureBlock;
   if (C) checkPressureBlock(C, np);
   const constraint = meanConstraintFor(B, opts.meanConstraint, opts.pressureDeterminedUpToConstant, C);
-  let mass: MassApproximation, K: SymmetricOperator, amg: ReturnType<typeof amgSetup>, P: BlockPreconditioner;
+  let mass: MassApproximation, K: SaddleOperator, amg: ReturnType<typeof amgSetup>, P: BlockPreconditioner;
   let constantApart = false;
   if (!C) {
     // C = 0 (Stokes): unchanged, bit for bit.
     mass = pressureMassApproximation(M, opts.pressureMass ?? 'chebyshev', opts.chebyshevSteps);
-    K = saddlePointOperator(A, B);
-    amg = amgSetup(A, { ...opts.amg, symmetric: true });
+    amg = amgSetup(A, { ...opts.amg, symmetric: true, operatorCopy: false });
+    K = saddlePointOperator(A, B, undefined, { vectors: MINRES_VECTORS, kernels: opts.amg?.kernels });
     P = blockDiagonalPreconditioner(nu, np, amg.preconditioner, mass, viscosity, constraint);
   } else {
     // [[A, Bᵀ], [B, −C]]: Chebyshev on M/ν + C, the constant apart when only C sees it (pressure-block.ts).
     mass = pressureMassApproximation(schurApproximation(M, C, viscosity), opts.pressureMass ?? 'chebyshev', opts.chebyshevSteps);
-    K = saddlePointOperatorWithPressureBlock(A, B, C);
-    amg = amgSetup(A, { ...opts.amg, symmetric: true });
+    amg = amgSetup(A, { ...opts.amg, symmetric: true, operatorCopy: false });
+    K = saddlePointOperatorWithPressureBlock(A, B, C, { vectors: MINRES_VECTORS, kernels: opts.amg?.kernels });
     constantApart = !constraint && opts.separateConstantPressure !== false && constantPressureIsFree(B);
     const constant = constantApart ? constantPressureMode(M, C) : null;
     P = pressureBlockPreconditioner(nu, np, amg.preconditioner, mass, constraint, constant);
   }
-  const workspace = minresWorkspace(nu + np);
+  // MINRES's vectors in the operator's arena, so that its products need no staging copies (block-operator.ts).
+  const workspace: MinresWorkspace = { n: nu + np, vectors: Array.from({ length: MINRES_VECTORS }, () => K.vector()) };
   const b = new Float64Array(nu + np);
   let setupSeconds = (performance.now() - t0) / 1000;
   let disposed = false;
@@ -116,6 +118,7 @@ export function setupSaddlePointSolver(A: Csr, B: Csr, M: Csr, opts: SaddlePoint
       if (disposed) return;
       disposed = true;
       P.releaseVectors();
+      K.dispose();
       amg.preconditioner.dispose?.();
     },
   };
