@@ -19,6 +19,8 @@ export interface CheckFlags {
   jobs?: number;
   levels?: number;
   quiet?: boolean;
+  /** --study: only studies whose name or file name matches one of these patterns. */
+  study?: string[];
 }
 
 const say = (line: string) => process.stdout.write(line + '\n');
@@ -68,7 +70,7 @@ async function checkRun(
 ): Promise<number> {
   const color = useColor(process.stdout);
   const execution = await executeStudies(paths, {
-    out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true, run,
+    out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true, run, only: flags.study,
     onProblem: (p) => complain(problemLine(p.file, p.message)),
   });
   const { results, problems, incomplete } = execution;

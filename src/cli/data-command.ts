@@ -12,6 +12,7 @@ import { studyBundle, writeStudyData } from '../study/data-files.ts';
 import { fileStem } from '../study/names.ts';
 import { valuesAtPoints } from '../study/values-at.ts';
 import { problemLine } from './output.ts';
+import { selectStudyFiles } from './select.ts';
 
 export interface DataOptions {
   lang?: string;
@@ -19,6 +20,8 @@ export interface DataOptions {
   at?: string;
   values?: string;
   quiet?: boolean;
+  /** --study: only studies whose name or file name matches one of these patterns. */
+  study?: string[];
 }
 
 /** The languages of --lang (comma-separated; default all). */
@@ -35,6 +38,7 @@ export async function dataCommand(paths: string[], o: DataOptions): Promise<numb
   try {
     languages = parseLanguages(o.lang);
     files = findStudyFiles(paths);
+    if (o.study?.length) files = await selectStudyFiles(files, o.study, paths);
   } catch (err) {
     if (err instanceof RungsInputError) { fail('', err.message); return status; }
     throw err;
@@ -75,3 +79,4 @@ export async function dataCommand(paths: string[], o: DataOptions): Promise<numb
   }
   return status;
 }
+

@@ -16,7 +16,9 @@ import { acquireOutputLock, type OutputLock } from '../parallel/lock.ts';
 import { allowSolvers, reapSolvers, solverGroups, SolversStopped, stopSolvers } from '../external/command.ts';
 import { privateFolderOwner } from '../external/level.ts';
 import { makeProgress, type Progress } from './progress.ts';
+import { studySelection } from './select.ts';
 import { levelKey, readLevelRecord, writeLevelRecord, type LevelRecordEntry } from './resume.ts';
+import { runScheduledStudies, schedulerSettings, type SchedulerFlags } from './jobs-lane.ts';
 
 export interface InputProblem {
   study: string;
@@ -142,8 +144,12 @@ export interface ExecuteOptions {
   parallelMinDofs?: number;
   /** Reuse the finished levels of an earlier run into the same folder whose inputs are unchanged (see resume.ts). */
   resume?: boolean;
+  /** --study: only the studies whose name or file name matches one of these patterns (select.ts); none: all. */
+  only?: string[];
   /** The run this execution belongs to (its signals stop the execution early); none: nothing stops it. */
   run?: ActiveRun;
+  /** --scheduler, --partition, --cancel-jobs: external studies' levels as jobs (jobs-lane.ts). */
+  schedulerFlags?: SchedulerFlags;
   /** Called when a study finishes, in the order of the study files. */
   onResult?: (r: StudyResult) => void;
   onProblem?: (p: InputProblem) => void;
@@ -170,6 +176,7 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
     throw err;
   }
   if (files.length === 0) problem({ study: '', file: paths.join(' '), message: `no study files (*.study.ts) found in ${paths.join(', ')}` });
+  const selection = studySelection(opts.only);
   let outOk = true;
   try { mkdirSync(opts.out, { recursive: true }); } catch (err) {
     outOk = false;
@@ -180,7 +187,16 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   const loadedStudies: LoadedStudy[] = [];
   for (const file of files) {
     const shown = relative(process.cwd(), file) || file;
-    try { loadedStudies.push(await loadStudy(file)); } catch (err) { problem(asProblem(err, '', shown)); }
+    try {
+      const loaded = await loadStudy(file);
+      if (selection.matches(file, loaded.declaration.name)) loadedStudies.push(loaded);
+    } catch (err) {
+      // With --study, a file that cannot be loaded is reported only when its file name was asked for.
+      if (selection.byFile(file)) problem(asProblem(err, '', shown));
+    }
+  }
+  if (!selection.all && files.length > 0 && loadedStudies.length === 0 && problems.length === 0) {
+    problem({ study: '', file: paths.join(' '), message: `--study ${selection.text}: no study under ${paths.join(', ')} has a name or file name that matches; rungs list ${paths.join(' ')} shows them` });
   }
   // A study that sweeps a coefficient runs as one study per value (src/study/sweep.ts).
   const expandedStudies = expandSweeps(loadedStudies);
@@ -256,8 +272,16 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   const jobs = Math.max(1, opts.jobs ?? 1);
   const totalLevels = prepared.reduce((s, p) => s + p.total - reusable.get(p)!.size, 0);
   const ctx: RunContext = { progress, onLevel, fail, reusable, stopped, stop: run?.stopped, solversStopped: run?.solversStopped };
-  if (jobs === 1 || totalLevels <= 1 || !workersPay(prepared, opts.parallelMinDofs ?? PARALLEL_MIN_DOFS)) await runSerial(prepared, ctx);
-  else await runParallel(prepared, Math.min(jobs, totalLevels), ctx);
+  // External studies whose levels run as jobs of a scheduler go their own way, beside the others.
+  const flags = opts.schedulerFlags ?? {};
+  const scheduled = prepared.filter((p) => schedulerSettings(p, flags) !== null);
+  const here = prepared.filter((p) => !scheduled.includes(p));
+  const jobsDone = runScheduledStudies(scheduled, {
+    out: opts.out, resume: !!opts.resume, quiet: !!opts.quiet, flags, progress, onLevel, fail, reusable, keys, stopped, stop: run?.stopped,
+  });
+  if (jobs === 1 || totalLevels <= 1 || !workersPay(here, opts.parallelMinDofs ?? PARALLEL_MIN_DOFS)) await runSerial(here, ctx);
+  else await runParallel(here, Math.min(jobs, totalLevels), ctx);
+  await jobsDone;
   progress.clear();
 
   const results: StudyResult[] = [];

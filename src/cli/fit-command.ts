@@ -22,6 +22,8 @@ export interface FitFlags {
   fitWindow?: number;
   out: string;
   json?: boolean;
+  /** Print only the verdict line (as `run --quiet`), and the quantities' one-line results. */
+  quiet?: boolean;
   table?: 'md' | 'latex';
 }
 
@@ -51,8 +53,8 @@ export async function fitCommand(table: string, flags: FitFlags): Promise<number
     }
     if (flags.json) process.stdout.write(resultsJson([result]) + '\n');
     else {
-      if (result.analyses.length) process.stdout.write(formatStudyTable(result, { color }) + '\n');
-      if (quantities.length) process.stdout.write(formatQuantityReports(quantities, { color }) + '\n');
+      if (result.analyses.length) process.stdout.write(formatStudyTable(flags.quiet ? [result] : result, { color, summaryOnly: flags.quiet }) + '\n');
+      if (quantities.length && !flags.quiet) process.stdout.write(formatQuantityReports(quantities, { color }) + '\n');
       if (flags.table === 'md') process.stdout.write(markdownTable(result) + '\n');
       if (flags.table === 'latex') process.stdout.write(latexTable(result) + '\n');
     }

@@ -34,6 +34,13 @@ function positiveInt(v: string): number {
   return n;
 }
 
+/** --study, repeatable and comma-separated: each value adds patterns. */
+function studyPatterns(v: string, previous: string[] = []): string[] {
+  return [...previous, ...v.split(',').map((p) => p.trim()).filter(Boolean)];
+}
+const STUDY_HELP = 'only the studies whose name or file name (without .study.ts) matches; * and ? as in the shell, ' +
+  'comma-separated or repeated (e.g. --study \'tile-*\' --study rod-p1)';
+
 const program = new Command();
 program
   .name('rungs')
@@ -52,8 +59,19 @@ program
   .option('--json', 'print the whole result as JSON on standard output instead of tables')
   .option('--resume', 'reuse the finished levels of an earlier run into --out whose inputs are unchanged; compute the rest')
   .option('--quiet', 'print only the verdict lines')
+  .option('--study <patterns>', STUDY_HELP, studyPatterns)
+  .option('--watch', 'run again whenever a study file, or a file its external command names, changes (Ctrl-C to stop)')
+  .option('--pdf', 'also print the HTML report to <out>/index.pdf (needs Chromium or Chrome; RUNGS_CHROMIUM names one)')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
+  .addOption(new Option('--scheduler <name>', "run external studies' levels as jobs: slurm (sbatch) or local processes; resources from each study's scheduler field").choices(['slurm', 'local']))
+  .option('--partition <name>', 'with a scheduler: the partition the jobs go to')
+  .option('--cancel-jobs', 'with a scheduler: cancel the jobs when the run is stopped (default: they run on, and --resume collects them)')
   .action(async (paths: string[], o) => {
+    if (o.watch) {
+      const { watchRuns } = await import('./watch.ts');
+      process.exitCode = await watchRuns({ args: process.argv.slice(process.argv.indexOf('run') + 1), paths, quiet: o.quiet });
+      return;
+    }
     const { runCommand } = await import('./run-command.ts');
     await studyFilesLoadable();
     process.exitCode = await runCommand(paths, await withJobs(o));
@@ -71,10 +89,13 @@ program
   .option('--out <dir>', 'folder for the reports', 'reports')
   .option('--jobs <n>', 'levels run in parallel on worker threads (default: the number of cores)', jobCount)
   .option('--quiet', 'print only failures')
+  .option('--study <patterns>', STUDY_HELP, studyPatterns)
+  .option('--pdf', 'also print the HTML report to <out>/index.pdf (needs Chromium or Chrome; RUNGS_CHROMIUM names one)')
   .action(async (paths: string[], o) => {
     const { checkCommand } = await import('./check-command.ts');
     await studyFilesLoadable();
     process.exitCode = await checkCommand(paths, await withJobs(o));
+    if (o.pdf && !(await (await import('./output.ts')).writePdfStep(o.out, o.quiet))) process.exitCode = 2;
   });
 
 program
@@ -97,6 +118,7 @@ program
   .option('--fit-window <k>', 'finest levels in the fit (default 3)', positiveInt)
   .option('--out <dir>', 'folder for the reports', 'reports')
   .option('--json', 'print the result as JSON')
+  .option('--quiet', 'print only the verdict line (the reports are still written)')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
   .action(async (table: string, o) => {
     const { fitCommand } = await import('./fit-command.ts');
@@ -112,6 +134,7 @@ program
   .option('--at <points.csv>', 'print the values at these points instead (CSV with columns x, y, z, t, nx, ny, nz; one study)')
   .option('--values <file>', 'with --at: write the values to this CSV file instead of standard output')
   .option('--quiet', 'do not print the formulas')
+  .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .action(async (paths: string[], o) => {
     const { dataCommand } = await import('./data-command.ts');
     await studyFilesLoadable();
@@ -122,10 +145,28 @@ program
   .command('list')
   .description('list the studies found, with their ladders and expected orders')
   .argument('[paths...]', 'study files or folders', ['studies'])
-  .action(async (paths: string[]) => {
+  .option('--quiet', 'print only the study names')
+  .option('--study <patterns>', STUDY_HELP, studyPatterns)
+  .action(async (paths: string[], o) => {
     const { listCommand } = await import('./list-command.ts');
     await studyFilesLoadable();
-    process.exitCode = await listCommand(paths);
+    process.exitCode = await listCommand(paths, o);
+  });
+
+// Inside a level's job (scheduler.errors: 'job'): measure the errors of the solution where it was written.
+program
+  .command('level-errors', { hidden: true })
+  .argument('<study-file>')
+  .requiredOption('--study <name>')
+  .requiredOption('--level <k>', '1-based level', Number)
+  .requiredOption('--out <dir>')
+  .requiredOption('--folder <dir>')
+  .option('--norms <names>', 'comma-separated', '')
+  .requiredOption('--total <levels>', 'levels of the study', Number)
+  .action(async (file: string, o) => {
+    const { levelErrorsCommand } = await import('./level-errors-command.ts');
+    await studyFilesLoadable();
+    process.exitCode = await levelErrorsCommand(file, o);
   });
 
 program

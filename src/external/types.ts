@@ -3,6 +3,7 @@ import type { DiscreteField } from '../norms/types.ts';
 import type { FunctionSpace } from '../fem/dofmap/types.ts';
 import type { CommandRun } from './command.ts';
 import type { VtkSystemField } from './vtk/to-field.ts';
+import type { SchedulerSettings } from '../scheduler/types.ts';
 
 /** How the external solver hands its level back: its own measured errors, or its discrete solution as VTK. */
 export type ExternalOutput = 'errors' | 'vtk';
@@ -11,7 +12,8 @@ export type ExternalOutput = 'errors' | 'vtk';
 export interface ExternalDiscretization {
   kind: 'external';
   /** Command template, e.g. "python3 solver.py --n {n} --out {out}"; placeholders {n} {h} {level} {degree} {out}
-   *  {study}, substituted inside each word after splitting (no shell). Or the argv words themselves. */
+   *  {study}, substituted inside each word after splitting (no shell). Or the argv words themselves. A word that
+   *  starts with ./ or ../ is a path relative to the study file's folder (src/external/study-paths.ts). */
   command: string | string[];
   output: ExternalOutput;
   /** Element degree (sets derived expected orders and the error quadrature; checked against VTK cell types). */
@@ -30,13 +32,16 @@ export interface ExternalDiscretization {
    *  field's polynomial degree where it is not the preset's (Taylor–Hood: the pressure has the study's degree − 1, read
    *  from the corners of the quadratic cells, its other nodes checked to hold its linear interpolation). */
   fields?: Record<string, string | ExternalFieldArray>;
-  /** Working folder of the solver (default: the folder rungs runs in). */
+  /** Working folder of the solver (default: the folder rungs runs in); a relative one is taken from the study file's folder. */
   cwd?: string;
   /** Extra environment variables for the solver. */
   env?: Record<string, string>;
   /** A command run once before the ladder (same placeholders; RUNGS_PREFLIGHT=1): it writes its own source and
    *  boundary data at points of its choosing to {out}/preflight.csv, which rungs compares with the derived data. */
   preflight?: string | string[];
+  /** Run the levels as jobs of a batch scheduler (Slurm) or as local processes, with resources per level
+   *  (src/scheduler/types.ts). Where a level runs does not change its result (the resume key leaves it out). */
+  scheduler?: SchedulerSettings;
 }
 
 /** A field's VTK array with the polynomial degree to read it with. */

@@ -2,8 +2,8 @@ import type { StudyResult } from '../study/result.ts';
 import { compactJson } from './compact-json.ts';
 import type { InputProblem } from './input-problem.ts';
 import { REPORT_CSS, TIME_CSS } from './html-style.ts';
-import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, stderrText } from './numbers.ts';
-import { fileStem, normNames, rateAt } from './series.ts';
+import { countText, fixed, intervalText, levelNumber, levelRangeText, orderText, sci, sentence, stderrText } from './numbers.ts';
+import { fileStem, normNames, rateAt, reportsCount } from './series.ts';
 import { svgPlot, type PlotOptions } from './svg.ts';
 import { normOutcomes, studyTally, verdictLabel, type NormOutcome } from './verdict.ts';
 import { escapeXml as esc } from './xml.ts';
@@ -30,7 +30,7 @@ export interface HtmlMeta {
 const CAUTION =
   'Verifying a code shows that it solves its equations at the expected order of accuracy; it does not validate a ' +
   'model, which means showing that those equations describe the physical system. These results say nothing about ' +
-  'whether a tile, or anything else, is fit for service: engineering decisions follow local codes and licensed practice.';
+  'whether the system modelled is fit for service: engineering decisions follow local codes and licensed practice.';
 
 const anchor = (study: string) => `study-${fileStem(study)}`;
 
@@ -90,14 +90,16 @@ function levelTable(r: StudyResult): string {
   const norms = normNames(r);
   const time = hasTime(r);
   const rates = showsRates(r);
-  const head = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', 'cells', ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`])), 'solver its', 'time (s)'];
+  const dofs = reportsCount(r, 'dofs');
+  const cellCount = reportsCount(r, 'cells');
+  const head = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), ...(dofs ? ['dofs'] : []), ...(cellCount ? ['cells'] : []), ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`])), 'solver its', 'time (s)'];
   const rows = r.levels.map((l, i) => {
     const cells = [
       String(levelNumber(l.index)),
       sci(l.h),
       ...(time ? [stepsText(l), sci(l.dt)] : []),
-      String(l.dofs),
-      String(l.cells),
+      ...(dofs ? [countText(l.dofs)] : []),
+      ...(cellCount ? [countText(l.cells)] : []),
       ...norms.flatMap((n) => (rates ? [sci(l.errors[n]), fixed(rateAt(r, n, i))] : [sci(l.errors[n])])),
       l.solver ? String(l.solver.iterations) : '—',
       l.seconds.total === undefined ? '—' : fixed(l.seconds.total, 3),
@@ -195,7 +197,7 @@ function quantitySection(r: StudyResult): string {
   if (qs.length === 0) return '';
   const tables = quantityTables(qs).map((t) => [
     `<table class="quantities">`,
-    `<caption>${esc(t.title)}. ${esc(t.legend)}.</caption>`,
+    `<caption>${esc(`${sentence(t.title)} ${sentence(t.legend)}`)}</caption>`,
     `<thead><tr>${t.header.map((h, c) => `<th${c === 0 ? ' class="text"' : ''}>${esc(h)}</th>`).join('')}</tr></thead>`,
     `<tbody>${t.rows.map((row) => `<tr>${row.map((v, c) => `<td class="${c === 0 ? 'text' : 'num'}">${esc(v)}</td>`).join('')}</tr>`).join('\n')}</tbody>`,
     '</table>',
@@ -247,7 +249,23 @@ function versionsTable(versions: Record<string, string>): string {
   return `<table class="versions"><thead><tr><th class="text">package</th><th class="text">version</th></tr></thead><tbody>${rows.join('')}</tbody></table>`;
 }
 
-function studySection(r: StudyResult, plot: PlotOptions | undefined): string {
+/** The package versions every study of the run shares (same name, same version): shown once, at the end of the page. */
+export function sharedVersions(results: readonly StudyResult[]): Record<string, string> {
+  if (results.length === 0) return {};
+  const shared: Record<string, string> = { ...results[0]!.versions };
+  for (const r of results.slice(1)) {
+    for (const k of Object.keys(shared)) if (r.versions[k] !== shared[k]) delete shared[k];
+  }
+  return shared;
+}
+
+/** A study's versions that the run's shared table does not already give (a study resumed from an older run). */
+function ownVersions(r: StudyResult, shared: Record<string, string>): Record<string, string> {
+  return Object.fromEntries(Object.entries(r.versions).filter(([k, v]) => shared[k] !== v));
+}
+
+function studySection(r: StudyResult, plot: PlotOptions | undefined, shared: Record<string, string>): string {
+  const own = ownVersions(r, shared);
   const flaw = r.expectation.verdict === 'pass' ? 'every norm on order' : `${r.expectation.verdict}${r.expectation.flaw ? `: ${r.expectation.flaw}` : ''}`;
   const facts = [
     `<code>${esc(r.file)}</code>`,
@@ -286,9 +304,9 @@ function studySection(r: StudyResult, plot: PlotOptions | undefined): string {
     // Only studies with maps get the section (and its line), so pages without maps stay byte for byte as before.
     ...(r.errorMaps?.length ? [errorMapSection(r)] : []),
     warnings,
-    '<div class="columns">',
+    Object.keys(own).length ? '<div class="columns">' : '<div>',
     `<div><h3>Inputs</h3><pre class="inputs">${esc(inputs ?? 'none')}</pre></div>`,
-    `<div><h3>Package versions</h3>${versionsTable(r.versions)}</div>`,
+    Object.keys(own).length ? `<div><h3>Package versions of this study</h3><p>where they differ from the run's</p>${versionsTable(own)}</div>` : '',
     '</div>',
     '</section>',
   ].join('\n');
@@ -307,6 +325,7 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
   const title = meta.title ?? 'Convergence report';
   const tally = studyTally(results);
   const problems = meta.inputProblems ?? [];
+  const shared = sharedVersions(results);
   const sub = [
     `${tally.studies} ${tally.studies === 1 ? 'study' : 'studies'}: ${tally.asExpected} as expected, ${tally.departures.length} not as expected`,
     problems.length ? `${problems.length} with input problems` : '',
@@ -333,8 +352,9 @@ export function htmlReport(results: readonly StudyResult[], meta: HtmlMeta = {})
     problemsBox(problems),
     '<h2 id="overview">Overview</h2>',
     overview(results),
-    ...results.map((r) => studySection(r, meta.plot)),
-    `<footer>Made by rungs. Errors are measured against manufactured exact solutions; rates and fitted orders are least-squares slopes of log error against log h${results.some(hasTime) ? ' (against log Δt for ladders that refine the time step; two-axis designs are fitted jointly as e = C_h·h^p + C_t·Δt^q by nonlinear least squares on log e)' : ''}.</footer>`,
+    ...results.map((r) => studySection(r, meta.plot, shared)),
+    results.length ? `<section class="run-versions"><h2 id="versions">Package versions</h2><p>Shared by every study of this run.</p>${versionsTable(shared)}</section>` : '',
+    `<footer>Made by rungs. Errors are measured against each study's exact solution, or read from the code or table that gave them; rates and fitted orders are least-squares slopes of log error against log h${results.some(hasTime) ? ' (against log Δt for ladders that refine the time step; two-axis designs are fitted jointly as e = C_h·h^p + C_t·Δt^q by nonlinear least squares on log e)' : ''}.</footer>`,
     '</main>',
     '</body>',
     '</html>',

@@ -68,3 +68,16 @@ export function stderrText(s: number): string {
   if (s === 0) return '0';
   return s >= 0.01 ? s.toFixed(2) : s.toPrecision(2);
 }
+
+/** A count such as dofs or cells: the integer, or '—' when the level did not report it (a table read by `rungs fit`
+ *  without that column holds NaN there). */
+export function countText(n: number | null | undefined): string {
+  return n === null || n === undefined || !Number.isFinite(n) ? '—' : String(n);
+}
+
+/** Text closed by one full stop: a description that already ends in '.', '!' or '?' gets none added, so that a caption
+ *  built from it never shows "edge.." (common practice, no source). */
+export function sentence(text: string): string {
+  const t = text.trimEnd();
+  return t === '' || /[.!?]$/.test(t) ? t : `${t}.`;
+}

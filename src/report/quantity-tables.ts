@@ -8,7 +8,7 @@ import { fixed, intervalText } from './numbers.ts';
 /** Shown beside every table of uncertainties that a reader might take for a margin. */
 export const QUANTITY_CAUTION =
   'These intervals estimate the numerical (discretization) uncertainty of the computed values only. Verifying a code ' +
-  'or a solution is not validating a model: they say nothing about whether the equations describe the tile or rod, ' +
+  'or a solution is not validating a model: they say nothing about whether the equations describe the physical system, ' +
   'and engineering decisions about a structure, a component or a safety margin follow local codes and licensed practice.';
 
 export interface TextTable {

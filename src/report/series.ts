@@ -31,3 +31,9 @@ export function interpolatedNorms(result: StudyResult): string[] {
 }
 
 export { fileStem } from '../study/names.ts';
+
+/** Whether any level reported this count: a table read by `rungs fit` may give only h, and then the reports leave the
+ *  dofs (or cells) column out instead of showing a column of blanks. */
+export function reportsCount(result: StudyResult, count: 'dofs' | 'cells'): boolean {
+  return result.levels.some((l) => Number.isFinite(l[count]));
+}

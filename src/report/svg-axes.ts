@@ -9,18 +9,33 @@ export const MUTED = '#57606a';
 export const GRID = '#d8dee4';
 export const r2 = (v: number) => Math.round(v * 100) / 100;
 
+/**
+ * A log scale fitted to the values: their range widened by 5% of its length in log on each side (at least a factor
+ * 1.1), so that no marker sits on the frame, and then, only when that range holds fewer than two powers of ten, out to
+ * the nearest ones (the closer side first), so that every axis has two labelled decades. Whole-decade ends (d3's
+ * nice()) left up to a decade of empty plot on each side.
+ */
 export function logScale(values: number[], range: [number, number]): ScaleLogarithmic<number, number> {
   // A loop, not Math.min(...values): spreading 100k levels overflows the call stack.
   let lo = Infinity, hi = -Infinity;
   for (const v of values) { if (v < lo) lo = v; if (v > hi) hi = v; }
   if (!(lo > 0) || !Number.isFinite(hi)) [lo, hi] = [0.1, 1];
-  // Below 1e-300 nice() would round a subnormal value down to a decade that is 0 in doubles (10^-324), and the ticks
-  // of log 0 are an array of infinite length; such values are drawn on the lower edge (clamp).
+  // Below 1e-300 the decades below would be 0 in doubles (10^-324), and the ticks of log 0 an array of infinite
+  // length; such values are drawn on the lower edge (clamp).
   lo = Math.max(lo, 1e-300);
   hi = Math.max(hi, lo);
   if (lo === hi) [lo, hi] = [lo / 10, hi * 10];
-  // nice() widens the domain to whole decades, so every axis has at least two labelled powers of ten.
-  return scaleLog().domain([lo, hi]).range(range).nice().clamp(true);
+  const pad = Math.max(0.05 * (Math.log10(hi) - Math.log10(lo)), Math.log10(1.1));
+  let a = Math.log10(lo) - pad;
+  let b = Math.log10(hi) + pad;
+  const decadesIn = () => Math.floor(b + 1e-9) - Math.ceil(a - 1e-9) + 1;
+  while (decadesIn() < 2) {
+    const below = Math.ceil(a - 1e-9) - 1;
+    const above = Math.floor(b + 1e-9) + 1;
+    if (a - below <= above - b) a = below;
+    else b = above;
+  }
+  return scaleLog().domain([Math.max(10 ** a, 1e-300), 10 ** b]).range(range).clamp(true);
 }
 
 function isDecade(v: number): boolean {

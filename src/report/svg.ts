@@ -61,7 +61,7 @@ function collectSeries(result: StudyResult, axis: Abscissa): Series[] {
   const placed: PlacedTriangle[] = [];
   series.forEach((s, k) => {
     const p = s.analysis?.expected;
-    if (p === null || p === undefined || !(p > 0)) return;
+    if (p === null || p === undefined || !(p > 0) || !showsSlope(s.analysis!) || s.points.length < 2) return;
     // Error ~ h^p (or Δt^q on a ladder in Δt, whose expected order is the temporal one), or ~ N^(-p/d) in d
     // dimensions when plotted against dofs.
     const slope = axis === 'dofs' ? -p / result.dim : p;
@@ -71,6 +71,17 @@ function collectSeries(result: StudyResult, axis: Abscissa): Series[] {
     s.triangle = { ...t, label: orderText(Math.abs(slope)) };
   });
   return series;
+}
+
+/**
+ * Whether a series gets an expected-slope triangle: not when it is exact (its errors are round-off, and a slope beside
+ * them means nothing), nor when it does not converge (no fit, a fitted order at or below zero, or an interval that
+ * reaches zero), where a triangle would suggest a rate the data do not have.
+ */
+export function showsSlope(a: SeriesAnalysis): boolean {
+  if (a.verdict === 'exact' || !a.fit) return false;
+  const { order, ciLow } = a.fit;
+  return order > 0 && (Number.isFinite(ciLow) ? ciLow > 0 : true);
 }
 
 /** "L2: fitted 2.98 [2.95, 3.01], expected 3; verdict ✓ on-order" */
@@ -89,7 +100,7 @@ function describe(result: StudyResult, series: Series[], axisWord: string): stri
   return (
     `Log-log plot of the error against ${axisWord} over ${result.levels.length} levels of study ${result.study}. ` +
     parts.join(' ') +
-    ' Each triangle below the finest data has the expected slope; hollow markers sit on an error floor.'
+    ' Each dashed triangle beside the data has the expected slope (none for an exact or a non-converging series); hollow markers sit on an error floor.'
   );
 }
 

@@ -1,8 +1,9 @@
 import type { StudyResult } from '../study/result.ts';
-import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, sciParts } from './numbers.ts';
-import { normNames, rateAt } from './series.ts';
+import { countText, fixed, intervalText, levelNumber, levelRangeText, orderText, sci, sciParts, sentence } from './numbers.ts';
+import { normNames, rateAt, reportsCount } from './series.ts';
 import { normOutcomes, verdictLabel } from './verdict.ts';
 import { QUANTITY_CAUTION, quantityStatements, quantityTables } from './quantity-tables.ts';
+import { escapeLatex, latexText } from './latex-text.ts';
 import { fitAxisSuffix, hasTime, jointFitText, showsRates, stepsText, timeLine, type Notation } from './time.ts';
 
 /** "L2 fitted 3.01 [2.99, 3.02], expected 3: ✓ on-order" per norm; shared by both table captions. A ladder in Δt says
@@ -42,12 +43,13 @@ export function markdownTable(result: StudyResult): string {
   const norms = normNames(result);
   const time = hasTime(result);
   const rates = showsRates(result);
-  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`]))];
+  const dofs = reportsCount(result, 'dofs');
+  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), ...(dofs ? ['dofs'] : []), ...norms.flatMap((n) => (rates ? [`${n} error`, `${n} rate`] : [`${n} error`]))];
   const rows = result.levels.map((level, i) => [
     String(levelNumber(level.index)),
     sci(level.h),
     ...(time ? [stepsText(level), sci(level.dt)] : []),
-    String(level.dofs),
+    ...(dofs ? [countText(level.dofs)] : []),
     ...norms.flatMap((n) => (rates ? [sci(level.errors[n]), fixed(rateAt(result, n, i))] : [sci(level.errors[n])])),
   ]);
   const line = (cells: string[]) => `| ${cells.map(escapeMarkdownCell).join(' | ')} |`;
@@ -61,7 +63,7 @@ export function markdownTable(result: StudyResult): string {
     `|${header.map(() => '---:').join('|')}|`,
     ...rows.map(line),
     '',
-    normNames(result).length ? `Fitted orders: ${fitSummaries(result, true).map(escapeMarkdownCell).join('; ')}.` : 'No error columns analysed.',
+    normNames(result).length ? sentence(`Fitted orders: ${fitSummaries(result, true).map(escapeMarkdownCell).join('; ')}`) : 'No error columns analysed.',
     '',
     ...markdownQuantities(result),
   ].join('\n');
@@ -69,23 +71,7 @@ export function markdownTable(result: StudyResult): string {
 
 // ---- LaTeX (booktabs rules) ----
 
-const LATEX_SPECIALS: Record<string, string> = {
-  '\\': '\\textbackslash{}',
-  '{': '\\{',
-  '}': '\\}',
-  $: '\\$',
-  '&': '\\&',
-  '#': '\\#',
-  '%': '\\%',
-  _: '\\_',
-  '^': '\\textasciicircum{}',
-  '~': '\\textasciitilde{}',
-};
-
-/** The ten characters LaTeX treats specially in text (common practice, no source). */
-export function escapeLatex(text: string): string {
-  return text.replace(/[\\{}$&#%_^~]/g, (c) => LATEX_SPECIALS[c]);
-}
+export { escapeLatex };
 
 /** $1.23\times10^{-4}$, or an em dash when there is no value. */
 export function latexSci(x: number | null | undefined): string {
@@ -100,15 +86,8 @@ function latexRate(rate: number | null): string {
   return Number.isFinite(rate) ? `$${fixed(rate)}$` : latexSci(rate);
 }
 
-/** Text with the verdict words of fitSummaries, escaped; '∞' and '—' spelled for LaTeX. */
-function latexText(text: string): string {
-  return escapeLatex(text).replace(/−∞/g, '$-\\infty$').replace(/∞/g, '$\\infty$').replace(/–/g, '--').replace(/—/g, '---');
-}
-
-/** A fit summary in LaTeX: latexText, and the Δ of "in Δt" in math mode (steady studies have none). */
-function latexSummary(text: string): string {
-  return latexText(text).replace(/Δt/g, '$\\Delta t$');
-}
+/** A fit summary in LaTeX: every symbol spelled by latexText ("in Δt" as $\Delta t$). */
+const latexSummary = latexText;
 
 /** How the time sentence is written in LaTeX: each formula one math span, words escaped. */
 const LATEX_NOTATION: Notation = {
@@ -125,7 +104,8 @@ const LATEX_NOTATION: Notation = {
 export function latexTable(result: StudyResult): string {
   const norms = normNames(result);
   const time = hasTime(result);
-  const lead = time ? 5 : 3;
+  const dofs = reportsCount(result, 'dofs');
+  const lead = (time ? 4 : 2) + (dofs ? 1 : 0);
   // A two-axis design has one column per norm (its error), every other study an error and a rate.
   const per = showsRates(result) ? 2 : 1;
   const columns = lead + per * norms.length;
@@ -136,14 +116,14 @@ export function latexTable(result: StudyResult): string {
     (level, i) =>
       `    ${levelNumber(level.index)} & ${latexSci(level.h)} & ` +
       (time ? `${level.steps === undefined ? '---' : level.steps} & ${latexSci(level.dt)} & ` : '') +
-      `${level.dofs}${norms.length ? ' & ' : ''}` +
+      (dofs ? `${countText(level.dofs)}${norms.length ? ' & ' : ''}` : '') +
       norms.map((n) => (per === 2 ? `${latexSci(level.errors[n])} & ${latexRate(rateAt(result, n, i))}` : latexSci(level.errors[n]))).join(' & ') +
       ' \\\\',
   );
   const ladder = timeLine(result, LATEX_NOTATION);
-  const caption = `${latexText(result.study)}${result.description ? `: ${latexText(result.description)}` : ''}. ` +
-    (ladder === null ? '' : `${ladder}. `) +
-    (norms.length ? `${fitSummaries(result, false).map(latexSummary).join('; ')}.` : 'No error columns analysed.');
+  const caption = `${latexText(sentence(`${result.study}${result.description ? `: ${result.description}` : ''}`))} ` +
+    (ladder === null ? '' : `${sentence(ladder)} `) +
+    (norms.length ? sentence(fitSummaries(result, false).map(latexSummary).join('; ')) : 'No error columns analysed.');
   return [
     '% requires \\usepackage{booktabs}',
     '\\begin{table}[htbp]',
@@ -153,7 +133,7 @@ export function latexTable(result: StudyResult): string {
     `  \\begin{tabular}{${'r'.repeat(columns)}}`,
     '    \\toprule',
     ...(norms.length ? [`    ${'& '.repeat(lead)}${group} \\\\`, ...(groupRules ? [`    ${groupRules}`] : [])] : []),
-    `    level & $h$ & ${time ? 'steps & $\\Delta t$ & ' : ''}dofs${norms.length ? ` & ${sub}` : ''} \\\\`,
+    `    ${['level', '$h$', ...(time ? ['steps', '$\\Delta t$'] : []), ...(dofs ? ['dofs'] : []), ...(norms.length ? [sub] : [])].join(' & ')} \\\\`,
     '    \\midrule',
     ...rows,
     '    \\bottomrule',
@@ -179,24 +159,18 @@ function markdownQuantities(result: StudyResult): string[] {
   return out;
 }
 
-/** Symbols of the quantity tables in plain LaTeX, so that no Unicode input encoding is needed. */
-const LATEX_SYMBOLS: Record<string, string> = {
-  φ: '$\\phi$', ε: '$\\varepsilon$', Δ: '$\\Delta$', '±': '$\\pm$', '·': '$\\cdot$', '−': '$-$', '²': '$^2$',
-  '≥': '$\\geq$', '≤': '$\\leq$', '<': '$<$', '>': '$>$', '|': '$|$', ç: '\\c{c}',
-};
-
 /** One booktabs table per quantity table; the interval statements and the caution in the caption of the first. */
 function latexQuantities(result: StudyResult): string[] {
   const qs = result.quantities ?? [];
   if (qs.length === 0) return [];
-  const cell = (t: string) => latexText(t).replace(/[φεΔ±·−²≥≤<>|ç]/g, (c) => LATEX_SYMBOLS[c]!);
+  const cell = latexText;
   const label = result.study.replace(/[^A-Za-z0-9:.-]/g, '-');
   return quantityTables(qs).flatMap((t, k) => {
-    const extra = k === 0 ? ` ${quantityStatements(qs).map(cell).join('; ')}. ${cell(QUANTITY_CAUTION)}` : '';
+    const extra = k === 0 ? ` ${cell(sentence(quantityStatements(qs).join('; ')))} ${cell(QUANTITY_CAUTION)}` : '';
     return [
       '\\begin{table}[htbp]',
       '  \\centering',
-      `  \\caption{${cell(result.study)}: ${cell(t.title)}. ${cell(t.legend)}.${extra}}`,
+      `  \\caption{${cell(`${result.study}: ${sentence(t.title)} ${sentence(t.legend)}`)}${extra}}`,
       `  \\label{tab:${label}-quantities-${k + 1}}`,
       `  \\begin{tabular}{l${'r'.repeat(t.header.length - 1)}}`,
       '    \\toprule',

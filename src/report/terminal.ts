@@ -1,6 +1,6 @@
 import type { StudyResult } from '../study/result.ts';
-import { fixed, intervalText, levelNumber, levelRangeText, orderText, sci, stderrText } from './numbers.ts';
-import { normNames, rateAt } from './series.ts';
+import { countText, fixed, intervalText, levelNumber, levelRangeText, orderText, sci, stderrText } from './numbers.ts';
+import { normNames, rateAt, reportsCount } from './series.ts';
 import { normOutcomes, studyTally, verdictLabel, type NormOutcome } from './verdict.ts';
 import { fitAxisSuffix, hasTime, jointOrderText, jointVerdictText, showsRates, stepsText, timeLine } from './time.ts';
 
@@ -47,12 +47,13 @@ function levelTable(result: StudyResult, p: Palette): string[] {
   const norms = normNames(result);
   const time = hasTime(result);
   const rates = showsRates(result);
-  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), 'dofs', ...norms.flatMap((n) => (rates ? [`${n} error`, 'rate'] : [`${n} error`]))];
+  const dofs = reportsCount(result, 'dofs');
+  const header = ['level', 'h', ...(time ? ['steps', 'Δt'] : []), ...(dofs ? ['dofs'] : []), ...norms.flatMap((n) => (rates ? [`${n} error`, 'rate'] : [`${n} error`]))];
   const body = result.levels.map((level, i) => [
     String(levelNumber(level.index)),
     sci(level.h),
     ...(time ? [stepsText(level), sci(level.dt)] : []),
-    String(level.dofs),
+    ...(dofs ? [countText(level.dofs)] : []),
     ...norms.flatMap((norm) => (rates ? [sci(level.errors[norm]), fixed(rateAt(result, norm, i))] : [sci(level.errors[norm])])),
   ]);
   const rule = header.map((h, c) => '─'.repeat(body.reduce((w, r) => Math.max(w, [...r[c]].length), [...h].length)));

@@ -54,7 +54,7 @@ export function studyReportNames(stem: string): string[] {
 }
 
 /** The run's own report files (summary.csv, index.html). */
-export const RUN_REPORT_NAMES: readonly string[] = ['summary.csv', 'index.html'];
+export const RUN_REPORT_NAMES: readonly string[] = ['summary.csv', 'index.html', 'index.pdf'];
 
 /**
  * Before a run: removes the previous run's summary and index and the reports of the studies this run will write, so

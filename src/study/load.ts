@@ -5,6 +5,7 @@ import { register } from 'node:module';
 import { RungsInputError } from '../errors.ts';
 import type { StudyDeclaration } from './declaration.ts';
 import { validateStudy } from './schema.ts';
+import { resolveStudyPaths } from '../external/study-paths.ts';
 
 export const STUDY_SUFFIX = '.study.ts';
 
@@ -131,5 +132,10 @@ export async function loadStudy(file: string): Promise<LoadedStudy> {
   if (!('default' in mod) || mod.default === undefined) {
     throw new RungsInputError(`${shown}: no default export; a study file must \`export default defineStudy({ ... })\``, shown);
   }
-  return { file: shown, declaration: validateStudy(mod.default, shown) };
+  const declaration = validateStudy(mod.default, shown);
+  // Paths in an external command (./solver.py, ../bin/tool) and a relative cwd are the study file's, not the shell's.
+  if (declaration.discretization.kind === 'external') {
+    declaration.discretization = resolveStudyPaths(declaration.discretization, dirname(abs), `${shown} (study '${declaration.name}'): discretization`);
+  }
+  return { file: shown, declaration };
 }
