@@ -1,3 +1,4 @@
+import { weightedQuantile } from 'simple-statistics';
 import { RungsInputError } from '../errors.ts';
 
 /**
@@ -88,8 +89,8 @@ export interface LocalOrderSummary {
  * Measure-weighted quantiles of per-cell local orders (localOrders) and the shares of the measure below and above the
  * expected order's band: weighting by |K| makes the figures those of the domain, not of the mesh's cell count (a
  * graded mesh has many small cells near a singularity). Quantile q is the smallest order whose cumulative weight
- * reaches q of the total (the lower weighted quantile; common practice, no source). NaN orders are left out and
- * their measure counts as not covered. Null when no cell has a local order.
+ * reaches q of the total (the lower weighted quantile, simple-statistics' weightedQuantile; common practice, no
+ * source). NaN orders are left out and their measure counts as not covered. Null when no cell has a local order.
  */
 export function summarizeLocalOrders(
   orders: Float64Array, measures: Float64Array, expected: number | null, tolerance: number,
@@ -110,18 +111,11 @@ export function summarizeLocalOrders(
     if (expected !== null && p > expected + tolerance) above += w;
   }
   if (have.length === 0 || !(covered > 0)) return null;
-  have.sort((a, b) => orders[a]! - orders[b]!);
-  const quantile = (q: number): number => {
-    let acc = 0;
-    for (const K of have) {
-      acc += measures[K]!;
-      if (acc >= q * covered) return orders[K]!;
-    }
-    return orders[have[have.length - 1]!]!;
-  };
+  const [p05, median, p95] = weightedQuantile(have.map((K) => orders[K]!), have.map((K) => measures[K]!),
+    [0.05, 0.5, 0.95]);
   return {
     covered: covered / total,
-    p05: quantile(0.05), median: quantile(0.5), p95: quantile(0.95),
+    p05: p05!, median: median!, p95: p95!,
     below: expected !== null ? below / covered : null,
     above: expected !== null ? above / covered : null,
     expected, tolerance,

@@ -2,6 +2,10 @@
 // x = ν/(ν + t²) (Abramowitz & Stegun 1964, eq. 26.7.1 with 26.5.27); the quantile inverts it by safeguarded
 // Newton steps from the Cornish–Fisher start of A&S eq. 26.7.5, with the incomplete beta evaluated as in
 // Numerical Recipes (Press et al. 2007, section 6.4).
+// Kept rather than a statistics library (measured against 40-digit mpmath roots): @stdlib/stats-base-dists-t-quantile
+// 0.2.3 is accurate to 1.1e-15 relative (this code to 1e-14 for ν ≤ 60, the ν rungs's fits have, 1.3e-10 at ν = 1e5)
+// but loads 410 modules in about 125 ms, paid by every `rungs run`, and installs 223 packages; jstat 1.9.6's studentt.inv
+// is off by up to 5.7e-8; simple-statistics has no t quantile.
 import { RungsInputError } from '../errors.ts';
 import { regularizedIncompleteBeta } from './incomplete-beta.ts';
 import { logGamma } from './log-gamma.ts';

@@ -1,8 +1,13 @@
-// A small CSV reader after RFC 4180 (Shafranovich 2005): comma-separated fields, records ended by CRLF or LF,
-// fields in double quotes may hold commas, line breaks and doubled quotes (""). A leading byte-order mark is
-// dropped, blank lines are skipped, and every record keeps the line it starts on for messages. A table must end
-// with a line break (RFC 4180 makes the last one optional; rungs requires it, because without it a file cut inside
-// its last number — "0.12345" cut to "0.12" — reads as a valid, different number).
+// The CSV reader of rungs: RFC 4180 (Shafranovich 2005) parsed by csv-parse (the sibling of the csv-stringify that
+// writes rungs's tables): comma-separated fields, records ended by CRLF, LF or CR (any mix: each is named, since the
+// parser would otherwise fix the first one it meets for the whole file), fields in double quotes holding commas,
+// line breaks and doubled quotes (""). What rungs adds: a leading byte-order mark is dropped, blank lines are
+// skipped, blanks around a field are dropped (every caller trimmed them), and every record keeps the line it starts
+// on for messages, counted here from the byte offsets csv-parse reports (its own line count takes a CRLF inside a
+// quoted field for two lines). A table must end with a line break (RFC 4180 makes the last one optional; rungs
+// requires it, because without it a file cut inside its last number — "0.12345" cut to "0.12" — reads as a valid,
+// different number).
+import { CsvError, parse } from 'csv-parse/sync';
 import { RungsInputError } from '../errors.ts';
 
 /** A plain decimal number as people and every numerical code write it: optional sign, digits with at most one
@@ -37,65 +42,86 @@ export interface CsvTable {
   rows: CsvRecord[];
 }
 
-/** Parses CSV text into records; an unclosed quote or text after a closing quote throws naming file and line. */
-export function parseCsvRecords(text: string, file: string): CsvRecord[] {
-  const records: CsvRecord[] = [];
-  let fields: string[] = [];
-  let field = '';
-  let quoted = false;
+const CR = 13;
+const LF = 10;
+const QUOTE = 34;
+
+/** Line numbers of byte offsets in `bytes`, asked in increasing order: a line break is LF, CRLF or a lone CR. */
+function lineCounter(bytes: Uint8Array): (offset: number) => number {
+  let at = 0;
   let line = 1;
-  let recordLine = 1;
-  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
-  const n = text.length;
-  const endRecord = (): void => {
-    const blank = fields.length === 0 && field.trim() === '' && !quoted;
-    fields.push(field);
-    if (!blank) records.push({ fields, line: recordLine });
-    fields = [];
-    field = '';
-    quoted = false;
+  return (offset) => {
+    for (; at < offset && at < bytes.length; at++) {
+      const c = bytes[at]!;
+      if (c === LF || (c === CR && bytes[at + 1] !== LF)) line++;
+    }
+    return line;
   };
-  while (i < n) {
-    const ch = text[i]!;
-    if (ch === '"' && !quoted && field.trim() === '') {
-      const openLine = line;
-      field = '';
-      quoted = true;
-      i++;
-      for (;;) {
-        if (i >= n) throw new RungsInputError(`${file} line ${openLine}: a quoted field is never closed (missing ")`, file);
-        const c = text[i]!;
-        if (c === '"') {
-          if (text[i + 1] === '"') { field += '"'; i += 2; continue; }
-          i++;
-          break;
-        }
-        if (c === '\n') line++;
-        field += c;
-        i++;
-      }
-      // Only blanks may follow the closing quote before the separator.
-      while (i < n && (text[i] === ' ' || text[i] === '\t')) i++;
-      if (i < n && text[i] !== ',' && text[i] !== '\n' && text[i] !== '\r') {
-        throw new RungsInputError(`${file} line ${line}: unexpected '${text[i]}' after a closing quote; quote the whole field`, file);
-      }
-      continue;
-    }
-    if (ch === ',') { fields.push(field); field = ''; quoted = false; i++; continue; }
-    if (ch === '\r' || ch === '\n') {
-      endRecord();
-      if (ch === '\r' && text[i + 1] === '\n') i++;
-      i++;
-      line++;
-      recordLine = line;
-      continue;
-    }
-    if (quoted) throw new RungsInputError(`${file} line ${line}: unexpected '${ch}' after a closing quote; quote the whole field`, file);
-    field += ch;
-    i++;
+}
+
+/** A blank line: one field, empty once trimmed, and no quote in the record's bytes [from, to) (a line holding only
+ *  "" is a record of one empty field). */
+function blankRecord(fields: readonly string[], bytes: Uint8Array, from: number, to: number): boolean {
+  return fields.length === 1 && fields[0] === '' && !bytes.subarray(from, to).includes(QUOTE);
+}
+
+/** The character starting at a byte offset. */
+function charAt(bytes: Buffer, offset: number): string {
+  return String.fromCodePoint(bytes.toString('utf8', offset, offset + 4).codePointAt(0) ?? 0xfffd);
+}
+
+/** Parses CSV text into records; an unclosed quote, text after a closing quote or a quote inside an unquoted field
+ *  throws naming file and line. */
+export function parseCsvRecords(text: string, file: string): CsvRecord[] {
+  const bytes = Buffer.from(text, 'utf8');
+  const lineAt = lineCounter(bytes);
+  const records: CsvRecord[] = [];
+  // Byte offset at which the record being parsed starts (past the byte-order mark, which csv-parse drops).
+  let start = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
+  try {
+    parse(bytes, {
+      bom: true,
+      record_delimiter: ['\r\n', '\n', '\r'],
+      trim: true,
+      relax_column_count: true, // the table checks the width itself, with the header in its message
+      raw: true, // the record's text so far, which places an error in it
+      on_record: (rec, info) => {
+        // With `raw`, csv-parse hands the record as { record, raw } (its types say string[]).
+        const fields = (rec as unknown as { record: string[] }).record;
+        if (!blankRecord(fields, bytes, start, info.bytes)) records.push({ fields, line: lineAt(start) });
+        start = info.bytes;
+        return null; // kept here, not collected twice
+      },
+    });
+  } catch (err) {
+    if (!(err instanceof CsvError)) throw err;
+    throw new RungsInputError(csvErrorMessage(err, bytes, start, lineAt, file), file);
   }
-  if (field !== '' || fields.length > 0 || quoted) endRecord();
   return records;
+}
+
+/** The message for a csv-parse error in the record that starts at byte `start`. */
+function csvErrorMessage(err: CsvError, bytes: Buffer, start: number, lineAt: (offset: number) => number, file: string): string {
+  // The record's text up to the error (csv-parse's `raw`), and the byte offset where it ends.
+  const raw = typeof err.raw === 'string' ? err.raw : '';
+  const rawEnd = start + Buffer.byteLength(raw);
+  const field = typeof err.index === 'number' ? err.index + 1 : null;
+  switch (err.code) {
+    case 'CSV_QUOTE_NOT_CLOSED':
+      return `${file} line ${lineAt(start)}: a quoted field is never closed (missing ")${field ? `, field ${field} of the record starting on this line` : ''}`;
+    case 'CSV_INVALID_CLOSING_QUOTE': // `raw` ends with the closing quote; the character follows it
+    case 'CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE': { // `raw` ends with the character, after blanks
+      const at = err.code === 'CSV_INVALID_CLOSING_QUOTE' ? rawEnd : rawEnd - Buffer.byteLength(String.fromCodePoint(raw.codePointAt(raw.length - 1) ?? 0));
+      return `${file} line ${lineAt(at)}: unexpected '${charAt(bytes, at)}' after a closing quote; quote the whole field`;
+    }
+    case 'INVALID_OPENING_QUOTE': { // `raw` ends with the quote; the field is unquoted, so it holds no comma
+      const value = raw.slice(raw.lastIndexOf(',') + 1, -1).trimStart();
+      return `${file} line ${lineAt(rawEnd - 1)}: a quote inside the unquoted field${field ? ` ${field}` : ''} ('${value}"…'); ` +
+        'a field that holds a quote must be quoted whole, with each quote inside doubled ("a ""b"" c")';
+    }
+    default:
+      return `${file} line ${lineAt(start)}: ${err.message}`;
+  }
 }
 
 export interface CsvTableOptions {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { linearRegression } from 'simple-statistics';
+import { Matrix, inverse, solve } from 'ml-matrix';
 import { fitLine, fitOrderInDofs, fitOrderInH } from '../../src/analysis/fit.ts';
 import { RungsInputError } from '../../src/errors.ts';
 import { seededGaussian } from './seeded-gaussian.ts';
@@ -36,7 +36,10 @@ describe('fitOrderInH and fitOrderInDofs', () => {
     expect(fit.ciLow).toBe(-Infinity);
     expect(fit.ciHigh).toBe(Infinity);
   });
-  it('matches simple-statistics linearRegression (an outside reference) on scattered data', () => {
+  it('matches least squares by QR in ml-matrix (an outside reference) on scattered data, standard error included', () => {
+    // The line is simple-statistics' linearRegression, so the reference is another library and another method: the
+    // overdetermined system [1 x] (b, m) = y solved by ml-matrix's QR, and the slope's standard error
+    // s √((AᵀA)⁻¹)₂₂ with s² = SSR / (m − 2) (Draper & Smith 1998, ch. 1 and 5).
     const noise = seededGaussian(7);
     const x: number[] = [];
     const y: number[] = [];
@@ -45,9 +48,14 @@ describe('fitOrderInH and fitOrderInDofs', () => {
       y.push(1.3 - 2.1 * x[i]! + 0.2 * noise());
     }
     const ours = fitLine(x, y);
-    const ref = linearRegression(x.map((xi, i) => [xi, y[i]!]));
-    expect(ours.slope).toBeCloseTo(ref.m, 12);
-    expect(ours.intercept).toBeCloseTo(ref.b, 12);
+    const a = new Matrix(x.map((xi) => [1, xi]));
+    const coef = solve(a, Matrix.columnVector(y)).to1DArray();
+    const residuals = y.map((yi, i) => yi - coef[0]! - coef[1]! * x[i]!);
+    const s = Math.sqrt(residuals.reduce((acc, r) => acc + r * r, 0) / (x.length - 2));
+    const stderr = s * Math.sqrt(inverse(a.transpose().mmul(a)).get(1, 1));
+    expect(ours.slope).toBeCloseTo(coef[1]!, 12);
+    expect(ours.intercept).toBeCloseTo(coef[0]!, 12);
+    expect(ours.slopeStderr / stderr).toBeCloseTo(1, 12);
   });
   it('uses the textbook standard error s / sqrt(Sxx) on a hand-checkable set', () => {
     // x = 0,1,2, y = 0,2,1: slope 0.5, intercept 0.5, residuals (-0.5, 1, -0.5), SSR = 1.5, ν = 1,

@@ -20,6 +20,22 @@ describe('parseCsvRecords', () => {
   it('names the line of an unclosed quote and of text after a closing quote', () => {
     expect(() => fields('h,L2\n0.5,"oops\n0.25,1\n')).toThrow('t.csv line 2: a quoted field is never closed');
     expect(() => fields('h,L2\n"0.5"x,1\n')).toThrow("t.csv line 2: unexpected 'x' after a closing quote");
+    // The line of the character itself, after a quoted field that spans a CRLF.
+    expect(() => fields('h,L2\r\n1,"a\r\nb" x\r\n')).toThrow("t.csv line 3: unexpected 'x' after a closing quote");
+  });
+  it('refuses a quote inside an unquoted field (RFC 4180 §2, rule 5), naming line and field', () => {
+    expect(() => fields('h,L2\n\n0.5,1"5\n')).toThrow(`t.csv line 3: a quote inside the unquoted field 2 ('1"…')`);
+  });
+  it('reads CRLF, LF and lone CR record ends mixed in one file, counting each as one line', () => {
+    // A parser that fixes the record end it meets first would read "1,2\n3,4" below as one record.
+    const recs = parseCsvRecords('a,b\r\n1,2\n3,4\r5,"x\r\ny"\r\n6,7\n', 't.csv');
+    expect(recs.map((r) => r.fields)).toEqual([['a', 'b'], ['1', '2'], ['3', '4'], ['5', 'x\r\ny'], ['6', '7']]);
+    expect(recs.map((r) => r.line)).toEqual([1, 2, 3, 4, 6]);
+  });
+  it('drops blanks around fields, quoted ones too, and keeps a line holding only "" as a record', () => {
+    const recs = parseCsvRecords(' h , "L2" \n  \t \n""\n', 't.csv');
+    expect(recs.map((r) => r.fields)).toEqual([['h', 'L2'], ['']]);
+    expect(recs.map((r) => r.line)).toEqual([1, 3]);
   });
 });
 

@@ -1,13 +1,19 @@
 // A small XML scanner for VTK XML files: elements, attributes and the text range of leaf elements, each with its
-// line number (general XML libraries drop line numbers, and rungs's messages name the line). It handles the XML
-// declaration, comments, DOCTYPE and the five predefined entities (XML 1.0, W3C 2008, §2.4 and §4.6); CDATA sections
-// are rejected because VTK's ASCII data never needs them. Every reference is checked: a named one must be one of the
-// five, a character reference (&#NNN; or &#xHHH;) must name a character XML allows (§2.2, production [2] Char) and a
-// bare & is an error. Well-formedness that catches truncation and damage: one root element closed at the end,
-// matching tags, no attribute twice, no < in attribute values, no text outside the root or beside child elements
-// (except a DataArray's values before its <InformationKey> elements, which VTK 9 writes there).
+// line number, for rungs's messages. It handles the XML declaration, comments, DOCTYPE and the five predefined
+// entities (XML 1.0, W3C 2008, §2.4 and §4.6); CDATA sections are rejected because VTK's ASCII data never needs them.
+// Every reference is checked: a named one must be one of the five, a character reference (&#NNN; or &#xHHH;) must
+// name a character XML allows (§2.2, production [2] Char) and a bare & is an error. Well-formedness that catches
+// truncation and damage: one root element closed at the end, matching tags, no attribute twice, no < in attribute
+// values, no text outside the root or beside child elements (except a DataArray's values before its <InformationKey>
+// elements, which VTK 9 writes there).
 // <AppendedData> ends the scan: its data, after a '_', may hold any byte, so it is located, not scanned — from the
 // byte after the '_' to the closing </AppendedData></VTKFile> the file must end with (checked from the end).
+// Why not a streaming SAX parser: sax 1.6.1 and saxes 6.0.0 were measured in this scanner's place, fed the same
+// Latin-1 chunks, and found the same elements, lines and byte ranges, but they step through every character of a
+// DataArray's text in JavaScript where this scanner passes over it with Buffer.indexOf: on 1M-point files (2 shared
+// cores) the structure pass of a 97 MB ASCII .vtu took 6× as long (the whole read 1.2×), of a 99 MB base64 one 34×
+// (the whole read 2.6×), with a peak RSS of 144 MiB against 80 MiB; and raw appended data, which is not XML, would
+// still have to be split off by hand.
 import { RungsInputError } from '../../errors.ts';
 import { placeOf, type LevelRef } from '../where.ts';
 import { bufferSource, ByteWindow, CHUNK_BYTES, utf8, type ByteSource } from './source.ts';
