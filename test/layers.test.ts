@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 
 // Bottom up; folders on one line share a layer.
 const LAYERS: string[][] = [
-  ['errors'], ['csv', 'mesh', 'analysis', 'files'], ['exact', 'linalg'], ['codegen'], ['equation'], ['fem'], ['norms'], ['external'], ['study'],
+  ['errors'], ['csv', 'mesh', 'analysis', 'files'], ['exact', 'linalg'], ['codegen'], ['equation'], ['fem'], ['norms'], ['external', 'scheduler'], ['study'],
   ['report', 'fit', 'parallel'], ['gate'], ['cli'],
 ];
 const rank = new Map(LAYERS.flatMap((names, i) => names.map((n) => [n, i] as const)));

@@ -27,7 +27,10 @@ export interface LevelRecordEntry {
 /** The key of one level: what it computes from, and nothing it does not. */
 export function levelKey(decl: StudyDeclaration, index: number, norms: readonly string[]): string {
   const { n: _n, quick: _quick, steps: _steps, dt: _dt, ...ladder } = decl.ladder;
-  const rest = declarationHash({ ...decl, ladder: ladder as StudyDeclaration['ladder'] });
+  // Where an external level runs (its scheduler and resources) does not change what it computes.
+  const disc = decl.discretization;
+  const discretization = disc.kind === 'external' && disc.scheduler ? { ...disc, scheduler: undefined } : disc;
+  const rest = declarationHash({ ...decl, discretization, ladder: ladder as StudyDeclaration['ladder'] });
   const text = canonicalText({ declaration: rest, rungs: packageVersions().rungs, index, n: ladderRungs(decl)[index]!.n, steps: ladderRungs(decl)[index]!.steps, norms: [...norms] });
   return `sha256:${createHash('sha256').update(text).digest('hex')}`;
 }
@@ -35,6 +38,8 @@ export function levelKey(decl: StudyDeclaration, index: number, norms: readonly 
 // JSON has no NaN or ±Infinity; a level may hold them (an error at round-off, a missing rate). They are stored as
 // {"$number": "NaN"} so that a reused level is the level that was computed, bit for bit.
 const TAG = '$number';
+/** JSON.stringify / JSON.parse helpers keeping NaN and ±Infinity (also for a level row written by a job, jobs-lane.ts). */
+export { encode as encodeRecordValue, decode as decodeRecordValue };
 function encode(_key: string, v: unknown): unknown {
   if (typeof v === 'number' && !Number.isFinite(v)) return { [TAG]: String(v) };
   return v;

@@ -19,9 +19,11 @@ export interface LevelValues {
   steps?: number;
   dt?: number;
   T?: number;
+  /** Tasks (MPI ranks) of the level's job when it runs under a scheduler (src/scheduler/); 1 otherwise. */
+  tasks?: number;
 }
 
-export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study', 'data', 'steps', 'dt', 'T'] as const;
+export const PLACEHOLDERS = ['n', 'h', 'level', 'degree', 'out', 'study', 'data', 'steps', 'dt', 'T', 'tasks'] as const;
 export type PlaceholderName = (typeof PLACEHOLDERS)[number];
 
 /** Numbers as JavaScript prints them (shortest form that reads back to the same double). */
@@ -45,10 +47,11 @@ function valueOf(values: LevelValues, name: PlaceholderName, where: string): str
     }
     return String(v);
   }
+  if (name === 'tasks') return String(values.tasks ?? 1);
   return String(values[name]);
 }
 
-/** Replaces {n} {h} {level} {degree} {out} {study} {data} {steps} {dt} {T} inside one argv word; {{ and }} stand for literal braces. */
+/** Replaces {n} {h} {level} {degree} {out} {study} {data} {steps} {dt} {T} {tasks} inside one argv word; {{ and }} stand for literal braces. */
 export function substituteWord(word: string, values: LevelValues, where = 'command'): string {
   let out = '';
   let i = 0;
@@ -95,5 +98,6 @@ export function levelEnvironment(values: LevelValues): Record<string, string> {
   if (values.steps !== undefined) env.RUNGS_STEPS = String(values.steps);
   if (values.dt !== undefined) env.RUNGS_DT = String(values.dt);
   if (values.T !== undefined) env.RUNGS_T = String(values.T);
+  if (values.tasks !== undefined) env.RUNGS_TASKS = String(values.tasks);
   return env;
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { schedulerSettingsSchema } from '../scheduler/schema.ts';
 
 /** The zod fragment of external({ … }) for the study schema's discretization union (discriminated by kind). */
 export const externalDiscretizationSchema = z.object({
@@ -20,6 +21,7 @@ export const externalDiscretizationSchema = z.object({
   cwd: z.string().min(1).optional(),
   env: z.record(z.string(), z.string()).optional(),
   preflight: z.union([z.string().min(1), z.array(z.string()).min(1)], { message: 'expected a command string or argv words that writes {out}/preflight.csv' }).optional(),
+  scheduler: schedulerSettingsSchema.optional(),
 }).strict();
 
 /** Quantity names for the study's `quantities` field (GCI of each from the three finest levels). */

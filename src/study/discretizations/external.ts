@@ -20,10 +20,11 @@ export function externalDiscretization(disc: ExternalDiscretization): LevelDiscr
       const { exact, coefficients } = problem;
       const system = disc.output === 'vtk' && !exact && problem.derived ? systemOf(disc, decl, problem, file) : null;
       let t = performance.now();
-      const run = await runExternalLevel(disc, {
+      const input = {
         study: decl.name, index, n, h: mesh.h, outDir: levelFolder(join(env.out, fileStem(decl.name)), index),
         norms: [...norms], quantities: decl.quantities, data: env.data, fields: system?.requests, time,
-      });
+      };
+      const run = await runExternalLevel(disc, input, env.levelRunner?.(disc, input));
       const tSolve = seconds(t);
       t = performance.now();
       // The norms over time: the code's series of VTK files, one per time level (src/external/output.ts SERIES_FILE).

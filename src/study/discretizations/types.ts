@@ -5,6 +5,8 @@ import type { StudyProblem } from '../problem.ts';
 import type { LevelContext } from '../context.ts';
 import type { LevelResult } from '../result.ts';
 import type { LevelErrorCells } from '../where.ts';
+import type { ExternalDiscretization } from '../../external/types.ts';
+import type { ExternalLevelInput, LevelRunner } from '../../external/level.ts';
 
 /** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
 export interface LevelEnvironment {
@@ -15,6 +17,8 @@ export interface LevelEnvironment {
   total?: number;
   /** Write `level-k/errors.vtu` for the finest two levels (the CLI does; a study run from code does not). */
   errorFiles?: boolean;
+  /** Runs an external level elsewhere (as a job of a scheduler, src/scheduler/); none: a child process of rungs. */
+  levelRunner?: (disc: ExternalDiscretization, level: ExternalLevelInput) => LevelRunner;
 }
 
 export interface LevelTime { T: number; steps: number; dt: number }

@@ -1,0 +1,95 @@
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import type { ChildProcess } from 'node:child_process';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { computed, startRungs, waitFor } from '../cli/kiln-run.ts';
+
+// The local-process implementation of the scheduler interface (src/scheduler/local.ts) through the same lane as Slurm
+// (src/cli/jobs-lane.ts): same CSV as a plain local run, failures named, and a stopped rungs whose jobs ran on is
+// collected by --resume from the jobs' own record (job.exit). Waits poll with limits that only catch a hang.
+let root = '';
+const started: ChildProcess[] = [];
+beforeAll(() => { root = mkdtempSync(join(tmpdir(), 'rungs-local-jobs-')); });
+afterAll(() => {
+  for (const c of started) if (c.exitCode === null && c.signalCode === null) try { c.kill('SIGKILL'); } catch { /* gone */ }
+  if (root) rmSync(root, { recursive: true, force: true });
+});
+
+const LIB = pathToFileURL(resolve('src/index.ts')).href;
+const ROD = resolve('test/slurm/fixtures/rod-solver.mjs');
+
+function rodStudy(dir: string, name: string, extra: string): string {
+  mkdirSync(dir, { recursive: true });
+  writeFileSync(join(dir, 'package.json'), '{ "type": "module" }\n');
+  const file = join(dir, `${name}.study.ts`);
+  writeFileSync(file, [
+    `import { defineStudy, interval, external } from '${LIB}';`,
+    'export default defineStudy({',
+    `  name: '${name}', description: 'A kiln rod (invented data), solved by a stand-in code.',`,
+    "  domain: interval(0, 1), exact: 'sin(x) + x',",
+    `  discretization: external({ command: [${JSON.stringify(process.execPath)}, ${JSON.stringify(ROD)}, '--tasks', '{tasks}'], output: 'errors', degree: 1${extra} }),`,
+    "  ladder: { n: [4, 8, 16, 32] }, norms: ['L2', 'H1semi'],",
+    '});',
+    '',
+  ].join('\n'));
+  return file;
+}
+const csv = (file: string) => readFileSync(file, 'utf8').trim().split('\n').map((l) => l.split(','));
+const TIMED = /^(t_|peak_rss)/;
+const errorColumns = (rows: string[][]) => {
+  const keep = rows[0]!.map((h, i) => (TIMED.test(h) ? -1 : i)).filter((i) => i >= 0);
+  return rows.map((r) => keep.map((i) => r[i]));
+};
+
+describe('levels as local jobs (the other implementation of the scheduler interface)', () => {
+  it('gives the CSV of a plain run; {tasks} is the level\'s tasks', async () => {
+    const study = rodStudy(join(root, 'same'), 'rod-same', ", scheduler: { kind: 'local', tasks: [1, 1, 2, 3] }");
+    const plain = await startRungs(['run', study, '--out', join(root, 'plain'), '--scheduler', 'local', '--jobs', '1']).done;
+    expect(plain.code, plain.err).toBe(0);
+    expect(plain.err).toMatch(/rod-same: submitted levels 1, 2 to local as job array/);
+    const level4 = readFileSync(join(root, 'plain', 'rod-same', 'level-4', 'job.sh'), 'utf8');
+    expect(level4).toMatch(/--tasks 3\b/);
+    expect(level4).toContain('RUNGS_TASKS=3');
+    // Without a scheduler (the study file without its scheduler field): a child process per level, {tasks} = 1.
+    const bare = rodStudy(join(root, 'bare'), 'rod-same', '');
+    const child = await startRungs(['run', bare, '--out', join(root, 'bare-out'), '--jobs', '1']).done;
+    expect(child.code, child.err).toBe(0);
+    expect(errorColumns(csv(join(root, 'plain', 'rod-same.csv')))).toEqual(errorColumns(csv(join(root, 'bare-out', 'rod-same.csv'))));
+  }, 300_000);
+
+  it('names the level and the job of a failure and keeps the other levels', async () => {
+    const study = rodStudy(join(root, 'fail'), 'rod-local-fail', ", scheduler: { kind: 'local' }");
+    const r = startRungs(['run', study, '--out', join(root, 'fail-out')], { ROD_FAIL_LEVEL: '3' });
+    started.push(r.child);
+    const done = await r.done;
+    expect(done.code, done.err).toBe(2);
+    expect(done.err).toMatch(/level 3 \(n = 16\): local job local-\d+-\d+: the external solver exited with code 3; .*no solution today/);
+    expect(csv(join(root, 'fail-out', 'rod-local-fail.csv')).slice(1).map((row) => row[0])).toEqual(['1', '2', '4']);
+  }, 300_000);
+
+  it('a stopped rungs leaves its local jobs running; --resume collects a finished one from its job.exit', async () => {
+    const out = join(root, 'keep-out');
+    const counter = join(root, 'keep-counter.txt');
+    const go = join(root, 'go');
+    const study = rodStudy(join(root, 'keep'), 'rod-local-keep', ", scheduler: { kind: 'local' }");
+    const env = { ROD_COUNTER: counter, ROD_WAIT_LEVEL: '2', ROD_GO: go };
+    const r = startRungs(['run', study, '--out', out, '--jobs', '1'], env);
+    started.push(r.child);
+    await waitFor('level 2 to start', () => computed(counter).includes(8) || r.child.exitCode !== null);
+    r.child.kill('SIGTERM');
+    const stopped = await r.done;
+    expect(stopped.code, stopped.err).toBe(143);
+    const jobs = JSON.parse(readFileSync(join(out, '.rungs', 'jobs', 'rod-local-keep.json'), 'utf8')).jobs as { index: number; folder: string; status: string }[];
+    const level2 = jobs.find((j) => j.index === 1)!;
+    expect(level2.status).toBe('submitted');
+    writeFileSync(go, '');
+    await waitFor('the job of level 2 to end', () => existsSync(join(level2.folder, 'job.exit')));
+    const again = await startRungs(['run', study, '--out', out, '--resume'], env).done;
+    expect(again.code, again.err).toBe(0);
+    expect(again.err).toMatch(/re-attached to local jobs? [^(]*\(levels? [^)]*\b2\b/);
+    expect(computed(counter).filter((n) => n === 8)).toHaveLength(1);
+    expect(csv(join(out, 'rod-local-keep.csv'))).toHaveLength(5);
+  }, 300_000);
+});
