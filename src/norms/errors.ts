@@ -1,20 +1,44 @@
 import { ruleFor } from '../fem/quadrature/index.ts';
-import { cellJacobian } from '../fem/geometry/jacobian.ts';
-import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
 import type { DiscreteField, ExactSolution, NormValues } from './types.ts';
-import { AFFINE_CELL } from '../mesh/types.ts';
 import { RungsInputError } from '../errors.ts';
+import type { CellKind } from '../mesh/types.ts';
+import { cellTeam, taskUrl } from '../fem/team/team.ts';
+import { ERROR_PART_CELLS, errorCells } from './error-cells.ts';
+import { errorTaskInput } from './error-task-input.ts';
 
-/** Extra degrees of the error quadrature above 2k, the degree of |u_h|² (so the smooth part of the integrand
- *  is over-integrated; common practice, no source). */
-export const ERROR_RULE_EXTRA = 4;
+const ERROR_TASK = taskUrl(import.meta.url, 'error-task');
+
+/**
+ * Extra degrees of the error quadrature above 2k, the degree of |u_h|². The accuracy policy: the rule's own error in
+ * a squared norm must stay far below what moves a fitted order. With a rule exact to degree d = 2k + 2 on a cell of
+ * size h, the error of ∫|e|² is O(h^{d+2}) against ∫|e|² ~ h^{2k+2}, so its relative error falls as h² (and as h⁴
+ * for ∫|∇e|², ~h^{2k}): Taylor expansion of e² about the rule (Strang & Fix 1973, §4.3, quadrature of degree d errs
+ * by h^{d+1} times the (d+1)-th derivatives, here O(h) since all but one factor of e² are of order k+1 or more).
+ * An order fitted over levels h and h/2 moves by (ε(h) − ε(h/2)) / (2 ln 2) for a relative error ε in the squared
+ * norm: measured against a rule of degree 2k + 14 (test/norms/error-rule-policy.test.ts) ε stays below 2e-3 (L2) and
+ * 1e-4 (H1 seminorm) from 4 cells per half-wavelength of u on, so orders move by less than 2e-3. Degree 2k + 2
+ * evaluates u and ∇u at half the points of 2k + 4 for P1 triangles (6 against 12) and P2 tetrahedra (24 against 125).
+ * Intervals, triangles and tetrahedra (affine maps) take it; quadrilaterals and hexahedra keep ERROR_RULE_EXTRA_MAPPED.
+ */
+export const ERROR_RULE_EXTRA = 2;
+
+/** Extra degrees on quadrilaterals and hexahedra: their bilinear and trilinear maps make det J and u_h ∘ F polynomials
+ *  of higher degree in the reference coordinates (even a polynomial u is then integrated exactly only by a rule of
+ *  higher degree), so they keep the former 2k + 4 (common practice, no source). */
+export const ERROR_RULE_EXTRA_MAPPED = 4;
+
+/** The default quadrature degree of the error integrals for fields of largest degree k on cells of this kind. */
+export function errorRuleDegree(cellKind: CellKind, k: number): number {
+  return 2 * k + (cellKind === 'quadrilateral' || cellKind === 'hexahedron' ? ERROR_RULE_EXTRA_MAPPED : ERROR_RULE_EXTRA);
+}
 
 export interface ErrorOptions {
   /** Conductivity and reaction for the energy norm sqrt(∫ k|∇e|² + c e²). */
   k?: ScalarFn;
   c?: ScalarFn;
-  /** Quadrature degree of the error integrals (default 2·degree + ERROR_RULE_EXTRA). */
+  /** Quadrature degree of the error integrals (default errorRuleDegree: 2·degree + 2 on simplices, + 4 on
+   *  quadrilaterals and hexahedra). */
   degree?: number;
   /** Integrate over every stride-th cell only and scale up: an estimate for tolerances, not for reporting. */
   cellStride?: number;
@@ -61,132 +85,45 @@ export function errorNorms(field: DiscreteField, exact: ExactSolution, opts: Err
 /** The norms of u − f for several fields on the same mesh in one pass, so u, ∇u and the coefficients are
  *  evaluated once per quadrature point (the discrete solution and the interpolant share the work). With
  *  opts.perCell, fields[0]'s squared L2 and H1 seminorm per cell are written there too (two more additions per
- *  point into locals, one store per cell; no allocation per cell or point: DEVELOPERS.md, "Hot loops"). */
+ *  point into locals, one store per cell; no allocation per cell or point: DEVELOPERS.md, "Hot loops").
+ *  The cells are integrated in parts of ERROR_PART_CELLS (error-cells.ts), shared with the worker threads of the
+ *  cell team (src/fem/team/) when the level is large and its fields and functions can be rebuilt there; the parts'
+ *  sums are added in part order, so the totals are the same bits on any number of threads. */
 export function errorNormsOf(fields: DiscreteField[], exact: ExactSolution, opts: ErrorOptions = {}): NormValues[] {
   const mesh = fields[0].mesh;
   const dim = mesh.dim;
   const k = Math.max(...fields.map((f) => f.degree ?? 2));
-  const rule = ruleFor(mesh.cellKind, opts.degree ?? 2 * k + ERROR_RULE_EXTRA);
-  const nq = rule.nPoints;
+  const degree = opts.degree ?? errorRuleDegree(mesh.cellKind, k);
+  const rule = ruleFor(mesh.cellKind, degree);
   const nf = fields.length;
-  const vals = fields.map(() => new Float64Array(nq));
-  const grads = fields.map(() => new Float64Array(nq * dim));
-  const J = new Float64Array(9), invJ = new Float64Array(9), x = new Float64Array(3), g = new Float64Array(3);
-  const affine = AFFINE_CELL[mesh.cellKind];
-  const l2 = new Float64Array(nf), h1 = new Float64Array(nf), en = new Float64Array(nf);
-  const kf = opts.k, cf = opts.c;
-  const pts = rule.points, wts = rule.weights;
-  const { coords, cells, verticesPerCell: vpc } = mesh;
   const ux = exact.u, gx = exact.grad;
   const uAndG = exact.valueAndGrad ?? ((X: number, Y: number, Z: number, out: Float64Array): number => { gx(X, Y, Z, out); return ux(X, Y, Z); });
-  const v0s = vals[0], g0s = grads[0];
-  const v1s = nf > 1 ? vals[1] : v0s, g1s = nf > 1 ? grads[1] : g0s;
-  let l2a = 0, h1a = 0, ena = 0, l2b = 0, h1b = 0, enb = 0;
   const stride = Math.max(1, Math.floor(opts.cellStride ?? 1));
   checkPerCell(opts.perCell, mesh.nCells, stride, 'errorNorms');
-  // Per-cell sums of the first field live in their own locals (cl2, ch1), added to beside the totals from the same
-  // products, so the totals' operations and their order are those of an integration without them (same bits).
-  const pcL2 = opts.perCell?.L2 ?? null, pcH1 = opts.perCell?.H1semi ?? null;
   // With a stride, start mid-stride so that boundary rows and columns of structured meshes are not favoured.
-  for (let c = stride > 1 ? stride >> 1 : 0; c < mesh.nCells; c += stride) {
-    for (let f = 0; f < nf; f++) fields[f].evaluate(c, pts, nq, vals[f], grads[f]);
-    let det = 0;
-    const v0 = cells[c * vpc] * dim;
-    if (dim === 2 && affine && nf <= 2) {
-      // The common case, unrolled: affine 2D cells, one or two fields.
-      det = Math.abs(cellJacobian(mesh, c, pts, 0, J, invJ));
-      const x0 = coords[v0], y0 = coords[v0 + 1], j00 = J[0], j01 = J[1], j10 = J[2], j11 = J[3];
-      let cl2 = 0, ch1 = 0;
-      for (let q = 0; q < nq; q++) {
-        const s = pts[2 * q], t = pts[2 * q + 1];
-        const X = x0 + j00 * s + j01 * t, Y = y0 + j10 * s + j11 * t;
-        const w = wts[q] * det;
-        const u = uAndG(X, Y, 0, g);
-        const kq = kf ? kf(X, Y, 0) : 1;
-        const cq = cf ? cf(X, Y, 0) : 0;
-        const gu0 = g[0], gu1 = g[1];
-        let e = u - v0s[q], d0 = gu0 - g0s[2 * q], d1 = gu1 - g0s[2 * q + 1];
-        let ge = d0 * d0 + d1 * d1;
-        const we2 = w * e * e, wge = w * ge;
-        l2a += we2; h1a += wge; ena += w * (kq * ge + cq * e * e);
-        cl2 += we2; ch1 += wge;
-        if (nf > 1) {
-          e = u - v1s[q]; d0 = gu0 - g1s[2 * q]; d1 = gu1 - g1s[2 * q + 1];
-          ge = d0 * d0 + d1 * d1;
-          l2b += w * e * e; h1b += w * ge; enb += w * (kq * ge + cq * e * e);
-        }
-      }
-      if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
-      continue;
-    }
-    if (dim === 3 && affine && nf <= 2) {
-      // Affine tetrahedra, one or two fields: the general loop below with its 3×3 loops written out; the same
-      // operations in the same order (points x0 + J ξ summed term by term, |∇e|² from zero), so the same bits.
-      det = cellJacobian(mesh, c, pts, 0, J, invJ);
-      const x0 = coords[v0], y0 = coords[v0 + 1], z0 = coords[v0 + 2];
-      const j0 = J[0], j1 = J[1], j2 = J[2], j3 = J[3], j4 = J[4], j5 = J[5], j6 = J[6], j7 = J[7], j8 = J[8];
-      const ad = Math.abs(det);
-      let cl2 = 0, ch1 = 0;
-      for (let q = 0; q < nq; q++) {
-        const s = pts[3 * q], t = pts[3 * q + 1], r = pts[3 * q + 2];
-        let X = x0; X += j0 * s; X += j1 * t; X += j2 * r;
-        let Y = y0; Y += j3 * s; Y += j4 * t; Y += j5 * r;
-        let Z = z0; Z += j6 * s; Z += j7 * t; Z += j8 * r;
-        const w = wts[q] * ad;
-        const u = uAndG(X, Y, Z, g);
-        const kq = kf ? kf(X, Y, Z) : 1;
-        const cq = cf ? cf(X, Y, Z) : 0;
-        const gu0 = g[0], gu1 = g[1], gu2 = g[2];
-        let e = u - v0s[q];
-        let d0 = gu0 - g0s[3 * q], d1 = gu1 - g0s[3 * q + 1], d2 = gu2 - g0s[3 * q + 2];
-        let ge = 0; ge += d0 * d0; ge += d1 * d1; ge += d2 * d2;
-        const we2 = w * e * e, wge = w * ge;
-        l2a += we2; h1a += wge; ena += w * (kq * ge + cq * e * e);
-        cl2 += we2; ch1 += wge;
-        if (nf > 1) {
-          e = u - v1s[q];
-          d0 = gu0 - g1s[3 * q]; d1 = gu1 - g1s[3 * q + 1]; d2 = gu2 - g1s[3 * q + 2];
-          ge = 0; ge += d0 * d0; ge += d1 * d1; ge += d2 * d2;
-          l2b += w * e * e; h1b += w * ge; enb += w * (kq * ge + cq * e * e);
-        }
-      }
-      if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
-      continue;
-    }
-    let cl2 = 0, ch1 = 0;
-    for (let q = 0; q < nq; q++) {
-      if (q === 0 || !affine) det = cellJacobian(mesh, c, pts, q * dim, J, invJ);
-      if (affine) {
-        // x = x0 + J ξ, with J from cellJacobian (no call per point).
-        for (let d = 0; d < dim; d++) {
-          let s = coords[v0 + d];
-          for (let r = 0; r < dim; r++) s += J[d * dim + r] * pts[q * dim + r];
-          x[d] = s;
-        }
-      } else mapReferencePoint(mesh, c, pts, q * dim, x);
-      const X = x[0], Y = dim > 1 ? x[1] : 0, Z = dim > 2 ? x[2] : 0;
-      const w = wts[q] * Math.abs(det);
-      const u = uAndG(X, Y, Z, g);
-      const kq = kf ? kf(X, Y, Z) : 1;
-      const cq = cf ? cf(X, Y, Z) : 0;
-      for (let f = 0; f < nf; f++) {
-        const e = u - vals[f][q];
-        const gf = grads[f];
-        let ge = 0;
-        for (let d = 0; d < dim; d++) { const t = g[d] - gf[q * dim + d]; ge += t * t; }
-        const we2 = w * e * e, wge = w * ge;
-        l2[f] += we2;
-        h1[f] += wge;
-        en[f] += w * (kq * ge + cq * e * e);
-        if (f === 0) { cl2 += we2; ch1 += wge; }
-      }
-    }
-    if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
+  const start = stride > 1 ? stride >> 1 : 0;
+  const parts = Math.max(1, Math.ceil(mesh.nCells / ERROR_PART_CELLS));
+  const sums = new Float64Array(parts * 3 * nf);
+  const team = parts >= 2 ? cellTeam() : null;
+  const input = team && team.workers > 0 ? errorTaskInput(fields, exact, opts, degree, stride, start, parts, opts.perCell !== undefined) : null;
+  let perCellL2 = opts.perCell?.L2 ?? null, perCellH1 = opts.perCell?.H1semi ?? null;
+  if (input) {
+    // The workers write their sums and per-cell values into shared memory; the main thread copies them out after.
+    const cells = errorCells({ mesh, fields, uAndG, k: opts.k, c: opts.c, rule, stride, start, perCellL2: input.perCellL2, perCellH1: input.perCellH1 });
+    team!.run(ERROR_TASK, input, parts, (p) => cells(p * ERROR_PART_CELLS, Math.min(mesh.nCells, (p + 1) * ERROR_PART_CELLS), input.sums, p * 3 * nf));
+    sums.set(input.sums);
+    if (perCellL2) { perCellL2.set(input.perCellL2!); perCellH1!.set(input.perCellH1!); }
+  } else {
+    const cells = errorCells({ mesh, fields, uAndG, k: opts.k, c: opts.c, rule, stride, start, perCellL2, perCellH1 });
+    for (let p = 0; p < parts; p++) cells(p * ERROR_PART_CELLS, Math.min(mesh.nCells, (p + 1) * ERROR_PART_CELLS), sums, p * 3 * nf);
   }
-  l2[0] += l2a; h1[0] += h1a; en[0] += ena;
-  if (nf > 1) { l2[1] += l2b; h1[1] += h1b; en[1] += enb; }
+  perCellL2 = perCellH1 = null;
+  const l2 = new Float64Array(nf), h1 = new Float64Array(nf), en = new Float64Array(nf);
+  for (let p = 0; p < parts; p++) {
+    for (let f = 0; f < nf; f++) { const o = (p * nf + f) * 3; l2[f] += sums[o]; h1[f] += sums[o + 1]; en[f] += sums[o + 2]; }
+  }
   if (stride > 1) {
-    const sampled = Math.ceil((mesh.nCells - (stride >> 1)) / stride);
+    const sampled = Math.ceil((mesh.nCells - start) / stride);
     const scale = mesh.nCells / Math.max(1, sampled);
     for (let f = 0; f < nf; f++) { l2[f] *= scale; h1[f] *= scale; en[f] *= scale; }
   }

@@ -4,7 +4,7 @@ import { ruleFor } from '../fem/quadrature/index.ts';
 import { cellJacobian } from '../fem/geometry/jacobian.ts';
 import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
-import { checkPerCell, ERROR_RULE_EXTRA, type PerCellErrors } from './errors.ts';
+import { checkPerCell, errorRuleDegree, type PerCellErrors } from './errors.ts';
 import type { DiscreteField, ExactField } from './types.ts';
 
 export interface FieldErrorOptions {
@@ -16,7 +16,7 @@ export interface FieldErrorOptions {
   /** The field is fixed only up to a constant (a pressure): L2, H1 and maxNodal are those of
    *  (u − ū) − (u_h − ū_h), the means taken per component over the domain with the same quadrature. */
   meanFree?: boolean;
-  /** Quadrature degree (default 2k + ERROR_RULE_EXTRA, k the largest field degree, as in errors.ts). */
+  /** Quadrature degree (default errorRuleDegree(cell kind, k), k the largest field degree, as in errors.ts). */
   degree?: number;
   /** Integrate over every stride-th cell only and scale up: an estimate for tolerances, not for reporting. */
   cellStride?: number;
@@ -88,7 +88,7 @@ export function fieldErrors(fields: DiscreteField[], exact: ExactField, opts: Fi
   }
   const meanFree = opts.meanFree === true;
   const k = Math.max(...fields.map((f) => f.degree ?? 2));
-  const rule = ruleFor(mesh.cellKind, opts.degree ?? 2 * k + ERROR_RULE_EXTRA);
+  const rule = ruleFor(mesh.cellKind, opts.degree ?? errorRuleDegree(mesh.cellKind, k));
   const nq = rule.nPoints, nf = fields.length, ng = nc * dim;
   const stride = Math.max(1, Math.floor(opts.cellStride ?? 1));
   checkPerCell(opts.perCell, mesh.nCells, stride, 'fieldErrors');

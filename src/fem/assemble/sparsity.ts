@@ -4,9 +4,13 @@ import type { FunctionSpace } from '../dofmap/types.ts';
 /** CSR pattern (values zero) coupling the reduced dofs: row r holds every reduced dof that shares a cell with r.
  *  reduced[g] is the row of global dof g, or −1 for an eliminated (Dirichlet) dof. Built once per space
  *  from a dof → cells adjacency with a marker array: O(nnz), no map per entry. */
-export function buildSparsity(space: FunctionSpace, reduced: Int32Array, nReduced: number): Csr {
-  return patternOfCells(space.nDofs, space.mesh.nCells, space.element.nDofs, space.cellDofs, reduced, nReduced);
+export function buildSparsity(space: FunctionSpace, reduced: Int32Array, nReduced: number, memory: PatternMemory = 'private'): Csr {
+  return patternOfCells(space.nDofs, space.mesh.nCells, space.element.nDofs, space.cellDofs, reduced, nReduced, ONE_PASS_MAX_ENTRIES, memory);
 }
+
+/** Where a pattern's arrays live: ordinary memory, or shared memory (SharedArrayBuffer) that the worker threads of
+ *  the cell team can fill (src/fem/team/). */
+export type PatternMemory = 'private' | 'shared';
 
 /** Larger bounds than this many entries take two passes over the rows (count, then fill) instead of one pass into a
  *  buffer of the bound's size. */
@@ -27,8 +31,9 @@ const ONE_PASS_MAX_ENTRIES = 2 ** 28;
  */
 export function patternOfCells(
   nDofs: number, nCells: number, nLoc: number, cellDofs: Int32Array, reduced: Int32Array | null, nReduced: number,
-  onePassMaxEntries = ONE_PASS_MAX_ENTRIES,
+  onePassMaxEntries = ONE_PASS_MAX_ENTRIES, memory: PatternMemory = 'private',
 ): Csr {
+  const bytes = (n: number): ArrayBuffer | SharedArrayBuffer => (memory === 'shared' ? new SharedArrayBuffer(n) : new ArrayBuffer(n));
   const start = new Int32Array(nDofs + 1);
   for (let i = 0; i < nCells * nLoc; i++) start[cellDofs[i] + 1]++;
   for (let g = 0; g < nDofs; g++) start[g + 1] += start[g];
@@ -36,17 +41,17 @@ export function patternOfCells(
   const bound = nCells * nLoc * nLoc;
   const onePass = bound <= onePassMaxEntries;
   // The adjacency and, later, the values share one buffer (see above).
-  const shared = new ArrayBuffer(Math.max(4 * nCells * nLoc, onePass ? 8 * bound : 0));
+  const shared = bytes(Math.max(4 * nCells * nLoc, onePass ? 8 * bound : 0));
   const adj = new Int32Array(shared, 0, nCells * nLoc);
   for (let c = 0; c < nCells; c++) for (let i = 0; i < nLoc; i++) adj[fill[cellDofs[c * nLoc + i]]++] = c;
 
   const rowOf = new Int32Array(nReduced); // row → global dof
   if (reduced) { for (let g = 0; g < nDofs; g++) if (reduced[g] >= 0) rowOf[reduced[g]] = g; } else for (let g = 0; g < nDofs; g++) rowOf[g] = g;
   const mark = new Int32Array(nReduced).fill(-1);
-  const rowPtr = new Int32Array(nReduced + 1);
+  const rowPtr = new Int32Array(bytes(4 * (nReduced + 1)));
   let colIdx: Int32Array;
   if (onePass) {
-    const cols = new Int32Array(bound);
+    const cols = new Int32Array(bytes(4 * bound));
     let k = 0;
     for (let r = 0; r < nReduced; r++) {
       const g = rowOf[r];
@@ -77,7 +82,7 @@ export function patternOfCells(
       }
       rowPtr[r + 1] = rowPtr[r] + count;
     }
-    colIdx = new Int32Array(rowPtr[nReduced]);
+    colIdx = new Int32Array(bytes(4 * rowPtr[nReduced]));
     mark.fill(-1);
     for (let r = 0; r < nReduced; r++) {
       const g = rowOf[r];
@@ -95,7 +100,7 @@ export function patternOfCells(
   }
   const nnz = rowPtr[nReduced];
   // Only the adjacency's pages hold anything: zero those; the rest of the buffer is still untouched (zero).
-  const values = shared.byteLength >= 8 * nnz ? new Float64Array(shared, 0, nnz).fill(0, 0, Math.ceil((nCells * nLoc) / 2)) : new Float64Array(nnz);
+  const values = shared.byteLength >= 8 * nnz ? new Float64Array(shared, 0, nnz).fill(0, 0, Math.ceil((nCells * nLoc) / 2)) : new Float64Array(bytes(8 * nnz));
   return { nRows: nReduced, nCols: nReduced, rowPtr, colIdx, values };
 }
 

@@ -2,17 +2,24 @@ import type { Csr } from '../../linalg/types.ts';
 import type { FunctionSpace } from '../dofmap/types.ts';
 import { facetClosureDofs } from '../dofmap/dofmap.ts';
 import { ruleFor } from '../quadrature/index.ts';
-import { makeCellValues, reinitCell, type CellValues } from '../geometry/cellvalues.ts';
+import { makeCellValues, type CellValues } from '../geometry/cellvalues.ts';
 import { locateFacets } from '../geometry/facets.ts';
 import { facetsWithTags } from '../../mesh/tags.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { BoundarySpec, FormCoefficients, QuadratureDegrees, Term } from './types.ts';
 import { quadratureDegrees } from './degrees.ts';
 import { buildSparsity, findEntry } from './sparsity.ts';
+import { cellLoop } from './cell-loop.ts';
+import { allCells } from './cell-set.ts';
+import { ASSEMBLY_PART_CELLS, cellParts, partSet } from './cell-parts.ts';
+import { assembleTaskInput, teamCanAssemble } from './system-team.ts';
+import { cellTeam, taskUrl } from '../team/team.ts';
+import { sharedFloat64 } from '../team/shared.ts';
+
+const ASSEMBLE_TASK = taskUrl(import.meta.url, 'assemble-task');
 import { makeFacetValues, reinitFacet } from './facetvalues.ts';
 import { makeFacetGeometry, reinitFacetGeometry } from '../geometry/facet-geometry.ts';
 import { checkFinite } from './check-finite.ts';
-import { assembleTetrahedronCells } from './tetrahedra.ts';
 
 export interface AssembledSystem {
   space: FunctionSpace;
@@ -33,9 +40,11 @@ export interface AssembleOptions {
   quadrature?: QuadratureDegrees;
   /** Reuse a pattern built for the same space and Dirichlet set. */
   pattern?: Csr;
+  /** The reference cell loop (general-cells.ts) instead of the fast paths for triangles and tetrahedra (tests). */
+  reference?: boolean;
+  /** Cells per part of an assembly shared with the cell team (default ASSEMBLY_PART_CELLS; tests use small parts). */
+  partCells?: number;
 }
-
-const vecB = new Float64Array(3);
 
 /** Assembles A U = b for −∇·(k∇u) + b·∇u + c·u = f with the given boundary conditions, straight into CSR.
  *  Dirichlet data are interpolated at boundary dofs and eliminated from rows and columns (the reduced system keeps
@@ -64,9 +73,14 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   for (const d of dirichletDofs) reduced[d] = -1;
   let nRed = 0;
   for (let g = 0; g < nDofs; g++) if (reduced[g] === 0) reduced[g] = nRed++;
-  const A = opts.pattern ?? buildSparsity(space, reduced, nRed);
+  // The cell team takes part when the mesh has two parts or more and a worker can rebuild the cell loop; the
+  // system's arrays then live in shared memory (a given pattern only when it already does).
+  const teamWanted = mesh.nCells >= 2 * (opts.partCells ?? ASSEMBLY_PART_CELLS) && teamCanAssemble(space, coef) &&
+    (opts.pattern === undefined || opts.pattern.values.buffer instanceof SharedArrayBuffer);
+  const team = teamWanted && cellTeam().workers > 0 ? cellTeam() : null;
+  const A = opts.pattern ?? buildSparsity(space, reduced, nRed, team ? 'shared' : 'private');
   if (opts.pattern) A.values.fill(0);
-  const b = new Float64Array(nRed);
+  const b = team ? sharedFloat64(nRed) : new Float64Array(nRed);
 
   const Ke = new Float64Array(n * n);
   const Fe = new Float64Array(n);
@@ -93,71 +107,26 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   const cvB = coef.b ? cv('convection') : null;
   const cvC = coef.c ? cv('reaction') : null;
   const cvF = coef.f ? cv('load') : null;
-  const kf = coef.k, bf = coef.b, cf = coef.c, ff = coef.f;
 
-  // Tetrahedra: the same arithmetic with the Jacobian once per cell, loops unrolled (src/fem/assemble/tetrahedra.ts);
-  // 1D, 2D and hexahedral meshes keep this loop.
-  if (mesh.cellKind === 'tetrahedron') assembleTetrahedronCells({ mesh, cellDofs, n, cvK, cvB, cvC, cvF, coef, A, b, reduced, dirichletValues });
-  else for (let c = 0; c < mesh.nCells; c++) {
-    Ke.fill(0); Fe.fill(0);
-    {
-      reinitCell(cvK, mesh, c);
-      const { nq, grads, wdet, x } = cvK;
-      for (let q = 0; q < nq; q++) {
-        let w = wdet[q];
-        if (kf) { const kq = kf(x[3 * q], x[3 * q + 1], x[3 * q + 2]); checkFinite(kq, 'conductivity k', c, x, q); w *= kq; }
-        const o = q * n * dim;
-        for (let i = 0; i < n; i++) {
-          for (let j = i; j < n; j++) {
-            let s = 0;
-            for (let d = 0; d < dim; d++) s += grads[o + i * dim + d] * grads[o + j * dim + d];
-            Ke[i * n + j] += w * s;
-          }
-        }
-      }
-      for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) Ke[i * n + j] = Ke[j * n + i];
+  // The cells: on large meshes shared with the cell team's worker threads, part by part, each part writing only the
+  // rows it owns (cell-parts.ts); else in one pass. The same bits either way (test/fem/assemble/shared-assembly.test.ts).
+  const loopInput = { mesh, cellDofs, n, cvK, cvB, cvC, cvF, coef, A, b, reduced, dirichletValues };
+  if (team) {
+    const parts = cellParts(mesh.nCells, n, cellDofs, nDofs, opts.partCells);
+    const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
+    const rules = { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: rule('load', !!coef.f) };
+    const input = assembleTaskInput(space, coef, rules, A, b, reduced, dirichletValues, parts, opts.reference ?? false);
+    const loop = cellLoop(loopInput, opts.reference);
+    try {
+      team.run(ASSEMBLE_TASK, input, parts.parts, (p) => loop(partSet(parts, p)));
+    } catch {
+      // A cell that fails (a coefficient that is not finite, an inverted cell): assembled again in one pass, which
+      // throws for the first such cell in cell order, as an assembly without the team does.
+      A.values.fill(0); b.fill(0);
+      cellLoop(loopInput, opts.reference)(allCells(mesh.nCells));
+      throw new Error('internal: a shared assembly failed where a serial one did not');
     }
-    if (cvB && bf) {
-      reinitCell(cvB, mesh, c);
-      const { nq, grads, values, wdet, x } = cvB;
-      for (let q = 0; q < nq; q++) {
-        bf(x[3 * q], x[3 * q + 1], x[3 * q + 2], vecB);
-        for (let d = 0; d < dim; d++) checkFinite(vecB[d], `convection b[${d}]`, c, x, q);
-        const w = wdet[q];
-        const o = q * n * dim;
-        for (let j = 0; j < n; j++) {
-          let bg = 0;
-          for (let d = 0; d < dim; d++) bg += vecB[d] * grads[o + j * dim + d];
-          bg *= w;
-          for (let i = 0; i < n; i++) Ke[i * n + j] += values[q * n + i] * bg;
-        }
-      }
-    }
-    if (cvC && cf) {
-      reinitCell(cvC, mesh, c, false);
-      const { nq, values, wdet, x } = cvC;
-      for (let q = 0; q < nq; q++) {
-        const cq = cf(x[3 * q], x[3 * q + 1], x[3 * q + 2]);
-        checkFinite(cq, 'reaction c', c, x, q);
-        const w = wdet[q] * cq;
-        for (let i = 0; i < n; i++) {
-          const wi = w * values[q * n + i];
-          for (let j = 0; j < n; j++) Ke[i * n + j] += wi * values[q * n + j];
-        }
-      }
-    }
-    if (cvF && ff) {
-      reinitCell(cvF, mesh, c, false);
-      const { nq, values, wdet, x } = cvF;
-      for (let q = 0; q < nq; q++) {
-        const fq = ff(x[3 * q], x[3 * q + 1], x[3 * q + 2]);
-        checkFinite(fq, 'source f', c, x, q);
-        const w = wdet[q] * fq;
-        for (let i = 0; i < n; i++) Fe[i] += w * values[q * n + i];
-      }
-    }
-    scatter(c);
-  }
+  } else cellLoop(loopInput, opts.reference)(allCells(mesh.nCells));
 
   // Neumann and Robin facets.
   const boundaryParts: { tags: string[]; g: (x: number, y: number, z: number, nx: number, ny: number, nz: number) => number; alpha?: (x: number, y: number, z: number) => number }[] = [];

@@ -1,26 +1,7 @@
-import type { Csr } from '../../linalg/types.ts';
-import type { Mesh } from '../../mesh/types.ts';
 import { reinitCell, type CellValues } from '../geometry/cellvalues.ts';
 import { checkFinite } from './check-finite.ts';
 import { findEntry } from './sparsity.ts';
-import type { FormCoefficients } from './types.ts';
-
-/** What the cell loop of the scalar assembly needs: the element's values at each term's rule (CellValues made by
- *  the caller; null for an absent term), the coefficients, the global system and the Dirichlet data. */
-export interface TetrahedronLoop {
-  mesh: Mesh;
-  cellDofs: Int32Array;
-  n: number;
-  cvK: CellValues;
-  cvB: CellValues | null;
-  cvC: CellValues | null;
-  cvF: CellValues | null;
-  coef: FormCoefficients;
-  A: Csr;
-  b: Float64Array;
-  reduced: Int32Array;
-  dirichletValues: Float64Array;
-}
+import type { CellLoop, CellLoopInput } from './cell-set.ts';
 
 const vecB = new Float64Array(3);
 
@@ -35,19 +16,23 @@ const vecB = new Float64Array(3);
  * - the coefficient and source values are tested for finiteness inline (the message is built only on failure).
  * The scatter is the general loop's (a sorted walk along each CSR row was measured no faster than the binary
  * search: 6M tetrahedra, 1.8 s either way).
- * Only tetrahedra take this path, so 1D and 2D results are untouched. Nothing is allocated per cell or per point
- * (common practice for hot loops on typed arrays; DEVELOPERS.md, Conventions).
+ * Triangles have their own such path (triangles.ts); the reference loop is general-cells.ts. Nothing is allocated
+ * per cell or per point (common practice for hot loops on typed arrays; DEVELOPERS.md, Conventions). The cells and
+ * rows of one call are a CellSet (cell-set.ts): all of them, or one part of a shared assembly (cell-parts.ts).
  */
-export function assembleTetrahedronCells(p: TetrahedronLoop): void {
+export function tetrahedronCells(p: CellLoopInput): CellLoop {
   const { mesh, cellDofs, n, cvK, cvB, cvC, cvF, coef, A, b, reduced, dirichletValues } = p;
-  const { coords, cells, verticesPerCell: vpc, nCells } = mesh;
+  const { coords, cells, verticesPerCell: vpc } = mesh;
   const kf = coef.k, bf = coef.b, cf = coef.c, ff = coef.f;
   const Ke = new Float64Array(n * n);
   const Fe = new Float64Array(n);
   const rows = new Int32Array(n);
   const J = new Float64Array(9), invJ = new Float64Array(9);
 
-  for (let c = 0; c < nCells; c++) {
+  return ({ c0, c1, halo, h0, h1, owner, part }) => {
+  const own = c1 - c0, total = own + (h1 - h0);
+  for (let at = 0; at < total; at++) {
+    const c = at < own ? c0 + at : halo![h0 + at - own];
     Ke.fill(0); Fe.fill(0);
     // Jacobian J[d·3 + r] = x_{r+1,d} − x_{0,d} and its inverse, as cellJacobian and invert compute them.
     const base = c * vpc;
@@ -137,7 +122,7 @@ export function assembleTetrahedronCells(p: TetrahedronLoop): void {
     for (let i = 0; i < n; i++) rows[i] = reduced[cellDofs[o + i]];
     for (let i = 0; i < n; i++) {
       const r = rows[i];
-      if (r < 0) continue;
+      if (r < 0 || (owner !== null && owner[cellDofs[o + i]] !== part)) continue;
       b[r] += Fe[i];
       for (let j = 0; j < n; j++) {
         const v = Ke[i * n + j];
@@ -148,6 +133,7 @@ export function assembleTetrahedronCells(p: TetrahedronLoop): void {
       }
     }
   }
+  };
 }
 
 /** reinitCell's arithmetic for an affine tetrahedron whose Jacobian J, inverse and determinant are given: weights ×

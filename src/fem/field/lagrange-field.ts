@@ -4,8 +4,23 @@ import type { DiscreteField } from './types.ts';
 import type { ScalarFn } from '../assemble/types.ts';
 import { AFFINE_CELL } from '../../mesh/types.ts';
 
+/** The space and coefficients behind each field lagrangeField made: a worker of the cell team (src/norms/errors.ts)
+ *  rebuilds the same field from them, with the same evaluate, instead of calling a closure it cannot reach. */
+const made = new WeakMap<DiscreteField, { space: FunctionSpace; coeffs: Float64Array }>();
+
+/** The space and coefficients of a field made by lagrangeField, or undefined for any other field. */
+export function lagrangeFieldData(field: DiscreteField): { space: FunctionSpace; coeffs: Float64Array } | undefined {
+  return made.get(field);
+}
+
 /** The finite element function Σ U_i φ_i of a Lagrange space. */
 export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
+  const field = makeField(space, coeffs);
+  made.set(field, { space, coeffs });
+  return field;
+}
+
+function makeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
   const { mesh, element: el, cellDofs } = space;
   const n = el.nDofs, dim = mesh.dim;
   let cachedPoints: Float64Array | null = null;

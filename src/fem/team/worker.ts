@@ -1,0 +1,28 @@
+// A cell-team worker thread: for each job posted by the main thread (team.ts) it imports the job's task module (once
+// per module), rebuilds the task from the job's input and takes parts until none is left, storing DONE (or FAILED,
+// after any error: the main thread then computes that part itself and meets the error there, with its message).
+import { parentPort } from 'node:worker_threads';
+import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
+
+const modules = new Map<string, Promise<TaskModule>>();
+
+parentPort!.on('message', async (job: TeamJob) => {
+  const control = new Int32Array(job.control);
+  let run: ((part: number) => void) | null = null;
+  try {
+    let mod = modules.get(job.task);
+    if (!mod) { mod = import(job.task) as Promise<TaskModule>; modules.set(job.task, mod); }
+    run = (await mod).prepare(job.input);
+  } catch {
+    run = null;
+  }
+  // A worker that could not build the task takes no part: the main thread takes them all.
+  if (!run) return;
+  for (let k = Atomics.add(control, NEXT, 1); k < job.parts; k = Atomics.add(control, NEXT, 1)) {
+    let status = DONE;
+    try { run(k); } catch { status = FAILED; }
+    Atomics.store(control, STATUS + k, status);
+    Atomics.notify(control, STATUS + k);
+    if (status === FAILED) break;
+  }
+});
