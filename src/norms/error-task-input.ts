@@ -1,5 +1,5 @@
 import type { DiscreteField, ExactSolution } from './types.ts';
-import type { ErrorOptions } from './errors.ts';
+import type { ErrorOptions, PerCellErrors } from './errors.ts';
 import { lagrangeFieldData } from '../fem/field/lagrange-field.ts';
 import { lagrangeElement } from '../fem/element/lagrange.ts';
 import { functionText, shared, sharedCopy, sharedFloat64 } from '../fem/team/shared.ts';
@@ -29,7 +29,7 @@ export interface ErrorTaskInput {
  *  standard Lagrange field of lagrangeField, fields on different meshes, or a function that is not a compiled formula
  *  (functionText). Then the main thread integrates every part itself. */
 export function errorTaskInput(
-  fields: DiscreteField[], exact: ExactSolution, opts: ErrorOptions, degree: number, stride: number, start: number, parts: number, perCell: boolean,
+  fields: DiscreteField[], exact: ExactSolution, opts: ErrorOptions, degree: number, stride: number, start: number, parts: number, perCell: PerCellErrors | undefined,
 ): ErrorTaskInput | null {
   const mesh = fields[0].mesh;
   const data = [];
@@ -48,7 +48,8 @@ export function errorTaskInput(
   return {
     mesh: sharedMesh(mesh), fields: data, valueAndGrad, u, grad, k, c, degree, stride, start,
     sums: sharedFloat64(parts * 3 * fields.length),
-    perCellL2: perCell ? sharedFloat64(mesh.nCells) : null,
-    perCellH1: perCell ? sharedFloat64(mesh.nCells) : null,
+    // The caller's arrays themselves when they live in shared memory (perCellArrays), else arrays copied out after.
+    perCellL2: perCell ? (perCell.L2.buffer instanceof SharedArrayBuffer ? perCell.L2 : sharedFloat64(mesh.nCells)) : null,
+    perCellH1: perCell ? (perCell.H1semi.buffer instanceof SharedArrayBuffer ? perCell.H1semi : sharedFloat64(mesh.nCells)) : null,
   };
 }

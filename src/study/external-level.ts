@@ -3,7 +3,7 @@
 // the file's own nodes.
 import { basename, dirname, join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
-import { errorNorms, type ErrorOptions } from '../norms/errors.ts';
+import { errorNorms, type ErrorOptions, perCellArrays } from '../norms/errors.ts';
 import { fieldErrors, type FieldErrorOptions, type FieldNormValues } from '../norms/field-errors.ts';
 import { interpolate, lagrangeField } from '../fem/field/lagrange-field.ts';
 import { interpolateVector, vectorLagrangeField } from '../fem/field/vector-field.ts';
@@ -98,7 +98,7 @@ export function externalLevelResult(level: ExternalLevelRun, opts: ExternalResul
   } else {
     const exact = opts.exact;
     // The errors per cell of the code's own mesh, in the same pass (src/study/where.ts; the totals are the same bits).
-    const perCell = { L2: new Float64Array(out.mesh.nCells), H1semi: new Float64Array(out.mesh.nCells) };
+    const perCell = perCellArrays(out.mesh.nCells);
     const errs: NormValues = errorNorms(out.field, exact, { ...opts.errorOptions, perCell });
     errorCells = { perCell, field: out.field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' }, mesh: out.mesh };
     errors = pick(errs as unknown as Record<string, number>);
@@ -144,7 +144,7 @@ export function systemErrors(
   // Where the first field's error lives (src/study/where.ts), from the same cell sums as its totals (same bits).
   const first = fields[0]!;
   const nCells = first.field.mesh.nCells;
-  const perCell = { L2: new Float64Array(nCells), H1semi: new Float64Array(nCells) };
+  const perCell = perCellArrays(nCells);
   const firstSuffix = sys.lone ? '' : `_${first.name}`;
   const firstExactField = sys.exact[first.name]!;
   const firstExact = (x: number, y: number, z: number, o: Float64Array) => firstExactField.value(x, y, z, o);

@@ -12,7 +12,7 @@ import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { interpolate, lagrangeField } from '../../src/fem/field/lagrange-field.ts';
 import { manufacture } from '../../src/equation/index.ts';
-import { errorNormsOf } from '../../src/norms/errors.ts';
+import { errorNormsOf, perCellArrays } from '../../src/norms/errors.ts';
 import { fieldErrors } from '../../src/norms/field-errors.ts';
 import type { ExactField } from '../../src/norms/types.ts';
 import { vertexValues, writeVtu } from '../../src/external/vtk/write.ts';
@@ -28,7 +28,7 @@ const ih = interpolate(space, ms.u);
 const uh = ih.slice();
 for (let i = 0; i < uh.length; i++) uh[i] += 1e-6 * Math.cos(7 * i / uh.length);
 const fields = [lagrangeField(space, uh), lagrangeField(space, ih)];
-const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+const perCell = perCellArrays(mesh.nCells);
 const opts = { k: ms.k, c: ms.c };
 
 const asField: ExactField = {

@@ -11,6 +11,7 @@ import { DEFAULT_ERROR_FRACTION } from '../algebraic.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
 import { firstComponent, scalarOf, pickNorms, refuseRobin } from './system-common.ts';
+import { perCellArrays } from '../../norms/errors.ts';
 
 /** The displacement form is coercive when μ > 0 and the bulk modulus λ + 2μ/d > 0 (Braess 2007, ch. VI §1; Korn's
  *  inequality). In terms of Poisson's ratio ν = λ / (2(λ + μ)) that is −1 < ν < 1/2: at ν = 1/2 (λ = ∞) the
@@ -71,7 +72,7 @@ export function builtInElasticity(disc: LagrangeDiscretization): LevelDiscretiza
       });
       const t = performance.now();
       const field = vectorLagrangeField(scalar, dim, sol.coefficients);
-      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const perCell = perCellArrays(mesh.nCells);
       const [e, i] = fieldErrors([field, interp], exact, { ...errOpts, perCell });
       const named = (v: typeof e) => ({ L2_u: v.L2, H1semi_u: v.H1semi, H1_u: v.H1, energy: v.energy!, div_u: v.div!, maxNodal_u: v.maxNodal });
       const est = sol.solver.energyErrorEstimate;

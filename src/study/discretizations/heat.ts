@@ -16,6 +16,7 @@ import { systemData } from './system-data.ts';
 import { pickNorms, refuseRobin, scalarOf } from './system-common.ts';
 import { TIME_NORMS } from './system-norms.ts';
 import { timeNormSums } from './time-norms.ts';
+import { perCellArrays } from '../../norms/errors.ts';
 
 /** The norms at one time level, as the study names them. */
 const atTime = (v: FieldNormValues): Record<string, number> => ({ L2: v.L2, H1semi: v.H1semi, H1: v.H1, maxNodal: v.maxNodal });
@@ -83,7 +84,7 @@ export function builtInHeat(disc: LagrangeDiscretization): LevelDiscretization {
       const t1 = performance.now();
       const exactT = exactAt(time.T);
       const uT = scalarOf(exactT.value);
-      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const perCell = perCellArrays(mesh.nCells);
       const uh = lagrangeField(space, run.u);
       const [e, ie] = fieldErrors([uh, lagrangeField(space, interpolate(space, uT))], exactT, { perCell });
       const over = overTime.values();

@@ -1,5 +1,5 @@
 import type { FunctionSpace } from '../../fem/dofmap/types.ts';
-import { errorNormsOf } from '../../norms/errors.ts';
+import { errorNormsOf, perCellArrays } from '../../norms/errors.ts';
 import type { DiscreteField, NormValues } from '../../norms/types.ts';
 import type { Mesh } from '../../mesh/types.ts';
 import type { StudyProblem } from '../problem.ts';
@@ -20,7 +20,7 @@ export function measureField(
   const withInterp = !interp && degree !== undefined && degree > 0;
   const interpField = withInterp ? (interpolant ?? interpolantField(mesh, degree, exact.u, space ?? null)) : null;
   // The errors per cell of the solution, in the same pass (src/study/where.ts; the totals are the same bits).
-  const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+  const perCell = perCellArrays(mesh.nCells);
   const [errs, interpErrs] = errorNormsOf(interpField ? [field, interpField] : [field], exact, { ...errOpts, perCell });
   if (interpErrs) interp = interpErrs;
   const pick = (v: NormValues) => Object.fromEntries(norms.map((nm) => [nm, (v as unknown as Record<string, number>)[nm]]));

@@ -11,6 +11,7 @@ import type { LagrangeDiscretization } from '../declaration.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
 import { firstComponent, pickNorms, refuseRobin, scalarOf } from './system-common.ts';
+import { perCellArrays } from '../../norms/errors.ts';
 
 /** MINRES stops at this relative (preconditioned) residual unless the study says otherwise, as for Stokes: well below
  *  the discretization error of the ladders rungs runs (the residual of an indefinite system is no error estimate). */
@@ -106,7 +107,7 @@ export function builtInMixedElasticity(disc: LagrangeDiscretization): LevelDiscr
       const pScalar = scalarOf(exactP.value);
       const uFields = [vectorLagrangeField(us, dim, sol.displacement), vectorLagrangeField(us, dim, interpolateVector(us, dim, exactU.value))];
       const pFields = [lagrangeField(ps, sol.pressure), lagrangeField(ps, interpolate(ps, pScalar))];
-      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const perCell = perCellArrays(mesh.nCells);
       const uField = uFields[0]!;
       const [eu, iu] = fieldErrors(uFields, exactU, { divergence: true, elasticity: shearEnergyOptions(mu), perCell });
       const [ep, ip] = fieldErrors(pFields, exactP);

@@ -1,7 +1,7 @@
 import { RungsInputError } from '../../errors.ts';
 import { solveNonlinearDiffusion } from '../../fem/discretizations/nonlinear-diffusion.ts';
 import { interpolate, lagrangeField } from '../../fem/field/lagrange-field.ts';
-import { errorNormsOf } from '../../norms/errors.ts';
+import { errorNormsOf, perCellArrays } from '../../norms/errors.ts';
 import type { LagrangeDiscretization } from '../declaration.ts';
 import { DEFAULT_ERROR_FRACTION } from '../algebraic.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
@@ -44,7 +44,7 @@ export function builtInNonlinearDiffusion(disc: LagrangeDiscretization): LevelDi
         solver,
       });
       const t = performance.now();
-      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const perCell = perCellArrays(mesh.nCells);
       const field = lagrangeField(sol.space.fields[0].space.scalar, sol.coefficients);
       const [e] = errorNormsOf([field], exact, { perCell });
       const all = (v: typeof e) => ({ L2: v.L2, H1semi: v.H1semi, H1: v.H1, maxNodal: v.maxNodal });

@@ -7,6 +7,7 @@ import type { LagrangeDiscretization } from '../declaration.ts';
 import { seconds, type LevelDiscretization } from './types.ts';
 import { systemData } from './system-data.ts';
 import { firstComponent, pickNorms, refuseRobin, scalarOf } from './system-common.ts';
+import { perCellArrays } from '../../norms/errors.ts';
 
 /** MINRES stops at this relative residual unless the study says otherwise: well below the discretization error of
  *  the ladders rungs runs (the residual is not an error estimate for an indefinite system, so no tie as for CG). */
@@ -41,7 +42,7 @@ export function builtInStokes(disc: LagrangeDiscretization): LevelDiscretization
       const t = performance.now();
       const vs = sol.space.fields[0].space.scalar, ps = sol.space.fields[1].space.scalar;
       const pScalar = scalarOf(exactP.value);
-      const perCell = { L2: new Float64Array(mesh.nCells), H1semi: new Float64Array(mesh.nCells) };
+      const perCell = perCellArrays(mesh.nCells);
       const uField = vectorLagrangeField(vs, dim, sol.velocity);
       const [eu, iu] = fieldErrors([uField, vectorLagrangeField(vs, dim, interpolateVector(vs, dim, exactU.value))], exactU, { divergence: true, perCell });
       const [ep, ip] = fieldErrors([lagrangeField(ps, sol.pressure), lagrangeField(ps, interpolate(ps, pScalar))], exactP, { meanFree });
