@@ -16,6 +16,7 @@ import { errorNormsOf, perCellArrays } from '../../src/norms/errors.ts';
 import { fieldErrors } from '../../src/norms/field-errors.ts';
 import type { ExactField } from '../../src/norms/types.ts';
 import { vertexValues, writeVtu } from '../../src/external/vtk/write.ts';
+import { printFigure } from './figures.ts';
 
 const TARGET_RATIO = 1.1;
 const n = process.argv.includes('--small') ? 255 : 999;
@@ -52,6 +53,8 @@ function compare(name: string, without: () => void, withCells: () => void): void
     b.push(time(withCells));
   }
   const best = Math.min(...b) / Math.min(...a), med = median(b) / median(a);
+  printFigure({ name: `error densities per cell, ${space.nDofs} P1 unknowns (${name}): with / without`, value: med, unit: '×', target: `≤ ${TARGET_RATIO}`, met: med <= TARGET_RATIO,
+    note: `median of ${rounds} alternating rounds, best ${best.toFixed(3)}; without ${median(a).toFixed(0)} ms` });
   console.log(`${name}: without ${Math.min(...a).toFixed(0)} ms (median ${median(a).toFixed(0)}), with perCell ${Math.min(...b).toFixed(0)} ms ` +
     `(median ${median(b).toFixed(0)}); ratio best ${best.toFixed(3)}, median ${med.toFixed(3)} ${med <= TARGET_RATIO ? '(within' : '(ABOVE'} ${TARGET_RATIO})`);
 }

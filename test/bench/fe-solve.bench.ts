@@ -17,6 +17,7 @@ import { assembleSystem } from '../../src/fem/assemble/system.ts';
 import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
 import { solveSystem } from '../../src/linalg/index.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
+import { printFigure } from './figures.ts';
 
 interface Family { name: string; degree: number; sizes: number[]; contrast: number }
 
@@ -44,6 +45,8 @@ interface Run {
   setup: number; solve: number; iterations: number; to1e9: number; residual: number; stoppedBy: string; oc: number; levels: number;
 }
 
+/** Per family, the best run at each size (smallest size first), for the figures after the table. */
+const bestOf = new Map<string, Array<Run & { unknowns: number; first: number }>>();
 console.log(`AMG-PCG on assembled Lagrange stiffness matrices, relTol 1e-10, best of ${RUNS} runs (setup + solve)`);
 console.log('case              m     unknowns  nnz/row  levels  op.cplx  setup s  solve s  total s  first s  iters  to 1e-9  rel.res   stop');
 for (const fam of families) {
@@ -71,11 +74,31 @@ for (const fam of families) {
       if (!best || run.setup + run.solve < best.setup + best.solve) best = run;
     }
     const b = best!;
+    bestOf.set(fam.name, [...(bestOf.get(fam.name) ?? []), { ...b, unknowns: sys.A.nRows, first }]);
     console.log(
       `${fam.name.padEnd(17)} ${String(m).padEnd(5)} ${String(sys.A.nRows).padEnd(9)} ` +
         `${(sys.A.rowPtr[sys.A.nRows] / sys.A.nRows).toFixed(1).padEnd(8)} ${String(b.levels).padEnd(7)} ${b.oc.toFixed(3).padEnd(8)} ` +
         `${b.setup.toFixed(3).padEnd(8)} ${b.solve.toFixed(3).padEnd(8)} ${(b.setup + b.solve).toFixed(3).padEnd(8)} ${first.toFixed(3).padEnd(8)} ` +
         `${String(b.iterations).padEnd(6)} ${String(b.to1e9).padEnd(8)} ${b.residual.toExponential(2).padEnd(9)} ${b.stoppedBy}`,
     );
+  }
+}
+
+// The README's figures: per family the largest size's setup + solve and iterations, how the iterations grow from
+// the smallest size to the largest (target: flat within ±3), and the checkerboard's iterations against k = 1.
+for (const [name, runs] of bestOf) {
+  const big = runs[runs.length - 1]!, small = runs[0]!;
+  const target = name === 'P1' ? { target: '≤ 1.5 s and ≤ 25 iterations', met: big.setup + big.solve <= 1.5 && big.iterations <= 25 } : {};
+  printFigure({ name: `${name} ${big.unknowns} unknowns, AMG-PCG to 1e-10: setup + solve`, value: big.setup + big.solve, unit: 's', ...target,
+    note: `${big.iterations} iterations, best of ${RUNS}; first solve of the process ${big.first.toFixed(2)} s` });
+  if (runs.length > 1) {
+    const growth = big.iterations - small.iterations;
+    printFigure({ name: `${name} AMG iterations ${small.unknowns} → ${big.unknowns} unknowns: growth`, value: growth, unit: 'iterations', target: 'within ±3', met: Math.abs(growth) <= 3,
+      note: `${runs.map((r) => r.iterations).join(' → ')}` });
+  }
+  const plain = bestOf.get(name.replace('-checkerboard', ''));
+  if (name.endsWith('-checkerboard') && plain) {
+    const same = plain.find((r) => r.unknowns === big.unknowns);
+    if (same) printFigure({ name: `${name.replace('-checkerboard', '')} 1000:1 checkerboard vs k = 1 at ${big.unknowns} unknowns: iterations`, value: big.iterations / same.iterations, unit: '×', target: '≤ 2×', met: big.iterations <= 2 * same.iterations, note: `${big.iterations} vs ${same.iterations}` });
   }
 }

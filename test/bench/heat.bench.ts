@@ -36,6 +36,7 @@ import { execFileSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
 import { fileURLToPath } from 'node:url';
+import { printFigure } from './figures.ts';
 
 const self = fileURLToPath(import.meta.url);
 
@@ -235,6 +236,12 @@ for (const m of sizes) {
     const per = median(later), perCpu = median(row.stepCpu.slice(skip));
     const solvesPerStep = name === 'dirk3' ? 3 : 1;
     const range = `${Math.min(...later).toFixed(3)}–${Math.max(...later).toFixed(3)}`;
+    if (m === sizes[sizes.length - 1]) {
+      const ratio = per / steadySolve;
+      printFigure({ name: `2D P1 heat, ${row.unknowns} unknowns: ${name === 'bdf2' ? 'BDF2' : 'DIRK'} step / steady solve phase`, value: ratio, unit: '×',
+        ...(name === 'bdf2' ? { target: '≤ 1.3', met: ratio <= 1.3 } : {}),
+        note: `step ${per.toFixed(2)} s (median of ${later.length}), solve phase ${steadySolve.toFixed(2)} s, ${(row.iterations / row.solves).toFixed(1)} CG iterations per solve; load ${before.split(' ')[0]}` });
+    }
     console.log(
       `${head} ${''.padEnd(8)} ${f(row.setup)}  ${f(row.stepTimes.slice(0, skip).reduce((a, b) => a + b, 0), 8)}  ${f(per)} (${range.padEnd(11)})        ${f(perCpu, 6)}  ` +
         `${f(1 / per, 7, 2)}  ${f(row.load, 6)}  ${f(row.solve, 6)}  ${f(row.iterations / row.solves, 8, 1)}  ${f(per / steadySolve, 10, 2)}  ${f(perCpu / steadyCpu, 4, 2)}  ` +

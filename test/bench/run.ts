@@ -7,16 +7,28 @@
  * The record goes to --out (default reports/bench-<ISO date>.md) as Markdown: the machine, then per benchmark its
  * command, wall seconds, exit status, load averages and its own printed output, from which the README's performance
  * table is copied with the machine named.
+ * Every benchmark prints its figures as `figure:` lines (figures.ts; systems.bench.ts's table is read instead); at the
+ * end they are gathered into one summary table, one row per figure with its target and the load average around its
+ * benchmark, printed and written at the head of the record as Markdown under a line naming the machine, ready to
+ * paste into the README's performance table. `peers` (rungs against NumPy/SciPy/pyamg scripts, whole processes; it
+ * needs python3 with those) is run by name, not in the quick set.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdirSync, readdirSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, totalmem } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { figureTable, parseFigures, systemsFigures, type FigureRow } from './figures.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 /** The quick set: the kernels, a solve, the error densities and the start-up (minutes, not hours). */
 const QUICK = ['kernels', 'fe-solve', 'error-densities', 'startup'];
+
+/** The machine in one line, for the summary's heading (and the README's table). */
+function machineLine(): string {
+  const c = cpus();
+  return `${c[0]?.model.trim() ?? 'unknown CPU'}, ${c.length} logical cores, ${(totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}`;
+}
 
 function machine(): string[] {
   const c = cpus();
@@ -41,8 +53,12 @@ if (unknown.length) {
 }
 
 const lines = ['# rungs benchmarks', '', ...machine(), ''];
+const headEnd = lines.length;
 process.stdout.write(lines.join('\n') + '\n');
 let failed = 0;
+const figures: FigureRow[] = [];
+const loadRange = [Infinity, -Infinity];
+const started = new Date();
 for (const name of chosen) {
   const before = loadavg()[0]!;
   const t0 = performance.now();
@@ -51,8 +67,20 @@ for (const name of chosen) {
   const wall = (performance.now() - t0) / 1000;
   process.stdout.write(r.stdout ?? '');
   if (r.status !== 0) { failed++; process.stderr.write(r.stderr ?? ''); }
+  const after = loadavg()[0]!;
+  loadRange[0] = Math.min(loadRange[0]!, before, after);
+  loadRange[1] = Math.max(loadRange[1]!, before, after);
+  const found = name === 'systems' ? systemsFigures(r.stdout ?? '') : parseFigures(r.stdout ?? '');
+  for (const figure of found) figures.push({ bench: name, figure, load: `${before.toFixed(2)} → ${after.toFixed(2)}` });
   lines.push(`## ${name}`, '', `\`npx tsx test/bench/${name}.bench.ts\`: ${wall.toFixed(1)} s wall, exit ${r.status ?? r.signal}, load average ${before.toFixed(2)} → ${loadavg()[0]!.toFixed(2)}`, '', '```', (r.stdout ?? '').trimEnd(), '```', '');
 }
+const heading = `Performance (measured ${started.toISOString().slice(0, 10)} with \`npm run bench -- ${chosen.join(' ')}\` on ${machineLine()}; ` +
+  `load average (1 min) ${loadRange[0]!.toFixed(1)}–${loadRange[1]!.toFixed(1)})`;
+const summary = ['## Summary', '', heading, '', ...figureTable(figures), ''];
+if (figures.length === 0) summary.splice(4, summary.length - 4, 'No benchmark printed a figure.', '');
+process.stdout.write(`\n${summary.join('\n')}`);
+// The summary goes right after the machine, before each benchmark's own output.
+lines.splice(headEnd, 0, ...summary);
 mkdirSync(dirname(out), { recursive: true });
 writeFileSync(out, lines.join('\n') + '\n');
 process.stdout.write(`\nrecord written: ${out}${failed ? ` (${failed} benchmark${failed > 1 ? 's' : ''} failed)` : ''}\n`);

@@ -8,6 +8,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { cpSync, mkdirSync, mkdtempSync, rmSync, symlinkSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { printFigure } from './figures.ts';
 
 const rounds = Number(process.argv[2] ?? 9);
 const repo = resolve('.');
@@ -54,5 +55,9 @@ const version = median(times['rungs --version']) - node;
 const run = median(times['rungs run rod-p1']);
 console.log(`rungs --version − node -e 1: ${version.toFixed(0)} ms (target ≤ 200)  ${version <= 200 ? 'met' : 'NOT met'}`);
 console.log(`rungs run rod-p1: ${run.toFixed(0)} ms (target < 1000 on an idle machine)  ${run < 1000 ? 'met' : 'NOT met'}`);
+const fromSource = median(times['from source: rungs run rod-p1']);
+const loads = `load ${load0.toFixed(2)} → ${load1.toFixed(2)}, ${rounds} rounds`;
+printFigure({ name: 'start-up: `rungs --version` above `node -e 1` (installed layout)', value: version, unit: 'ms', target: '≤ 200 ms', met: version <= 200, note: `median; ${loads}` });
+printFigure({ name: '`rungs run` of rod-p1 (installed layout)', value: run, unit: 'ms', target: '< 1000 ms on an idle machine', met: run < 1000, note: `median, min ${min(times['rungs run rod-p1']).toFixed(0)} ms; from the checkout's source ${fromSource.toFixed(0)} ms; ${loads}` });
 if (Math.max(load0, load1) > cpus().length / 2) console.log('note: the machine was busy (load average above half the cores); the wall times are not those of an idle machine');
 rmSync(root, { recursive: true, force: true });
