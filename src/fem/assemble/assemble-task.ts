@@ -6,7 +6,8 @@ import { makeCellValues } from '../geometry/cellvalues.ts';
 import { meshOf } from '../team/mesh.ts';
 import { rebuild } from '../team/shared.ts';
 import { cellLoop } from './cell-loop.ts';
-import { partSet } from './cell-parts.ts';
+import { runPart } from './cell-parts.ts';
+import { deferredBuffer } from './deferred.ts';
 import type { AssembleTaskInput } from './system-team.ts';
 import type { FormCoefficients } from './types.ts';
 
@@ -23,5 +24,6 @@ export function prepare(raw: unknown): (part: number) => void {
     mesh, cellDofs: p.cellDofs, n: el.nDofs, cvK: cv(p.rules.stiffness)!, cvB: cv(p.rules.convection), cvC: cv(p.rules.reaction), cvF: cv(p.rules.load),
     coef, A: { nRows: p.nRows, nCols: p.nRows, rowPtr: p.rowPtr, colIdx: p.colIdx, values: p.values }, b: p.b_, reduced: p.reduced, dirichletValues: p.dirichletValues,
   }, p.reference);
-  return (part) => loop(partSet(p.parts, part));
+  const d = deferredBuffer();
+  return (part) => runPart(loop, p.parts, p.done, part, d, p.values, p.b_);
 }

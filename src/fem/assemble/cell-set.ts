@@ -2,6 +2,7 @@ import type { Csr } from '../../linalg/types.ts';
 import type { Mesh } from '../../mesh/types.ts';
 import type { CellValues } from '../geometry/cellvalues.ts';
 import type { FormCoefficients } from './types.ts';
+import type { Deferred } from './deferred.ts';
 
 /** What the cell loop of the scalar assembly needs: the element's values at each term's rule (CellValues; null for
  *  an absent term), the coefficients, the global system and the Dirichlet data. */
@@ -21,22 +22,21 @@ export interface CellLoopInput {
 }
 
 /**
- * The cells one call of a cell loop assembles: c0 … c1 − 1, then halo[h0 … h1 − 1] (ascending, all after c1), and
- * the rows it may write: with `owner`, only those of global unknowns g with owner[g] = part (the other rows of a halo
- * cell belong to another part); without, every row. Every row receives its cells' entries in ascending cell order
- * either way, as in one pass over all cells, so the sums are the same bits (cell-parts.ts).
+ * The cells one call of a cell loop assembles, c0 … c1 − 1, and the rows it writes: without `owner`, every row;
+ * with it, the rows of global unknowns g with owner[g] = part directly, and the additions to the rows of earlier parts
+ * recorded in `defer` in the order they are made (deferred.ts), to be replayed once those parts are complete
+ * (cell-parts.ts, runPart). Every row then receives its cells' entries in ascending cell order, as in one pass over
+ * all cells: the same sums in the same order, the same bits.
  */
 export interface CellSet {
   c0: number;
   c1: number;
-  halo: Int32Array | null;
-  h0: number;
-  h1: number;
   owner: Int32Array | null;
   part: number;
+  defer: Deferred | null;
 }
 
 /** Every cell, every row: the serial pass. */
-export const allCells = (nCells: number): CellSet => ({ c0: 0, c1: nCells, halo: null, h0: 0, h1: 0, owner: null, part: 0 });
+export const allCells = (nCells: number): CellSet => ({ c0: 0, c1: nCells, owner: null, part: 0, defer: null });
 
 export type CellLoop = (set: CellSet) => void;

@@ -2,6 +2,7 @@ import { reinitCell } from '../geometry/cellvalues.ts';
 import { checkFinite } from './check-finite.ts';
 import { findEntry } from './sparsity.ts';
 import type { CellLoop, CellLoopInput } from './cell-set.ts';
+import { defer, type Deferred } from './deferred.ts';
 
 const vecB = new Float64Array(3);
 
@@ -17,10 +18,8 @@ export function generalCells(p: CellLoopInput): CellLoop {
   const Fe = new Float64Array(n);
   const rows = new Int32Array(n);
   const cols = new Int32Array(n);
-  return ({ c0, c1, halo, h0, h1, owner, part }) => {
-    const own = c1 - c0, total = own + (h1 - h0);
-    for (let at = 0; at < total; at++) {
-      const c = at < own ? c0 + at : halo![h0 + at - own];
+  return ({ c0, c1, owner, part, defer: d }) => {
+    for (let c = c0; c < c1; c++) {
       Ke.fill(0); Fe.fill(0);
       {
         reinitCell(cvK, mesh, c);
@@ -78,21 +77,23 @@ export function generalCells(p: CellLoopInput): CellLoop {
           for (let i = 0; i < n; i++) Fe[i] += w * values[q * n + i];
         }
       }
-      scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, owner, part);
+      scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, owner, part, d);
     }
   };
 }
 
-/** Adds a cell's matrix and vector into the reduced system, Dirichlet columns folded into b; with `owner`, only the
- *  rows of the unknowns that part owns. */
+/** Adds a cell's matrix and vector into the reduced system, Dirichlet columns folded into b; with `owner`, the rows
+ *  of the unknowns that part owns, and the additions to other rows recorded in `d` in the same order (deferred.ts). */
 export function scatterCell(
   c: number, n: number, cellDofs: Int32Array, reduced: Int32Array, dirichletValues: Float64Array, Ke: Float64Array, Fe: Float64Array,
   rows: Int32Array, cols: Int32Array, A: import('../../linalg/types.ts').Csr, b: Float64Array, owner: Int32Array | null, part: number,
+  d: Deferred | null,
 ): void {
   for (let i = 0; i < n; i++) { const g = cellDofs[c * n + i]; rows[i] = reduced[g]; cols[i] = g; }
   for (let i = 0; i < n; i++) {
     const r = rows[i];
-    if (r < 0 || (owner !== null && owner[cols[i]] !== part)) continue;
+    if (r < 0) continue;
+    if (owner !== null && owner[cols[i]] !== part) { deferRow(d!, i, n, r, rows, cols, Ke, Fe, A, dirichletValues); continue; }
     b[r] += Fe[i];
     for (let j = 0; j < n; j++) {
       const v = Ke[i * n + j];
@@ -101,5 +102,21 @@ export function scatterCell(
       if (cr >= 0) A.values[findEntry(A, r, cr)] += v;
       else b[r] -= v * dirichletValues[cols[j]];
     }
+  }
+}
+
+/** Row i of a cell's scatter (row r of the system, owned by an earlier part), recorded instead of made: the same
+ *  additions in the same order, b[r] −= x recorded as the addition of −x (deferred.ts). */
+export function deferRow(
+  d: Deferred, i: number, n: number, r: number, rows: Int32Array, cols: Int32Array, Ke: Float64Array, Fe: Float64Array,
+  A: import('../../linalg/types.ts').Csr, dirichletValues: Float64Array,
+): void {
+  defer(d, -1 - r, Fe[i]);
+  for (let j = 0; j < n; j++) {
+    const v = Ke[i * n + j];
+    if (v === 0) continue;
+    const cr = rows[j];
+    if (cr >= 0) defer(d, findEntry(A, r, cr), v);
+    else defer(d, -1 - r, -(v * dirichletValues[cols[j]]));
   }
 }

@@ -26,6 +26,8 @@ export interface AssembleTaskInput {
   reduced: Int32Array;
   dirichletValues: Float64Array;
   parts: CellParts;
+  /** The parts' completion words (cell-parts.ts, runPart). */
+  done: Int32Array;
   reference: boolean;
 }
 
@@ -39,13 +41,13 @@ export function teamCanAssemble(space: FunctionSpace, coef: FormCoefficients): b
 
 export function assembleTaskInput(
   space: FunctionSpace, coef: FormCoefficients, rules: AssembleTaskInput['rules'], A: Csr, b: Float64Array,
-  reduced: Int32Array, dirichletValues: Float64Array, parts: CellParts, reference: boolean,
+  reduced: Int32Array, dirichletValues: Float64Array, parts: CellParts, done: Int32Array, reference: boolean,
 ): AssembleTaskInput {
   const text = (f: unknown) => (f === undefined ? null : functionText(f));
   return {
     mesh: sharedMesh(space.mesh), degree: space.element.degree, cellDofs: shared(space.cellDofs), rules,
     k: text(coef.k), b: text(coef.b), c: text(coef.c), f: text(coef.f),
     nRows: A.nRows, rowPtr: A.rowPtr, colIdx: A.colIdx, values: A.values, b_: b,
-    reduced: shared(reduced), dirichletValues: shared(dirichletValues), parts, reference,
+    reduced: shared(reduced), dirichletValues: shared(dirichletValues), parts, done, reference,
   };
 }

@@ -11,7 +11,8 @@ import { quadratureDegrees } from './degrees.ts';
 import { buildSparsity, findEntry } from './sparsity.ts';
 import { cellLoop } from './cell-loop.ts';
 import { allCells } from './cell-set.ts';
-import { ASSEMBLY_PART_CELLS, cellParts, partSet } from './cell-parts.ts';
+import { ASSEMBLY_PART_CELLS, cellParts, completionWords, runPart } from './cell-parts.ts';
+import { deferredBuffer } from './deferred.ts';
 import { assembleTaskInput, teamCanAssemble } from './system-team.ts';
 import { cellTeam, taskUrl } from '../team/team.ts';
 import { sharedFloat64 } from '../team/shared.ts';
@@ -108,17 +109,20 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   const cvC = coef.c ? cv('reaction') : null;
   const cvF = coef.f ? cv('load') : null;
 
-  // The cells: on large meshes shared with the cell team's worker threads, part by part, each part writing only the
-  // rows it owns (cell-parts.ts); else in one pass. The same bits either way (test/fem/assemble/shared-assembly.test.ts).
+  // The cells: on large meshes shared with the cell team's worker threads, part by part, each part writing the rows it
+  // owns and replaying its additions to earlier parts' rows once those are complete (cell-parts.ts, runPart); else in
+  // one pass. The same bits either way (test/fem/assemble/shared-assembly.test.ts).
   const loopInput = { mesh, cellDofs, n, cvK, cvB, cvC, cvF, coef, A, b, reduced, dirichletValues };
   if (team) {
     const parts = cellParts(mesh.nCells, n, cellDofs, nDofs, opts.partCells);
     const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
     const rules = { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: rule('load', !!coef.f) };
-    const input = assembleTaskInput(space, coef, rules, A, b, reduced, dirichletValues, parts, opts.reference ?? false);
+    const done = completionWords(parts.parts);
+    const input = assembleTaskInput(space, coef, rules, A, b, reduced, dirichletValues, parts, done, opts.reference ?? false);
     const loop = cellLoop(loopInput, opts.reference);
     try {
-      team.run(ASSEMBLE_TASK, input, parts.parts, (p) => loop(partSet(parts, p)));
+      const d = deferredBuffer();
+      team.run(ASSEMBLE_TASK, input, parts.parts, (p) => runPart(loop, parts, done, p, d, A.values, b));
     } catch {
       // A cell that fails (a coefficient that is not finite, an inverted cell): assembled again in one pass, which
       // throws for the first such cell in cell order, as an assembly without the team does.

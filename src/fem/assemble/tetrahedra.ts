@@ -1,6 +1,7 @@
 import { reinitCell, type CellValues } from '../geometry/cellvalues.ts';
 import { checkFinite } from './check-finite.ts';
 import { findEntry } from './sparsity.ts';
+import { deferRow } from './general-cells.ts';
 import type { CellLoop, CellLoopInput } from './cell-set.ts';
 
 const vecB = new Float64Array(3);
@@ -26,13 +27,11 @@ export function tetrahedronCells(p: CellLoopInput): CellLoop {
   const kf = coef.k, bf = coef.b, cf = coef.c, ff = coef.f;
   const Ke = new Float64Array(n * n);
   const Fe = new Float64Array(n);
-  const rows = new Int32Array(n);
+  const rows = new Int32Array(n), cols = new Int32Array(n);
   const J = new Float64Array(9), invJ = new Float64Array(9);
 
-  return ({ c0, c1, halo, h0, h1, owner, part }) => {
-  const own = c1 - c0, total = own + (h1 - h0);
-  for (let at = 0; at < total; at++) {
-    const c = at < own ? c0 + at : halo![h0 + at - own];
+  return ({ c0, c1, owner, part, defer: d }) => {
+  for (let c = c0; c < c1; c++) {
     Ke.fill(0); Fe.fill(0);
     // Jacobian J[d·3 + r] = x_{r+1,d} − x_{0,d} and its inverse, as cellJacobian and invert compute them.
     const base = c * vpc;
@@ -119,10 +118,11 @@ export function tetrahedronCells(p: CellLoopInput): CellLoop {
 
     // Scatter with Dirichlet columns folded into b, as assembleSystem's scatter.
     const o = c * n;
-    for (let i = 0; i < n; i++) rows[i] = reduced[cellDofs[o + i]];
+    for (let i = 0; i < n; i++) { const g = cellDofs[o + i]; rows[i] = reduced[g]; cols[i] = g; }
     for (let i = 0; i < n; i++) {
       const r = rows[i];
-      if (r < 0 || (owner !== null && owner[cellDofs[o + i]] !== part)) continue;
+      if (r < 0) continue;
+      if (owner !== null && owner[cols[i]] !== part) { deferRow(d!, i, n, r, rows, cols, Ke, Fe, A, dirichletValues); continue; }
       b[r] += Fe[i];
       for (let j = 0; j < n; j++) {
         const v = Ke[i * n + j];

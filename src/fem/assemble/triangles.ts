@@ -25,10 +25,8 @@ export function triangleCells(p: CellLoopInput): CellLoop {
   const Fe = new Float64Array(n);
   const rows = new Int32Array(n), cols = new Int32Array(n);
   const G = new Float64Array(2 * n);
-  return ({ c0, c1, halo, h0, h1, owner, part }) => {
-    const own = c1 - c0, total = own + (h1 - h0);
-    for (let at = 0; at < total; at++) {
-      const c = at < own ? c0 + at : halo![h0 + at - own];
+  return ({ c0, c1, owner, part, defer: d }) => {
+    for (let c = c0; c < c1; c++) {
       Ke.fill(0); Fe.fill(0);
       // J[d·2 + r] = x_{r+1,d} − x_{0,d}, its determinant and inverse, as cellJacobian and invert compute them.
       const base = c * vpc;
@@ -120,7 +118,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
           for (let i = 0; i < n; i++) Fe[i] += w * values[vo + i];
         }
       }
-      scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, owner, part);
+      scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, owner, part, d);
     }
   };
 }
