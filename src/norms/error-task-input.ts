@@ -2,8 +2,8 @@ import type { DiscreteField, ExactSolution } from './types.ts';
 import type { ErrorOptions, PerCellErrors } from './errors.ts';
 import { lagrangeFieldData } from '../fem/field/lagrange-field.ts';
 import { lagrangeElement } from '../fem/element/lagrange.ts';
-import { functionText, shared, sharedCopy, sharedFloat64 } from '../fem/team/shared.ts';
-import { sharedMesh, type SharedMesh } from '../fem/team/mesh.ts';
+import { functionText, sharedCopy, sharedFloat64 } from '../fem/team/shared.ts';
+import { sharedCellDofs, sharedMesh, type SharedMesh } from '../fem/team/mesh.ts';
 
 /** What a worker of the cell team rebuilds an error integration from (error-task.ts): the mesh, each field's
  *  element degree, unknowns per cell and coefficients, the functions as text, the rule's degree and the outputs. */
@@ -38,7 +38,7 @@ export function errorTaskInput(
     if (!d || f.mesh !== mesh || d.space.mesh !== mesh) return null;
     const el = d.space.element;
     try { if (lagrangeElement(mesh.cellKind, el.degree) !== el) return null; } catch { return null; }
-    data.push({ degree: el.degree, nDofs: d.space.nDofs, cellDofs: shared(d.space.cellDofs), coeffs: sharedCopy(d.coeffs) });
+    data.push({ degree: el.degree, nDofs: d.space.nDofs, cellDofs: sharedCellDofs(d.space), coeffs: sharedCopy(d.coeffs) });
   }
   const valueAndGrad = functionText(exact.valueAndGrad);
   const u = valueAndGrad ? null : functionText(exact.u), grad = valueAndGrad ? null : functionText(exact.grad);

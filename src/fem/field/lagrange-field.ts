@@ -3,6 +3,7 @@ import { cellJacobian } from '../geometry/jacobian.ts';
 import type { DiscreteField } from './types.ts';
 import type { ScalarFn } from '../assemble/types.ts';
 import { AFFINE_CELL } from '../../mesh/types.ts';
+import { sharedFloat64, TEAM_MIN_CELLS } from '../team/shared.ts';
 
 /** The space and coefficients behind each field lagrangeField made: a worker of the cell team (src/norms/errors.ts)
  *  rebuilds the same field from them, with the same evaluate, instead of calling a closure it cannot reach. */
@@ -21,7 +22,10 @@ export function lagrangeField(space: FunctionSpace, coeffs: Float64Array): Discr
 }
 
 function makeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
-  const { mesh, element: el, cellDofs } = space;
+  // The space's cellDofs (and the mesh's arrays, which cellJacobian reads) are read at each call, not captured: the
+  // cell team may move them into shared memory meanwhile (src/fem/team/mesh.ts), and a captured array would keep the
+  // private copy alive.
+  const { mesh, element: el } = space;
   const n = el.nDofs, dim = mesh.dim;
   let cachedPoints: Float64Array | null = null;
   let cachedN = -1;
@@ -44,7 +48,7 @@ function makeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
         cachedPoints = refPoints; cachedN = nPoints;
       }
       // Locals, not closure slots, in the hot loop.
-      const tv = tabV, tg = tabG, u = local;
+      const tv = tabV, tg = tabG, u = local, cellDofs = space.cellDofs;
       const o = c * n;
       for (let i = 0; i < n; i++) u[i] = coeffs[cellDofs[o + i]];
       if (dim === 2 && affine) {
@@ -99,11 +103,12 @@ function makeField(space: FunctionSpace, coeffs: Float64Array): DiscreteField {
   };
 }
 
-/** Nodal interpolant I_h u: the coefficient of each dof is u at its node. */
+/** Nodal interpolant I_h u: the coefficient of each dof is u at its node. On meshes the cell team shares, in shared
+ *  memory, where the team's workers read it as it is (no copy per error integration; src/fem/team/shared.ts). */
 export function interpolate(space: FunctionSpace, u: ScalarFn): Float64Array {
   const dim = space.mesh.dim;
   const X = space.dofCoords;
-  const out = new Float64Array(space.nDofs);
+  const out = space.mesh.nCells >= TEAM_MIN_CELLS ? sharedFloat64(space.nDofs) : new Float64Array(space.nDofs);
   for (let g = 0; g < space.nDofs; g++) out[g] = u(X[g * dim], dim > 1 ? X[g * dim + 1] : 0, dim > 2 ? X[g * dim + 2] : 0);
   return out;
 }

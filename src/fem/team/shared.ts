@@ -15,6 +15,12 @@ export function shared<T extends Typed>(a: T): T {
   return b;
 }
 
+/** Meshes of at least this many cells get the vectors the cell team reads (an interpolant's coefficients) allocated
+ *  in shared memory at once, so that shared()/sharedCopy() pass them as they are: the team takes part in the error
+ *  integration from two parts of 32,768 cells on (src/norms/error-cells.ts) and in the assembly from 131,072 cells. A
+ *  smaller mesh's vectors are small; shared memory costs them nothing either, but plain arrays are the default. */
+export const TEAM_MIN_CELLS = 32768;
+
 /** A zeroed array of n numbers in shared memory. */
 export function sharedFloat64(n: number): Float64Array {
   return new Float64Array(new SharedArrayBuffer(8 * n));

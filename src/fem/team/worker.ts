@@ -3,10 +3,19 @@
 // after any error: the main thread then computes that part itself and meets the error there, with its message).
 import { parentPort } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
+import { collectGarbage } from './collect.ts';
 
 const modules = new Map<string, Promise<TaskModule>>();
 
 parentPort!.on('message', async (job: TeamJob) => {
+  await runJob(job);
+  // The job's input held the level's shared arrays (mesh, unknowns per cell, matrix, vectors: 0.3 GB at 1M P1
+  // unknowns); a SharedArrayBuffer's memory is given back only once every thread that received it has collected its
+  // object, and this thread's small heap is rarely collected by itself (collect.ts).
+  collectGarbage();
+});
+
+async function runJob(job: TeamJob): Promise<void> {
   const control = new Int32Array(job.control);
   let run: ((part: number) => void) | null = null;
   try {
@@ -25,4 +34,4 @@ parentPort!.on('message', async (job: TeamJob) => {
     Atomics.notify(control, STATUS + k);
     if (status === FAILED) break;
   }
-});
+}
