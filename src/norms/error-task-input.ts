@@ -1,5 +1,4 @@
-import type { DiscreteField, ExactSolution } from './types.ts';
-import type { ErrorOptions, PerCellErrors } from './errors.ts';
+import type { DiscreteField, ErrorOptions, ExactSolution, PerCellErrors } from './types.ts';
 import { lagrangeFieldData } from '../fem/field/lagrange-field.ts';
 import { lagrangeElement } from '../fem/element/lagrange.ts';
 import { functionText, sharedCopy, sharedFloat64 } from '../fem/team/shared.ts';

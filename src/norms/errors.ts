@@ -1,6 +1,6 @@
 import { ruleFor } from '../fem/quadrature/index.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
-import type { DiscreteField, ExactSolution, NormValues } from './types.ts';
+import type { DiscreteField, ErrorOptions, ExactSolution, NormValues, PerCellErrors } from './types.ts';
 import { RungsInputError } from '../errors.ts';
 import type { CellKind } from '../mesh/types.ts';
 import { cellTeam, taskUrl } from '../fem/team/team.ts';
@@ -34,32 +34,7 @@ export function errorRuleDegree(cellKind: CellKind, k: number): number {
   return 2 * k + (cellKind === 'quadrilateral' || cellKind === 'hexahedron' ? ERROR_RULE_EXTRA_MAPPED : ERROR_RULE_EXTRA);
 }
 
-export interface ErrorOptions {
-  /** Conductivity and reaction for the energy norm sqrt(∫ k|∇e|² + c e²). */
-  k?: ScalarFn;
-  c?: ScalarFn;
-  /** Quadrature degree of the error integrals (default errorRuleDegree: 2·degree + 2 on simplices, + 4 on
-   *  quadrilaterals and hexahedra). */
-  degree?: number;
-  /** Integrate over every stride-th cell only and scale up: an estimate for tolerances, not for reporting. */
-  cellStride?: number;
-  /** Where the error lives: filled with each cell's share of the first field's (the discrete solution's) squared
-   *  norms; see PerCellErrors. Refused together with cellStride > 1. */
-  perCell?: PerCellErrors;
-}
-
-/**
- * Error densities per cell, given by the caller (length mesh.nCells each) and filled by the error integration for
- * the first field only: L2[c] = ∫_K |e|² and H1semi[c] = ∫_K |∇e|² over cell K = c, e = u − u_h, with the same
- * quadrature as the totals. These are the SQUARED contributions (no square root): summed over the cells they give
- * L2² and H1semi² of the totals (to round-off; the totals are summed in their own order and keep their bits).
- * For fields with components (fieldErrors) the sums run over the components as in the totals; for a mean-free field
- * L2[c] is ∫_K |e − ē|² of the second pass (ē the mean error over the domain), H1semi[c] is unaffected by the mean.
- */
-export interface PerCellErrors {
-  L2: Float64Array;
-  H1semi: Float64Array;
-}
+export type { ErrorOptions, PerCellErrors } from './types.ts';
 
 /** Arrays for the errors per cell of a mesh, in shared memory: the cell team's workers write into them directly, so
  *  no second copy of 2 × 8 bytes per cell is made (fresh memory costs 1–3 ms per MB here; at 2M cells the copy
