@@ -47,17 +47,18 @@ export function scalarLagrange(disc: LagrangeDiscretization): LevelDiscretizatio
         const target = tie.target;
         if (target > 0) stopWhen = ({ energyErrorEstimate }) => energyErrorEstimate !== undefined && energyErrorEstimate <= target;
       }
-      const sol = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, space, solver: { ...solver, stopWhen } });
-      const stats = sol.solver;
-      const m = measureField(sol.field, disc.degree, mesh, problem, norms, interp, interpolant ?? undefined, sol.space);
+      // Only the field, the statistics and the times are kept: the assembled system (the matrix, about a quarter of
+      // a level's memory) is left for collection before the errors are integrated (their arrays are allocated then).
+      const { field, space: solSpace, solver: stats, seconds: solSeconds } = solveLagrange({ mesh, degree: disc.degree, coefficients, boundary, quadrature: disc.quadrature, space, solver: { ...solver, stopWhen } });
+      const m = measureField(field, disc.degree, mesh, problem, norms, interp, interpolant ?? undefined, solSpace);
       return {
-        dofs: sol.field.nDofs,
+        dofs: field.nDofs,
         ...m.output,
         solver: stats,
         algebraic: tie && stats?.energyErrorEstimate !== undefined && Number.isFinite(stats.energyErrorEstimate)
           ? { estimate: stats.energyErrorEstimate, target: tie.target, fraction: tie.fraction, floors: tie.floors(stats.energyErrorEstimate) }
           : null,
-        seconds: { assemble: tSpace + sol.seconds.assemble, solve: sol.seconds.solve, errors: m.seconds + tInterp },
+        seconds: { assemble: tSpace + solSeconds.assemble, solve: solSeconds.solve, errors: m.seconds + tInterp },
       };
     },
   };
