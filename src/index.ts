@@ -6,6 +6,9 @@ export type {
 export type { LevelContext } from './study/context.ts';
 export { interval, rectangle, lShape, box, customDomain } from './study/domain.ts';
 export { external } from './external/types.ts';
+// The `scheduler` field of external(): where an external study's levels run (Slurm jobs or local processes) and what
+// each level's job asks for.
+export type { SchedulerSettings, PerLevel } from './scheduler/types.ts';
 // The PDE as data: presets written in the equation language, and the types of a pde of your own.
 export { diffusionConvectionReaction, heat, linearElasticity, nearlyIncompressibleElasticity, nonlinearDiffusion, stokes } from './equation/presets.ts';
 export type { PdeDeclaration, EquationDeclaration, FieldKind, CoefficientValue } from './equation/types.ts';

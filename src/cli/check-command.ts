@@ -1,5 +1,6 @@
 import { existsSync } from 'node:fs';
 import { beginRun, executeStudies, interruptStatus } from './execute.ts';
+import type { SchedulerFlags } from './jobs-lane.ts';
 import { interruptionText } from './run-command.ts';
 import { formatStudyTable } from '../report/terminal.ts';
 import { writeFileAtomic, writeReports } from '../report/write.ts';
@@ -10,7 +11,8 @@ import { failureLines, gateStatus, statusLine, type GateOutcome, type RunError }
 import { RungsInputError } from '../errors.ts';
 import { problemLine, useColor } from './output.ts';
 
-export interface CheckFlags {
+/** With --scheduler, --partition and --cancel-jobs as for `rungs run` (external studies' levels as jobs). */
+export interface CheckFlags extends SchedulerFlags {
   out: string;
   baseline?: string;
   updateBaseline?: boolean;
@@ -71,6 +73,7 @@ async function checkRun(
   const color = useColor(process.stdout);
   const execution = await executeStudies(paths, {
     out: flags.out, quick: flags.quick, levels: flags.levels, jobs: flags.jobs, quiet: true, run, only: flags.study,
+    schedulerFlags: { scheduler: flags.scheduler, partition: flags.partition, cancelJobs: flags.cancelJobs },
     onProblem: (p) => complain(problemLine(p.file, p.message)),
   });
   const { results, problems, incomplete } = execution;

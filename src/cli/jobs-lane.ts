@@ -132,6 +132,8 @@ async function runStudyJobs(p: PreparedStudy, ctx: JobsContext): Promise<void> {
   if (attached.size) {
     const ids = [...attached.values()].map((e) => e.id);
     say(`re-attached to ${sched.name} job${ids.length > 1 ? 's' : ''} ${ids.join(', ')} (level${ids.length > 1 ? 's' : ''} ${[...attached.keys()].map((i) => i + 1).join(', ')})`);
+    // The local scheduler finds the processes of jobs still running (Slurm knows its jobs already).
+    sched.adopt?.([...attached.values()].map((e) => ({ id: e.id, folder: e.folder })));
   }
 
   // Jobs to submit, grouped by resources; each group's folders share a token.

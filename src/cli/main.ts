@@ -41,6 +41,11 @@ function studyPatterns(v: string, previous: string[] = []): string[] {
 const STUDY_HELP = 'only the studies whose name or file name (without .study.ts) matches; * and ? as in the shell, ' +
   'comma-separated or repeated (e.g. --study \'tile-*\' --study rod-p1)';
 
+// The scheduler options, the same for run and check (src/cli/jobs-lane.ts SchedulerFlags).
+const schedulerOption = () => new Option('--scheduler <name>', "run external studies' levels as jobs: slurm (sbatch) or local processes; resources from each study's scheduler field").choices(['slurm', 'local']);
+const PARTITION_HELP = 'with a scheduler: the partition the jobs go to';
+const CANCEL_JOBS_HELP = 'with a scheduler: cancel the jobs when the run is stopped (default: they run on, and --resume collects them)';
+
 const program = new Command();
 program
   .name('rungs')
@@ -63,9 +68,9 @@ program
   .option('--watch', 'run again whenever a study file, or a file its external command names, changes (Ctrl-C to stop)')
   .option('--pdf', 'also print the HTML report to <out>/index.pdf (needs Chromium or Chrome; RUNGS_CHROMIUM names one)')
   .addOption(new Option('--table <format>', 'also print a report table').choices(['md', 'latex']))
-  .addOption(new Option('--scheduler <name>', "run external studies' levels as jobs: slurm (sbatch) or local processes; resources from each study's scheduler field").choices(['slurm', 'local']))
-  .option('--partition <name>', 'with a scheduler: the partition the jobs go to')
-  .option('--cancel-jobs', 'with a scheduler: cancel the jobs when the run is stopped (default: they run on, and --resume collects them)')
+  .addOption(schedulerOption())
+  .option('--partition <name>', PARTITION_HELP)
+  .option('--cancel-jobs', CANCEL_JOBS_HELP)
   .action(async (paths: string[], o) => {
     if (o.watch) {
       const { watchRuns } = await import('./watch.ts');
@@ -91,6 +96,9 @@ program
   .option('--quiet', 'print only failures')
   .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .option('--pdf', 'also print the HTML report to <out>/index.pdf (needs Chromium or Chrome; RUNGS_CHROMIUM names one)')
+  .addOption(schedulerOption())
+  .option('--partition <name>', PARTITION_HELP)
+  .option('--cancel-jobs', CANCEL_JOBS_HELP)
   .action(async (paths: string[], o) => {
     const { checkCommand } = await import('./check-command.ts');
     await studyFilesLoadable();

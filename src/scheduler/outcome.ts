@@ -30,6 +30,12 @@ export function outcomeProblem(o: Outcome, c: OutcomeContext): string | null {
       '(scheduler.partition, .tasks, .memory, .minutes; sinfo -N -l lists the nodes)';
   }
   const e = o.exit;
+  const s = o.state;
+  // Stopped at the scheduler's time limit: said so even when the script, signalled, still wrote its exit status.
+  if (s?.phase === 'timeout' && (!e || e.exit !== 0)) {
+    return `${job} was stopped by ${c.scheduler} at its time limit${c.minutes ? ` of ${c.minutes} min` : ''} (state ${s.word}); ` +
+      `raise scheduler.minutes (or timeoutSeconds, which the time limit follows)${files}${jobOutputNote(c.folder)}`;
+  }
   if (e) {
     if (e.exit === 0) return null;
     if (e.stage === 'errors') {
@@ -41,20 +47,16 @@ export function outcomeProblem(o: Outcome, c: OutcomeContext): string | null {
     }
     return `${job}: the external solver exited with code ${e.exit}${files}${jobOutputNote(c.folder)}`;
   }
-  const s = o.state;
   if (!s) {
     const how = c.scheduler === 'Slurm'
       ? "it was purged from the controller (MinJobAge), lost with the controller's state, or killed before it could write"
-      : 'its process was killed before it could write, or it ran under a rungs that was stopped';
+      : 'its process was killed before it could write, or its folder has no job.pid naming a process that still runs';
     return `${job} is no longer known to ${c.scheduler} and left no record of its end (job.exit) in its folder: ${how}; ` +
       `rungs run --resume submits the level again${files}`;
   }
   switch (s.phase) {
     case 'completed':
       return `${job} completed, but its script left no job.exit: the job folder may not be writable from the compute node${files}`;
-    case 'timeout':
-      return `${job} was stopped by ${c.scheduler} at its time limit${c.minutes ? ` of ${c.minutes} min` : ''} (state ${s.word}); ` +
-        `raise scheduler.minutes (or timeoutSeconds, which the time limit follows)${files}${jobOutputNote(c.folder)}`;
     case 'cancelled':
       return `${job} was cancelled (state ${s.word}: scancel, or an administrator) before the level finished${files}`;
     default: {

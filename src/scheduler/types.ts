@@ -90,6 +90,10 @@ export interface Scheduler {
   submit(group: JobGroup): Promise<string[]>;
   states(ids: readonly string[]): Promise<Map<string, JobState | null>>;
   cancel(ids: readonly string[]): Promise<void>;
+  /** Takes over jobs that an earlier rungs submitted and `rungs run --resume` re-attaches to, before their states are
+   *  asked for. Slurm knows them already and has none; the local scheduler finds each job's process from the
+   *  job.pid in its folder (local.ts). */
+  adopt?(jobs: readonly { id: string; folder: string }[]): void;
   /** Pending reasons that never clear by waiting (Slurm: PartitionConfig, …): such a job is cancelled and its level failed. */
   hopeless(state: JobState): string | null;
 }

@@ -1,6 +1,7 @@
 import { ladderRungs, rungLabel } from './time-ladder.ts';
 import { perturbMesh } from '../mesh/perturb.ts';
 import { checkMesh } from '../mesh/quality.ts';
+import type { Mesh } from '../mesh/types.ts';
 import type { LevelResult } from './result.ts';
 import type { StudyDeclaration } from './declaration.ts';
 import type { StudyProblem } from './problem.ts';
@@ -52,23 +53,29 @@ async function runLevelUnguarded(
   }
   // A level that would not fit in the memory budget is refused before it is meshed (custom domains: once meshed).
   checkLevelMemory(decl, index);
-  let mesh = decl.domain.mesh(n);
+  let mesh: Mesh | null = decl.domain.mesh(n);
   if (decl.domain.kind === 'custom') checkLevelMemory(decl, index, mesh);
   if (decl.domain.kind === 'custom') checkMesh(mesh, `${file}: domain mesh of level ${index + 1}`);
   if (decl.ladder.perturb && decl.ladder.perturb.fraction > 0) {
     mesh = perturbMesh(mesh, { fraction: decl.ladder.perturb.fraction, seed: (decl.ladder.perturb.seed ?? 1) + index });
   }
   const tMesh = seconds(t);
+  const { h, nCells } = mesh;
   const time = decl.time && steps !== null ? { T: decl.time.final, steps, dt: decl.time.final / steps } : undefined;
-  const out = await disc.run({ decl, file, problem, index, n, mesh, time, norms, solver, env });
+  const running = disc.run({ decl, file, problem, index, n, mesh, time, norms, solver, env });
   const external = decl.discretization.kind === 'external';
+  // An external code meshes for itself (its discretization has read h): the mesh is let go while the level waits for
+  // the code, which as a job may take hours with every level of the ladder waiting at once.
+  if (external) mesh = null;
+  const out = await running;
   const tWhere = performance.now();
-  const where = out.errorCells && env.total !== undefined
-    ? recordWhere(out.errorCells.mesh ?? mesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? mesh.h, out: env.errorFiles ? env.out : undefined })
+  const cellsMesh = out.errorCells?.mesh ?? mesh;
+  const where = out.errorCells && cellsMesh && env.total !== undefined
+    ? recordWhere(cellsMesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? h, out: env.errorFiles ? env.out : undefined })
     : {};
   if (out.errorCells) out.seconds.errors += seconds(tWhere);
   return {
-    index, n, h: out.h ?? mesh.h, ...(time ? { steps: time.steps, dt: time.dt } : {}), dofs: out.dofs, cells: out.cells ?? mesh.nCells,
+    index, n, h: out.h ?? h, ...(time ? { steps: time.steps, dt: time.dt } : {}), dofs: out.dofs, cells: out.cells ?? nCells,
     errors: out.errors,
     interpolationErrors: out.interpolationErrors,
     quasiOptimality: out.quasiOptimality ?? null,

@@ -106,6 +106,32 @@ export default defineStudy({
 });
 `;
 
+// An external study whose levels run as cluster jobs, its scheduler settings written against the public types.
+const JOBS_STUDY = `import { defineStudy, interval, external, type PerLevel, type SchedulerSettings } from 'rungs';
+
+const tasks: PerLevel<number> = { finest: 64, scale: 'dofs', min: 1 };
+const cluster: SchedulerSettings = {
+  kind: 'slurm', partition: 'compute', tasks, memory: ['2G', '2G', '8G', 4096], minutes: [5, 5, 10, 30],
+  sbatch: ['--account=kiln'], errors: 'job', onStop: 'keep',
+};
+export default defineStudy({
+  name: 'rod-jobs', description: 'Kiln rod, levels as Slurm jobs.', domain: interval(0, 1), exact: 'sin(x) + x',
+  discretization: external({ command: 'mpirun -n {tasks} ./rod-solver --n {n} --out {out}', output: 'errors', degree: 1, scheduler: cluster }),
+  ladder: { n: [4, 8, 16, 32] }, norms: ['L2', 'H1semi'],
+});
+`;
+
+// Scheduler settings that must not type-check: a scheduler rungs does not have, and a scale that is not one.
+const WRONG_JOBS_STUDY = `import { defineStudy, interval, external, type SchedulerSettings } from 'rungs';
+const cluster: SchedulerSettings = { kind: 'pbs' };
+export default defineStudy({
+  name: 'rod-jobs-wrong', description: 'wrong on purpose', domain: interval(0, 1), exact: 'x',
+  discretization: external({ command: './rod', output: 'errors', scheduler: { kind: 'local', tasks: { finest: 4, scale: 'cells' } } }),
+  ladder: { n: [4, 8] }, norms: ['L2'],
+});
+export { cluster };
+`;
+
 // The same study run serially and on two worker threads of the installed package (the compiled worker entry).
 const PARALLEL_SCRIPT = `import { register } from 'tsx/esm/api';
 const { executeStudies } = await import('./node_modules/rungs/dist/cli/execute.js');
@@ -170,6 +196,24 @@ describe('the packed package installed into another project', () => {
     const bad = run(process.execPath, [TSC, '-p', join(project, 'tsconfig.wrong.json')], project);
     expect(bad.status).not.toBe(0);
     expect(bad.stdout).toMatch(/rod-wrong\.study\.ts\(\d+,\d+\): error TS2322/);
+
+    // The scheduler field of an external study, through the exported SchedulerSettings and PerLevel types.
+    const jobsDir = join(project, 'jobs');
+    mkdirSync(jobsDir);
+    writeFileSync(join(jobsDir, 'rod-jobs.study.ts'), JOBS_STUDY);
+    writeFileSync(join(project, 'tsconfig.jobs.json'), JSON.stringify({ ...tsconfig, include: ['jobs'] }, null, 2));
+    const jobs = run(process.execPath, [TSC, '-p', join(project, 'tsconfig.jobs.json')], project);
+    expect(`${jobs.stdout}${jobs.stderr}`).toBe('');
+    expect(jobs.status).toBe(0);
+    const wrongJobsDir = join(project, 'wrong-jobs');
+    mkdirSync(wrongJobsDir);
+    writeFileSync(join(wrongJobsDir, 'rod-jobs-wrong.study.ts'), WRONG_JOBS_STUDY);
+    writeFileSync(join(project, 'tsconfig.wrong-jobs.json'), JSON.stringify({ ...tsconfig, include: ['wrong-jobs'] }, null, 2));
+    const wrongJobs = run(process.execPath, [TSC, '-p', join(project, 'tsconfig.wrong-jobs.json')], project);
+    expect(wrongJobs.status).not.toBe(0);
+    // One error per mistake: the kind on line 2, the scale on line 5.
+    const lines = [...wrongJobs.stdout.matchAll(/rod-jobs-wrong\.study\.ts\((\d+),\d+\): error TS\d+/g)].map((m) => Number(m[1]));
+    expect([...new Set(lines)].sort((a, b) => a - b)).toEqual([2, 5]);
   });
 
   it('runs the project\'s studies with `npx rungs run`, the study sharing the running rungs', () => {

@@ -4,7 +4,8 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { computed, startRungs, waitFor } from '../cli/kiln-run.ts';
+import { computed, gone, startRungs, waitFor } from '../cli/kiln-run.ts';
+import { readProcessIdentity } from '../../src/scheduler/process-identity.ts';
 
 // The local-process implementation of the scheduler interface (src/scheduler/local.ts) through the same lane as Slurm
 // (src/cli/jobs-lane.ts): same CSV as a plain local run, failures named, and a stopped rungs whose jobs ran on is
@@ -91,5 +92,60 @@ describe('levels as local jobs (the other implementation of the scheduler interf
     expect(again.err).toMatch(/re-attached to local jobs? [^(]*\(levels? [^)]*\b2\b/);
     expect(computed(counter).filter((n) => n === 8)).toHaveLength(1);
     expect(csv(join(out, 'rod-local-keep.csv'))).toHaveLength(5);
+  }, 300_000);
+
+  it('--resume re-attaches to a local job still running under a stopped rungs and waits for it: each level runs once', async () => {
+    const out = join(root, 'attach-out');
+    const counter = join(root, 'attach-counter.txt');
+    const go = join(root, 'attach-go');
+    const study = rodStudy(join(root, 'attach'), 'rod-local-attach', ", scheduler: { kind: 'local' }");
+    const env = { ROD_COUNTER: counter, ROD_WAIT_LEVEL: '2', ROD_GO: go };
+    const r = startRungs(['run', study, '--out', out], env);
+    started.push(r.child);
+    await waitFor('level 2 to start', () => computed(counter).includes(8) || r.child.exitCode !== null);
+    r.child.kill('SIGTERM');
+    const stopped = await r.done;
+    expect(stopped.code, stopped.err).toBe(143);
+    const jobs = JSON.parse(readFileSync(join(out, '.rungs', 'jobs', 'rod-local-attach.json'), 'utf8')).jobs as { index: number; id: string; folder: string; status: string }[];
+    const level2 = jobs.find((j) => j.index === 1)!;
+    expect(level2.status).toBe('submitted');
+    // The job's process, recorded in its folder, runs on after its rungs has gone.
+    expect(readProcessIdentity(level2.folder)).not.toBeNull();
+    const again = startRungs(['run', study, '--out', out, '--resume'], env);
+    started.push(again.child);
+    await waitFor('the resumed run to re-attach', () => /re-attached/.test(again.output()) || again.child.exitCode !== null);
+    // Still running when the resumed run takes it over: only now may it finish.
+    expect(existsSync(join(level2.folder, 'job.exit'))).toBe(false);
+    writeFileSync(go, '');
+    const done = await again.done;
+    expect(done.code, done.err).toBe(0);
+    expect(done.err).toMatch(new RegExp(`re-attached to local jobs? [^(]*\\b${level2.id}\\b[^(]*\\(levels? [^)]*\\b2\\b`));
+    // Every level was computed once: level 2 by the job the stopped run started.
+    expect(computed(counter).sort((a, b) => a - b)).toEqual([4, 8, 16, 32]);
+    expect(csv(join(out, 'rod-local-attach.csv'))).toHaveLength(5);
+  }, 300_000);
+
+  it('rungs check takes --scheduler and --cancel-jobs as rungs run does', async () => {
+    const out = join(root, 'check-out');
+    const counter = join(root, 'check-counter.txt');
+    // No scheduler field: the levels are local jobs because of --scheduler alone.
+    const study = rodStudy(join(root, 'check'), 'rod-check', '');
+    const r = startRungs(['check', study, '--out', out, '--scheduler', 'local', '--cancel-jobs'],
+      { ROD_COUNTER: counter, ROD_WAIT_LEVEL: '3', ROD_GO: join(root, 'never') });
+    started.push(r.child);
+    const file = join(out, '.rungs', 'jobs', 'rod-check.json');
+    const level3 = () => existsSync(file)
+      ? (JSON.parse(readFileSync(file, 'utf8')).jobs as { index: number; folder: string; status: string }[]).find((j) => j.index === 2)
+      : undefined;
+    await waitFor('level 3 to run as a local job', () => (computed(counter).includes(16) && level3()?.status === 'submitted') || r.child.exitCode !== null);
+    const identity = readProcessIdentity(level3()!.folder);
+    expect(identity).not.toBeNull();
+    r.child.kill('SIGINT');
+    const done = await r.done;
+    expect(done.code, done.err).toBe(130);
+    expect(done.out).toMatch(/check stopped \(exit 130\)/);
+    // --cancel-jobs: the job is cancelled (recorded so) and its process is stopped, not left running.
+    expect(level3()?.status).toBe('cancelled');
+    expect(await gone([identity!.pid])).toBe(true);
   }, 300_000);
 });

@@ -3,6 +3,7 @@ import { resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { arrayTaskIds, HOPELESS_REASONS, parseScontrolJobs, scontrolFields } from '../../src/scheduler/scontrol.ts';
 import { slurmScheduler } from '../../src/scheduler/slurm.ts';
+import { outcomeProblem } from '../../src/scheduler/outcome.ts';
 
 // Lines of `scontrol show job -o` recorded from a real cluster (scripts/slurm-local.sh: Slurm 22.05.8 on Debian 12):
 // jobs 4 (completed), 5 (exit 3), 6 (cancelled while running), 7 (an array of tasks 1, 2, 4: first with tasks 2 and 4
@@ -52,6 +53,19 @@ describe('scontrol show job -o', () => {
     expect(slurmScheduler.hopeless(states.get('9')!)).toBe(HOPELESS_REASONS.PartitionConfig);
     expect(slurmScheduler.hopeless(states.get('11')!)).toBe(HOPELESS_REASONS.PartitionNodeLimit);
     expect(slurmScheduler.hopeless(parseScontrolJobs(lines[3]!).get('7_2')!)).toBeNull();
+  });
+
+  it('names a job Slurm stopped at its time limit so, whether or not its signalled script still wrote job.exit', () => {
+    // The recorded job 1: a 1-minute limit, ended TIMEOUT after 1:26 (Reason=TimeLimit).
+    const state = parseScontrolJobs(text).get('1')!;
+    expect(state.word).toBe('TIMEOUT');
+    const context = { scheduler: 'Slurm', folder: '/nonexistent/job', timeoutSeconds: 600, minutes: 1 };
+    const limit = /^Slurm job 1 was stopped by Slurm at its time limit of 1 min \(state TIMEOUT\); raise scheduler\.minutes/;
+    expect(outcomeProblem({ id: '1', state, exit: null }, context)).toMatch(limit);
+    // sh killed by SIGTERM after its solver: 128 + 15 (POSIX sh exit status of a signalled command).
+    expect(outcomeProblem({ id: '1', state, exit: { exit: 143, stage: 'solver', start: 0, end: 60 } }, context)).toMatch(limit);
+    // A script that finished its level just as the limit struck: the level stands.
+    expect(outcomeProblem({ id: '1', state, exit: { exit: 0, stage: 'solver', start: 0, end: 60 } }, context)).toBeNull();
   });
 
   it('skips what is not a job line (scontrol prints nothing else with -o, but a blank line or a message is not a job)', () => {

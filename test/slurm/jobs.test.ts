@@ -7,6 +7,7 @@ import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { computed, startRungs, waitFor } from '../cli/kiln-run.ts';
 import { ensureCluster, jobState } from './cluster.ts';
+import { rodStudy } from './rod-study.ts';
 
 // Levels of external studies as jobs of a real Slurm (a single-node cluster started by scripts/slurm-local.sh). Nothing
 // here depends on the machine's speed: every wait polls with a limit that only catches a hang, the one timeout is a
@@ -18,27 +19,8 @@ const started: ChildProcess[] = [];
 const jobsToCancel: string[] = [];
 
 const LIB = pathToFileURL(resolve('src/index.ts')).href;
-const ROD = resolve('test/slurm/fixtures/rod-solver.mjs');
 const TILE = resolve('examples/external/tile_solver.py');
 const LONG = 600_000;
-
-/** A study file of the kiln rod with the stand-in solver (test/slurm/fixtures/rod-solver.mjs). */
-function rodStudy(dir: string, name: string, extra: string): string {
-  mkdirSync(dir, { recursive: true });
-  writeFileSync(join(dir, 'package.json'), '{ "type": "module" }\n');
-  const file = join(dir, `${name}.study.ts`);
-  writeFileSync(file, [
-    `import { defineStudy, interval, external } from '${LIB}';`,
-    'export default defineStudy({',
-    `  name: '${name}', description: 'A kiln rod (invented data), solved by a stand-in code as jobs.',`,
-    "  domain: interval(0, 1), exact: 'sin(x) + x',",
-    `  discretization: external({ command: [${JSON.stringify(process.execPath)}, ${JSON.stringify(ROD)}], output: 'errors', degree: 1, ${extra} }),`,
-    "  ladder: { n: [4, 8, 16, 32] }, norms: ['L2', 'H1semi'],",
-    '});',
-    '',
-  ].join('\n'));
-  return file;
-}
 
 /** The bundled Python tile study (studies/tile-python.study.ts) on a shorter ladder, with a scheduler field or none. */
 function tileStudy(dir: string, scheduler: string): string {
@@ -201,6 +183,10 @@ describe.skipIf(!cluster.ok)(`levels as Slurm jobs${cluster.ok ? '' : ` (skipped
       const r = await run(['run', study, '--out', join(root, 'part-out'), '--partition', 'kiln-nope']);
       expect(r.code, r.err).toBe(2);
       expect(r.err).toMatch(/sbatch refused levels 1, 2, 3, 4: .*Invalid partition name specified; scheduler\.partition: give a partition the cluster has \(sinfo lists them\), not 'kiln-nope'/);
+      // rungs check takes the same flags.
+      const check = await run(['check', study, '--out', join(root, 'part-check-out'), '--scheduler', 'slurm', '--partition', 'kiln-nope']);
+      expect(check.code, check.err).toBe(2);
+      expect(check.err).toMatch(/sbatch refused levels 1, 2, 3, 4: .*Invalid partition name specified; scheduler\.partition: give a partition the cluster has \(sinfo lists them\), not 'kiln-nope'/);
     }, LONG);
 
     it('resources the cluster cannot grant: refused by sbatch, or pending for ever (cancelled by rungs)', async () => {

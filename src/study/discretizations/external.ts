@@ -6,7 +6,7 @@ import { externalLevelResult, type SeriesMeasure, type SystemMeasure } from '../
 import { fileStem } from '../names.ts';
 import type { StudyDeclaration } from '../declaration.ts';
 import type { StudyProblem } from '../problem.ts';
-import { seconds, type LevelDiscretization } from './types.ts';
+import { seconds, type LevelDiscretization, type LevelInput, type LevelOutput } from './types.ts';
 import { systemData } from './system-data.ts';
 import { TIME_NORMS } from './system-norms.ts';
 
@@ -16,34 +16,41 @@ import { TIME_NORMS } from './system-norms.ts';
 export function externalDiscretization(disc: ExternalDiscretization): LevelDiscretization {
   return {
     label: disc.label ?? 'external code',
-    async run({ decl, file, problem, index, n, mesh, time, norms, env }) {
-      const { exact, coefficients } = problem;
-      const system = disc.output === 'vtk' && !exact && problem.derived ? systemOf(disc, decl, problem, file) : null;
-      let t = performance.now();
-      const input = {
-        study: decl.name, index, n, h: mesh.h, outDir: levelFolder(join(env.out, fileStem(decl.name)), index),
-        norms: [...norms], quantities: decl.quantities, data: env.data, fields: system?.requests, time,
-      };
-      const run = await runExternalLevel(disc, input, env.levelRunner?.(disc, input));
-      const tSolve = seconds(t);
-      t = performance.now();
-      // The norms over time: the code's series of VTK files, one per time level (src/external/output.ts SERIES_FILE).
-      const overTime: SeriesMeasure | undefined = system?.exactAt && time && norms.some((nm) => TIME_NORMS.includes(nm))
-        ? {
-          steps: time.steps, dt: time.dt, exactAt: system.exactAt,
-          read: { level: { study: decl.name, index, n }, degree: disc.degree, fields: system.requests, maxOutputBytes: disc.maxOutputBytes },
-        }
-        : undefined;
-      const { level, quantities, errorCells } = externalLevelResult(run, {
-        index, n, exact: exact ?? undefined, norms, errorOptions: { k: coefficients.k, c: coefficients.c }, symmetric: problem.symmetric,
-        system: system?.measure, overTime,
-      });
-      return {
-        dofs: level.dofs, h: level.h, cells: level.cells, errors: level.errors, interpolationErrors: level.interpolationErrors, quasiOptimality: level.quasiOptimality,
-        solver: level.solver, quantities, errorCells,
-        seconds: { assemble: 0, solve: tSolve, errors: seconds(t) },
-      };
+    // Not async itself: the code meshes for itself and only the level's h is read here, so that the wait for the code
+    // (hours, as a job, every level of the ladder at once) holds no reference to the runner's mesh.
+    run({ mesh, ...rest }) {
+      return runExternal(disc, rest, mesh.h);
     },
+  };
+}
+
+/** One external level, from the level's input without its mesh. */
+async function runExternal(disc: ExternalDiscretization, { decl, file, problem, index, n, time, norms, env }: Omit<LevelInput, 'mesh'>, h: number): Promise<LevelOutput> {
+  const { exact, coefficients } = problem;
+  const system = disc.output === 'vtk' && !exact && problem.derived ? systemOf(disc, decl, problem, file) : null;
+  let t = performance.now();
+  const input = {
+    study: decl.name, index, n, h, outDir: levelFolder(join(env.out, fileStem(decl.name)), index),
+    norms: [...norms], quantities: decl.quantities, data: env.data, fields: system?.requests, time,
+  };
+  const run = await runExternalLevel(disc, input, env.levelRunner?.(disc, input));
+  const tSolve = seconds(t);
+  t = performance.now();
+  // The norms over time: the code's series of VTK files, one per time level (src/external/output.ts SERIES_FILE).
+  const overTime: SeriesMeasure | undefined = system?.exactAt && time && norms.some((nm) => TIME_NORMS.includes(nm))
+    ? {
+      steps: time.steps, dt: time.dt, exactAt: system.exactAt,
+      read: { level: { study: decl.name, index, n }, degree: disc.degree, fields: system.requests, maxOutputBytes: disc.maxOutputBytes },
+    }
+    : undefined;
+  const { level, quantities, errorCells } = externalLevelResult(run, {
+    index, n, exact: exact ?? undefined, norms, errorOptions: { k: coefficients.k, c: coefficients.c }, symmetric: problem.symmetric,
+    system: system?.measure, overTime,
+  });
+  return {
+    dofs: level.dofs, h: level.h, cells: level.cells, errors: level.errors, interpolationErrors: level.interpolationErrors, quasiOptimality: level.quasiOptimality,
+    solver: level.solver, quantities, errorCells,
+    seconds: { assemble: 0, solve: tSolve, errors: seconds(t) },
   };
 }
 
