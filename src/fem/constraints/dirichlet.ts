@@ -3,6 +3,7 @@ import { facetsWithTags } from '../../mesh/tags.ts';
 import { RungsInputError } from '../../errors.ts';
 import { facetClosureDofs } from '../dofmap/dofmap.ts';
 import { locateFacets } from '../geometry/facets.ts';
+import { ROUND_OFF_ENTRY } from '../../linalg/amg/negligible-entries.ts';
 import type { MixedSpace } from '../space/types.ts';
 
 /** Unknowns fixed by Dirichlet data and their values (full length; zero where free). */
@@ -62,6 +63,11 @@ export interface EliminateOptions {
    *  these machines fresh memory costs up to 3 ms per MB on first touch (DEVELOPERS.md), which is most of the cost of
    *  a copy (measured: 23M entries, 1.1–1.8 s as a copy). Same values, same bits. */
   inPlace?: boolean;
+  /** With inPlace: leave out, in the same pass, the entries of the reduced matrix that are exact zeros or the
+   *  round-off of cancelling element contributions, |a_ij| ≤ ROUND_OFF_ENTRY·√(a_ii a_jj) (the rule and its reasons:
+   *  src/linalg/amg/negligible-entries.ts). Nothing is dropped when a diagonal entry of a free unknown is not
+   *  positive. */
+  dropNegligible?: boolean;
 }
 
 /** Dirichlet elimination as its own step after assembly. */
@@ -77,15 +83,28 @@ export function eliminate(A: Csr, b: Float64Array, cons: Constraints, opts: Elim
   const g = cons.values;
   const rb = new Float64Array(m);
   if (opts.inPlace) {
+    const diag = opts.dropNegligible ? positiveDiagonal(A, free) : null;
+    const t2 = ROUND_OFF_ENTRY * ROUND_OFF_ENTRY;
     // One forward pass: row r of the reduced matrix starts at or before row free[r] ≥ r of A, and within a row the
     // write position never passes the read position, so nothing is overwritten before it is read.
     let k = 0;
     for (let r = 0; r < m; r++) {
       const u = free[r];
       let s0 = b[u];
-      for (let s = rp[u]; s < rp[u + 1]; s++) {
-        const col = reduced[ci[s]];
-        if (col >= 0) { ci[k] = col; av[k] = av[s]; k++; } else s0 -= av[s] * g[ci[s]];
+      if (diag) {
+        const du = diag[r];
+        for (let s = rp[u]; s < rp[u + 1]; s++) {
+          const col = reduced[ci[s]];
+          if (col < 0) { s0 -= av[s] * g[ci[s]]; continue; }
+          const v = av[s];
+          if (col !== r && (v === 0 || v * v <= t2 * du * diag[col])) continue;
+          ci[k] = col; av[k] = v; k++;
+        }
+      } else {
+        for (let s = rp[u]; s < rp[u + 1]; s++) {
+          const col = reduced[ci[s]];
+          if (col >= 0) { ci[k] = col; av[k] = av[s]; k++; } else s0 -= av[s] * g[ci[s]];
+        }
       }
       rb[r] = s0;
       rowPtr[r + 1] = k;
@@ -111,6 +130,26 @@ export function eliminate(A: Csr, b: Float64Array, cons: Constraints, opts: Elim
     rb[r] = s0;
   }
   return { A: { nRows: m, nCols: m, rowPtr, colIdx, values }, b: rb, reduced, free, constraints: cons };
+}
+
+/** a_uu of each free unknown u = free[r] at r, or null when one is not positive (or absent). Rows are searched by
+ *  bisection (assembled rows are sorted), then from the start when that misses (a row in any order). */
+function positiveDiagonal(A: Csr, free: Int32Array): Float64Array | null {
+  const { rowPtr, colIdx, values } = A;
+  const diag = new Float64Array(free.length);
+  for (let r = 0; r < free.length; r++) {
+    const u = free[r];
+    let lo = rowPtr[u], hi = rowPtr[u + 1] - 1, at = -1;
+    while (lo <= hi) {
+      const mid = (lo + hi) >> 1, c = colIdx[mid];
+      if (c === u) { at = mid; break; }
+      if (c < u) lo = mid + 1; else hi = mid - 1;
+    }
+    if (at < 0) for (let s = rowPtr[u]; s < rowPtr[u + 1]; s++) if (colIdx[s] === u) { at = s; break; }
+    if (at >= 0) diag[r] = values[at];
+    if (!(diag[r] > 0)) return null;
+  }
+  return diag;
 }
 
 /** The full vector of unknowns from the free ones and the fixed values. */

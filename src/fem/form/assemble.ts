@@ -57,15 +57,24 @@ export function assembleForm(space: MixedSpace, form: Form, opts: AssembleFormOp
   const refill = (cv: CellValues, c: number): void => {
     if (filledFor.get(cv) !== c) { reinitCell(cv, mesh, c); filledFor.set(cv, c); }
   };
+  const { rowPtr, colIdx } = A;
+  const rowEnd = (r: number): number => rowPtr[r + 1];
   const scatter = (c: number, withK: boolean, withF: boolean): void => {
     const o = c * L;
     for (let i = 0; i < L; i++) {
       const r = cellDofs[o + i];
       if (withF) b[r] += Fe[i];
       if (!withK) continue;
+      // Consecutive unknowns of a cell (the components of a node) are usually consecutive entries of the row: the
+      // entry after the previous column's is checked before searching the row.
+      let prevCol = -2, prevAt = -1;
       for (let j = 0; j < L; j++) {
         const v = Ke[i * L + j];
-        if (v !== 0) A.values[findEntry(A, r, cellDofs[o + j])] += v;
+        if (v === 0) continue;
+        const col = cellDofs[o + j];
+        const at = col === prevCol + 1 && prevAt + 1 < rowEnd(r) && colIdx[prevAt + 1] === col ? prevAt + 1 : findEntry(A, r, col);
+        A.values[at] += v;
+        prevCol = col; prevAt = at;
       }
     }
   };

@@ -114,6 +114,11 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
   const output = (z: Float64Array, stage: Float64Array): number => (arena.owns(z) ? z.byteOffset : stage.byteOffset);
   const copyOut = (z: Float64Array, stage: Float64Array): void => { if (!arena.owns(z)) z.set(stage); };
 
+  // CG's products with A and its true residuals run as kernels on a matrix in the arena with A's products: the copy
+  // of A when the finest operator dropped round-off entries, else the finest operator itself (only exact zeros
+  // dropped, which change no product: see FinestOperator.exactProducts).
+  const productMatrix: Csr | undefined = packed.operatorCopy ?? (h.exactProducts ? h.levels[0].A : undefined);
+
   return {
     name: 'amg',
     apply(r: Float64Array, z: Float64Array): void {
@@ -128,17 +133,17 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
         ? k.cgDirection(p.length, beta, z.byteOffset, w.byteOffset, p.byteOffset, q.byteOffset)
         : javascriptCgSteps.direction(beta, z, w, p, q)),
     },
-    ...(packed.operatorCopy ? {
+    ...(productMatrix ? {
       product: {
         matrix: h.operator,
         spmvDot(p: Float64Array, q: Float64Array): number {
-          const C = packed.operatorCopy!;
+          const C = productMatrix;
           return arena.owns(p) && arena.owns(q)
             ? k.spmvDot(C.nRows, C.rowPtr.byteOffset, C.colIdx.byteOffset, C.values.byteOffset, p.byteOffset, q.byteOffset)
             : spmvDot(h.operator, p, q);
         },
         residual(b: Float64Array, x: Float64Array, r: Float64Array): number {
-          const C = packed.operatorCopy!;
+          const C = productMatrix;
           if (arena.owns(x) && arena.owns(r)) {
             // b is the caller's: through the staging vector, which no cycle uses while CG checks its residual.
             k.residual(C.nRows, C.rowPtr.byteOffset, C.colIdx.byteOffset, C.values.byteOffset, input(b, staging.b), x.byteOffset, r.byteOffset);
