@@ -9,7 +9,7 @@ import { closeSync, openSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
-import { processIdentity, readProcessIdentity, stillRunning, writeProcessIdentity, type ProcessIdentity } from './process-identity.ts';
+import { processIdentity, readProcessIdentity, sessionMembers, stillRunning, writeProcessIdentity, type ProcessIdentity } from './process-identity.ts';
 import { STDERR_FILE, STDOUT_FILE } from './script.ts';
 import type { JobSpec, JobState, Scheduler } from './types.ts';
 
@@ -31,10 +31,15 @@ function alive(pid: number): boolean {
   try { process.kill(pid, 0); return true; } catch (err) { return (err as NodeJS.ErrnoException).code === 'EPERM'; }
 }
 
-/** SIGTERM to a job's process group, SIGKILL after 2 s to whatever of it is left. */
+/** SIGTERM to a job's process group and to every process of its session (the solver runs in `timeout`'s own group),
+ *  SIGKILL after 2 s to whatever of them is left. */
 function stopGroup(pid: number): void {
-  try { process.kill(-pid, 'SIGTERM'); } catch { /* gone */ }
-  setTimeout(() => { if (alive(-pid)) try { process.kill(-pid, 'SIGKILL'); } catch { /* gone */ } }, 2000).unref();
+  const signal = (sig: NodeJS.Signals): void => {
+    try { process.kill(-pid, sig); } catch { /* gone */ }
+    for (const member of sessionMembers(pid)) try { process.kill(member, sig); } catch { /* gone */ }
+  };
+  signal('SIGTERM');
+  setTimeout(() => { if (alive(-pid) || sessionMembers(pid).length) signal('SIGKILL'); }, 2000).unref();
 }
 
 /** A scheduler of local processes; job ids are `local-<rungs pid>-<count>`. */

@@ -4,7 +4,7 @@
 // ticks; Linux proc(5)) and the boot it belongs to (/proc/sys/kernel/random/boot_id, since start times restart with
 // every boot). Written to job.pid in the job's folder when the job starts. Without /proc (not Linux) only the pid is
 // known, and a pid reused after the job ended would pass for the job.
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../files/atomic-write.ts';
 
@@ -31,6 +31,25 @@ function procStat(pid: number): { state: string; start: string } | null {
   const state = rest[0];
   const start = rest[19];
   return state && start ? { state, start } : null;
+}
+
+/** The processes of a session (field 6 of /proc/<pid>/stat), other than zombies; empty without /proc. A local job is
+ *  started detached, so its shell leads a session of its own, and everything it starts stays in that session even
+ *  when it makes a process group of its own, as `timeout` does (GNU coreutils: the command runs in timeout's own
+ *  group) — so a job is stopped by its session, not only by its shell's group. */
+export function sessionMembers(sid: number): number[] {
+  if (!HAS_PROC) return [];
+  let entries: string[];
+  try { entries = readdirSync('/proc'); } catch { return []; }
+  const members: number[] = [];
+  for (const e of entries) {
+    if (!/^\d+$/.test(e)) continue;
+    let text: string;
+    try { text = readFileSync(`/proc/${e}/stat`, 'utf8'); } catch { continue; }
+    const rest = text.slice(text.lastIndexOf(')') + 2).split(' ');
+    if (rest[3] === String(sid) && rest[0] !== 'Z' && rest[0] !== 'X') members.push(Number(e));
+  }
+  return members;
 }
 
 function bootId(): string | null {

@@ -5,7 +5,7 @@ import { pathToFileURL } from 'node:url';
 import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { computed, gone, startRungs, waitFor } from '../cli/kiln-run.ts';
-import { readProcessIdentity } from '../../src/scheduler/process-identity.ts';
+import { readProcessIdentity, sessionMembers } from '../../src/scheduler/process-identity.ts';
 
 // The local-process implementation of the scheduler interface (src/scheduler/local.ts) through the same lane as Slurm
 // (src/cli/jobs-lane.ts): same CSV as a plain local run, failures named, and a stopped rungs whose jobs ran on is
@@ -140,6 +140,9 @@ describe('levels as local jobs (the other implementation of the scheduler interf
     await waitFor('level 3 to run as a local job', () => (computed(counter).includes(16) && level3()?.status === 'submitted') || r.child.exitCode !== null);
     const identity = readProcessIdentity(level3()!.folder);
     expect(identity).not.toBeNull();
+    // The job's session holds its shell, timeout (in a process group of its own) and the solver.
+    const session = sessionMembers(identity!.pid);
+    expect(session.length).toBeGreaterThanOrEqual(3);
     r.child.kill('SIGINT');
     const done = await r.done;
     expect(done.code, done.err).toBe(130);
@@ -147,5 +150,7 @@ describe('levels as local jobs (the other implementation of the scheduler interf
     // --cancel-jobs: the job is cancelled (recorded so) and its process is stopped, not left running.
     expect(level3()?.status).toBe('cancelled');
     expect(await gone([identity!.pid])).toBe(true);
+    // Every process of the job is stopped, the solver under timeout's own process group included (Linux proc(5)).
+    expect(await gone(session)).toBe(true);
   }, 300_000);
 });
