@@ -1,11 +1,11 @@
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
-import { pathToFileURL } from 'node:url';
+import { join } from 'node:path';
 import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { computed, gone, startRungs, waitFor } from '../cli/kiln-run.ts';
 import { readProcessIdentity, sessionMembers } from '../../src/scheduler/process-identity.ts';
+import { rodStudy } from '../slurm/rod-study.ts';
 
 // The local-process implementation of the scheduler interface (src/scheduler/local.ts) through the same lane as Slurm
 // (src/cli/jobs-lane.ts): same CSV as a plain local run, failures named, and a stopped rungs whose jobs ran on is
@@ -18,25 +18,6 @@ afterAll(() => {
   if (root) rmSync(root, { recursive: true, force: true });
 });
 
-const LIB = pathToFileURL(resolve('src/index.ts')).href;
-const ROD = resolve('test/slurm/fixtures/rod-solver.mjs');
-
-function rodStudy(dir: string, name: string, extra: string): string {
-  mkdirSync(dir, { recursive: true });
-  writeFileSync(join(dir, 'package.json'), '{ "type": "module" }\n');
-  const file = join(dir, `${name}.study.ts`);
-  writeFileSync(file, [
-    `import { defineStudy, interval, external } from '${LIB}';`,
-    'export default defineStudy({',
-    `  name: '${name}', description: 'A kiln rod (invented data), solved by a stand-in code.',`,
-    "  domain: interval(0, 1), exact: 'sin(x) + x',",
-    `  discretization: external({ command: [${JSON.stringify(process.execPath)}, ${JSON.stringify(ROD)}, '--tasks', '{tasks}'], output: 'errors', degree: 1${extra} }),`,
-    "  ladder: { n: [4, 8, 16, 32] }, norms: ['L2', 'H1semi'],",
-    '});',
-    '',
-  ].join('\n'));
-  return file;
-}
 const csv = (file: string) => readFileSync(file, 'utf8').trim().split('\n').map((l) => l.split(','));
 const TIMED = /^(t_|peak_rss)/;
 const errorColumns = (rows: string[][]) => {
@@ -46,7 +27,7 @@ const errorColumns = (rows: string[][]) => {
 
 describe('levels as local jobs (the other implementation of the scheduler interface)', () => {
   it('gives the CSV of a plain run; {tasks} is the level\'s tasks', async () => {
-    const study = rodStudy(join(root, 'same'), 'rod-same', ", scheduler: { kind: 'local', tasks: [1, 1, 2, 3] }");
+    const study = rodStudy(join(root, 'same'), 'rod-same', "scheduler: { kind: 'local', tasks: [1, 1, 2, 3] }");
     const plain = await startRungs(['run', study, '--out', join(root, 'plain'), '--scheduler', 'local', '--jobs', '1']).done;
     expect(plain.code, plain.err).toBe(0);
     expect(plain.err).toMatch(/rod-same: submitted levels 1, 2 to local as job array/);
@@ -61,7 +42,7 @@ describe('levels as local jobs (the other implementation of the scheduler interf
   }, 300_000);
 
   it('names the level and the job of a failure and keeps the other levels', async () => {
-    const study = rodStudy(join(root, 'fail'), 'rod-local-fail', ", scheduler: { kind: 'local' }");
+    const study = rodStudy(join(root, 'fail'), 'rod-local-fail', "scheduler: { kind: 'local' }");
     const r = startRungs(['run', study, '--out', join(root, 'fail-out')], { ROD_FAIL_LEVEL: '3' });
     started.push(r.child);
     const done = await r.done;
@@ -74,7 +55,7 @@ describe('levels as local jobs (the other implementation of the scheduler interf
     const out = join(root, 'keep-out');
     const counter = join(root, 'keep-counter.txt');
     const go = join(root, 'go');
-    const study = rodStudy(join(root, 'keep'), 'rod-local-keep', ", scheduler: { kind: 'local' }");
+    const study = rodStudy(join(root, 'keep'), 'rod-local-keep', "scheduler: { kind: 'local' }");
     const env = { ROD_COUNTER: counter, ROD_WAIT_LEVEL: '2', ROD_GO: go };
     const r = startRungs(['run', study, '--out', out, '--jobs', '1'], env);
     started.push(r.child);
@@ -98,7 +79,7 @@ describe('levels as local jobs (the other implementation of the scheduler interf
     const out = join(root, 'attach-out');
     const counter = join(root, 'attach-counter.txt');
     const go = join(root, 'attach-go');
-    const study = rodStudy(join(root, 'attach'), 'rod-local-attach', ", scheduler: { kind: 'local' }");
+    const study = rodStudy(join(root, 'attach'), 'rod-local-attach', "scheduler: { kind: 'local' }");
     const env = { ROD_COUNTER: counter, ROD_WAIT_LEVEL: '2', ROD_GO: go };
     const r = startRungs(['run', study, '--out', out], env);
     started.push(r.child);

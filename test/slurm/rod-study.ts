@@ -1,4 +1,4 @@
-// The study file of the kiln rod whose levels the Slurm tests run as jobs, with the stand-in solver
+// The study file of the kiln rod whose levels the scheduler tests (Slurm and local) run as jobs, with the stand-in solver
 // (test/slurm/fixtures/rod-solver.mjs); `extra` adds fields of external(), such as the scheduler.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
@@ -14,9 +14,9 @@ export function rodStudy(dir: string, name: string, extra: string): string {
   writeFileSync(file, [
     `import { defineStudy, interval, external } from '${LIB}';`,
     'export default defineStudy({',
-    `  name: '${name}', description: 'A kiln rod (invented data), solved by a stand-in code as jobs.',`,
+    `  name: '${name}', description: 'A kiln rod (invented data), solved by a stand-in code.',`,
     "  domain: interval(0, 1), exact: 'sin(x) + x',",
-    `  discretization: external({ command: [${JSON.stringify(process.execPath)}, ${JSON.stringify(ROD)}], output: 'errors', degree: 1, ${extra} }),`,
+    `  discretization: external({ command: [${JSON.stringify(process.execPath)}, ${JSON.stringify(ROD)}, '--tasks', '{tasks}'], output: 'errors', degree: 1, ${extra} }),`,
     "  ladder: { n: [4, 8, 16, 32] }, norms: ['L2', 'H1semi'],",
     '});',
     '',
