@@ -239,7 +239,11 @@ async function runStudyJobs(p: PreparedStudy, ctx: JobsContext): Promise<void> {
   let signal: NodeJS.Signals | null = null;
   void ctx.stop?.then((s) => { signal = s; abort.abort(); });
   const watching = watchJobs(sched, out.map(([, o]) => ({ id: o.id!, folder: o.folder })), (o) => outcomes.get(byId.get(o.id)!)!.settle(o), { signal: abort.signal })
-    .catch((err) => { for (const [, o] of out) o.settle(err instanceof Error ? err : new Error(String(err))); });
+    .catch((err) => {
+      // After a stop the jobs are settled below (cancelled or left running), never as failed by a wait that was cut short.
+      if (abort.signal.aborted) return;
+      for (const [, o] of out) o.settle(err instanceof Error ? err : new Error(String(err)));
+    });
 
   const finished = Promise.all(levels.map(async ({ index, promise }) => {
     try {
