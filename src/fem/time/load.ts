@@ -1,9 +1,10 @@
 import { makeCellValues, reinitCell, type CellValues } from '../geometry/cellvalues.ts';
-import { AFFINE_CELL, type CellKind, type Mesh } from '../../mesh/types.ts';
+import { AFFINE_CELL, type Mesh } from '../../mesh/types.ts';
 import { ruleFor } from '../quadrature/index.ts';
 import { lagrangeElement } from '../element/lagrange.ts';
 import type { MixedSpace } from '../space/types.ts';
 import type { LagrangeElement } from '../element/types.ts';
+import type { SharedMesh } from '../team/mesh.ts';
 
 /** A time-dependent source f(x, y, z, t), written into out[0]. */
 export type SourceFn = (x: number, y: number, z: number, t: number, out: Float64Array) => void;
@@ -11,14 +12,7 @@ export type SourceFn = (x: number, y: number, z: number, t: number, out: Float64
 /** Everything the load assembly reads, as numbers, strings and typed arrays only: the main thread builds it from the
  *  space, and a worker thread (load-worker.ts) rebuilds the same assembler from a copy of it, so that both run the
  *  same operations on the same values. */
-export interface LoadGeometry {
-  dim: 1 | 2 | 3;
-  cellKind: CellKind;
-  nVertices: number;
-  nCells: number;
-  verticesPerCell: number;
-  coords: Float64Array;
-  cells: Int32Array;
+export interface LoadGeometry extends Omit<SharedMesh, 'h'> {
   /** The space's unknowns per cell (nCells · L) and where the field's local unknowns start. */
   cellDofs: Int32Array;
   L: number;
