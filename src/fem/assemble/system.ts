@@ -8,8 +8,9 @@ import { facetsWithTags } from '../../mesh/tags.ts';
 import { RungsInputError } from '../../errors.ts';
 import type { BoundarySpec, FormCoefficients, QuadratureDegrees, Term } from './types.ts';
 import { quadratureDegrees } from './degrees.ts';
-import { buildSparsity, findEntry } from './sparsity.ts';
+import { buildSparsity } from './sparsity.ts';
 import { cellLoop } from './cell-loop.ts';
+import { scatterCell } from './general-cells.ts';
 import { allCells } from './cell-set.ts';
 import { ASSEMBLY_PART_CELLS, cellParts, completionWords, runPart } from './cell-parts.ts';
 import { deferredBuffer } from './deferred.ts';
@@ -87,21 +88,9 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   const Fe = new Float64Array(n);
   const rows = new Int32Array(n);
   const cols = new Int32Array(n);
-  const scatter = (c: number): void => {
-    for (let i = 0; i < n; i++) { const g = cellDofs[c * n + i]; rows[i] = reduced[g]; cols[i] = g; }
-    for (let i = 0; i < n; i++) {
-      const r = rows[i];
-      if (r < 0) continue;
-      b[r] += Fe[i];
-      for (let j = 0; j < n; j++) {
-        const v = Ke[i * n + j];
-        if (v === 0) continue;
-        const cr = rows[j];
-        if (cr >= 0) A.values[findEntry(A, r, cr)] += v;
-        else b[r] -= v * dirichletValues[cols[j]];
-      }
-    }
-  };
+  // The serial scatter: every row is this pass's own (no owner, nothing deferred).
+  const scatter = (c: number): void => scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, null, 0, null);
+
 
   const cv = (t: Term): CellValues => makeCellValues(el, ruleFor(mesh.cellKind, Math.max(0, degrees[t])));
   const cvK = cv('stiffness');

@@ -1,7 +1,6 @@
 import { reinitCell, type CellValues } from '../geometry/cellvalues.ts';
 import { checkFinite } from './check-finite.ts';
-import { findEntry } from './sparsity.ts';
-import { deferRow } from './general-cells.ts';
+import { scatterCell } from './general-cells.ts';
 import type { CellLoop, CellLoopInput } from './cell-set.ts';
 
 const vecB = new Float64Array(3);
@@ -116,22 +115,7 @@ export function tetrahedronCells(p: CellLoopInput): CellLoop {
       }
     }
 
-    // Scatter with Dirichlet columns folded into b, as assembleSystem's scatter.
-    const o = c * n;
-    for (let i = 0; i < n; i++) { const g = cellDofs[o + i]; rows[i] = reduced[g]; cols[i] = g; }
-    for (let i = 0; i < n; i++) {
-      const r = rows[i];
-      if (r < 0) continue;
-      if (owner !== null && owner[cols[i]] !== part) { deferRow(d!, i, n, r, rows, cols, Ke, Fe, A, dirichletValues); continue; }
-      b[r] += Fe[i];
-      for (let j = 0; j < n; j++) {
-        const v = Ke[i * n + j];
-        if (v === 0) continue;
-        const cr = rows[j];
-        if (cr >= 0) A.values[findEntry(A, r, cr)] += v;
-        else b[r] -= v * dirichletValues[cellDofs[o + j]];
-      }
-    }
+    scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, owner, part, d);
   }
   };
 }
