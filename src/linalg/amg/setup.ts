@@ -59,9 +59,13 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const symmetric = opts.symmetric ?? isSymmetric(A);
   // Systems (blockSize, nearNullSpace or nodeOf given): aggregates of nodes and a tentative prolongator that carries
   // the near-null space (system.ts). Checked before any arena is reserved; the finest nodes live on the heap.
-  const system = systemOptions(A.nRows, opts);
+  const given = opts.firstCoarseSpace;
+  if (given) checkFirstCoarseSpace(A, given.P);
+  const system = given ? null : systemOptions(A.nRows, opts);
   let nodes = system?.nodes;
   let nearNull = system?.nearNullSpace;
+  /** Whether nodes and nearNull were made by this setup from its allocator (coarse levels), not the caller's. */
+  let ownNodes = false;
 
   const notes: string[] = [];
   const levels: AmgLevel[] = [];
@@ -93,7 +97,19 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     });
     if (onCoarsest) { alloc.free(diag); break; }
 
-    if (nodes && nearNull) {
+    if (l === 0 && given) {
+      // The caller's coarse space: its prolongator as given (copied where the kernels read it), and the system
+      // options of its unknowns for the aggregation below.
+      const nc = given.P.nCols;
+      if (nc === 0 || nc > STALLED_COARSENING * n) {
+        throw new RungsInputError(`amg: firstCoarseSpace has ${nc} coarse unknowns for ${n} fine ones; a coarse space needs between 1 and ${Math.floor(STALLED_COARSENING * n)}`, WHERE);
+      }
+      alloc.free(diag);
+      P = copyCsr(given.P, alloc);
+      const coarseSystem = systemOptions(nc, given);
+      nodes = coarseSystem?.nodes;
+      nearNull = coarseSystem?.nearNullSpace;
+    } else if (nodes && nearNull) {
       const agg = nodeAggregates(current, nodes, theta0 * Math.pow(0.5, l), l === 0, alloc);
       const tent = agg.count > 0 ? tentativeProlongator(nodes, agg, nearNull, alloc) : null;
       alloc.free(agg.aggregateOf);
@@ -110,9 +126,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
       alloc.free(diag);
       alloc.free(tent.P.rowPtr); alloc.free(tent.P.colIdx); alloc.free(tent.P.values);
       // The finest level's nodes and near-null space are the caller's (or on the heap); coarser ones are ours.
-      if (l > 0) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
+      if (ownNodes) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
       nodes = tent.nodes;
       nearNull = tent.B;
+      ownNodes = true;
     } else {
       const graph = strengthGraph(current, diag, theta0 * Math.pow(0.5, l), alloc);
       const agg = aggregate(current, graph, diag, l === 0, alloc);
@@ -138,7 +155,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     current = galerkinProduct(current, P, R, symmetric, alloc);
     alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values);
   }
-  if (nodes && nearNull && levels.length > 1) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
+  if (nodes && nearNull && ownNodes) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
   // A second visit of the coarsest level would add nothing to its exact solve.
   for (let l = FIRST_W_LEVEL; wCycle && l + 2 < levels.length; l++) {
     levels[l].coarseVisits = 2;
@@ -179,6 +196,26 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     },
   };
 }
+
+function checkFirstCoarseSpace(A: Csr, P: Csr): void {
+  if (P.nRows !== A.nRows) {
+    throw new RungsInputError(`amg: firstCoarseSpace.P has ${P.nRows} rows; it must have one per unknown of the matrix (${A.nRows})`, WHERE);
+  }
+  const nnz = P.rowPtr[P.nRows];
+  for (let k = 0; k < nnz; k++) {
+    const j = P.colIdx[k];
+    if (!(j >= 0 && j < P.nCols) || !Number.isFinite(P.values[k])) {
+      throw new RungsInputError(`amg: firstCoarseSpace.P entry ${k} (column ${j}, value ${P.values[k]}) must have a column in [0, ${P.nCols}) and a finite value`, WHERE);
+    }
+  }
+}
+
+const copyCsr = (M: Csr, alloc: Allocator): Csr => {
+  const nnz = M.rowPtr[M.nRows];
+  const rowPtr = alloc.i32(M.nRows + 1, false), colIdx = alloc.i32(Math.max(1, nnz), false), values = alloc.f64(Math.max(1, nnz), false);
+  rowPtr.set(M.rowPtr.subarray(0, M.nRows + 1)); colIdx.set(M.colIdx.subarray(0, nnz)); values.set(M.values.subarray(0, nnz));
+  return { nRows: M.nRows, nCols: M.nCols, rowPtr, colIdx: alloc.shrink(colIdx, nnz), values: alloc.shrink(values, nnz) };
+};
 
 function freeTentative(t: ReturnType<typeof tentativeProlongator>, alloc: Allocator): void {
   alloc.free(t.P.rowPtr); alloc.free(t.P.colIdx); alloc.free(t.P.values);

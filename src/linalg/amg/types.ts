@@ -43,6 +43,21 @@ export interface AmgOptions {
    *  Takes the place of the interleaved numbering; blockSize, when given, bounds the unknowns of a node. Needs
    *  nearNullSpace. */
   nodeOf?: Int32Array;
+  /** A coarse space the caller knows, taken as the first coarsening in place of aggregation on the finest level: its
+   *  prolongator P (fine unknowns × coarse unknowns, used as given, not smoothed) and the system options of the
+   *  coarse space for the aggregation below it (blockSize, nearNullSpace, nodeOf as above, on the coarse unknowns).
+   *  For a Lagrange space of degree k > 1, the degree-1 space on the same mesh (fem/space/vertex-subspace.ts):
+   *  multigrid in the polynomial degree first, then smoothed aggregation on a P1 operator (p-multigrid, Rønquist &
+   *  Patera 1987, Int. J. Numer. Methods Eng. 24, 1795–1812, from memory). With it, the finest level's own system
+   *  options are not used. */
+  firstCoarseSpace?: FirstCoarseSpace;
+}
+
+export interface FirstCoarseSpace {
+  P: Csr;
+  blockSize?: number;
+  nearNullSpace?: Float64Array[];
+  nodeOf?: Int32Array;
 }
 
 /** One level of the hierarchy: its operator, the data of its smoother, the prolongator that carries its unknowns to
