@@ -373,9 +373,9 @@ describe("rungs's own binary .vtu files read back", () => {
   const density = new Float64Array(mesh.nCells).map((_, c) => Math.PI ** -(c % 40));
   density[7] = NaN;
 
-  it('points, cells, point and cell data bit for bit, NaN and its payload, -0 and infinities included; the same as ASCII', () => {
-    const file = join(root, 'tile-binary.vtu');
-    writeVtu(file, { mesh, format: 'binary', pointData: { temperature, 'heat flux': { values: flux, components: 3 } }, cellData: { density } });
+  it.each(['binary', 'raw'] as const)('%s: points, cells, point and cell data bit for bit, NaN and its payload, -0 and infinities included; the same as ASCII', (format) => {
+    const file = join(root, `tile-${format}.vtu`);
+    writeVtu(file, { mesh, format, pointData: { temperature, 'heat flux': { values: flux, components: 3 } }, cellData: { density } });
     for (const chunkBytes of [undefined, 11]) {
       const g = readVtkFile(file, undefined, { chunkBytes });
       const points = new Float64Array(3 * mesh.nVertices);
@@ -390,9 +390,9 @@ describe("rungs's own binary .vtu files read back", () => {
       expect(Buffer.compare(bytesOf(g.cellData[0]!.values), bytesOf(density))).toBe(0);
     }
     // Finite data only: the ASCII file of the same grid reads the same.
-    const asciiFile = join(root, 'tile-ascii.vtu'), binFile = join(root, 'tile-binary-finite.vtu');
+    const asciiFile = join(root, 'tile-ascii.vtu'), binFile = join(root, `tile-${format}-finite.vtu`);
     writeVtu(asciiFile, { mesh, pointData: { temperature }, cellData: { density: density.map((d) => (Number.isNaN(d) ? 0 : d)) } });
-    writeVtu(binFile, { mesh, format: 'binary', pointData: { temperature }, cellData: { density: density.map((d) => (Number.isNaN(d) ? 0 : d)) } });
+    writeVtu(binFile, { mesh, format, pointData: { temperature }, cellData: { density: density.map((d) => (Number.isNaN(d) ? 0 : d)) } });
     expect(gridDiffs(readVtkFile(binFile), readVtkFile(asciiFile))).toEqual([]);
   });
 

@@ -132,7 +132,7 @@ describe('writeVtu, read back with rungs\'s own reader (ASCII)', () => {
       .toThrow(/with components = 3/);
     const nan = new Float64Array(mesh.nCells); nan[5] = NaN;
     expect(() => writeVtu(file, { mesh, cellData: { d: nan } })).toThrow(/holds NaN at index 5.*format: 'binary'/);
-    expect(() => writeVtu(file, { mesh, format: 'base85' as VtuFormat })).toThrow(/format must be 'ascii' or 'binary'/);
+    expect(() => writeVtu(file, { mesh, format: 'base85' as VtuFormat })).toThrow(/format must be 'ascii', 'binary', 'raw', got "base85"/);
     expect(existsSync(file)).toBe(false);
   });
 });
@@ -211,7 +211,7 @@ describe.skipIf(!python)(`writeVtu read by VTK's own reader${python ? '' : ' (sk
   // Measure of each domain (exact: the perturbation keeps boundary vertices on the boundary): interval length 2.2,
   // rectangles 1.5 × 1 and 1 × 2, boxes 1 × 1 × 2 and 1.
   const measure: Record<CellKind, number> = { interval: 2.2, triangle: 1.5, quadrilateral: 2, tetrahedron: 2, hexahedron: 1 };
-  for (const format of ['ascii', 'binary'] as const) {
+  for (const format of ['ascii', 'binary', 'raw'] as const) {
     it(`${format}: every cell kind, counts, types, nodes and values bit for bit, cells tiling the domain`, () => {
       const written = kinds.map((kind) => {
         const mesh = meshes[kind]();
@@ -244,11 +244,11 @@ describe.skipIf(!python)(`writeVtu read by VTK's own reader${python ? '' : ' (sk
     }, 60_000);
   }
 
-  it('binary, a file longer than the writer\'s buffer: read by VTK bit for bit', () => {
+  it.each(['binary', 'raw'] as const)('%s, a file longer than the writer\'s buffer: read by VTK bit for bit', (format) => {
     const mesh = large();
     const { temperature, flux, density } = dataOf(mesh);
-    const file = join(root, 'large-binary.vtu');
-    writeVtu(file, { mesh, format: 'binary', pointData: { temperature, flux }, cellData: { density } });
+    const file = join(root, `large-${format}.vtu`);
+    writeVtu(file, { mesh, format, pointData: { temperature, flux }, cellData: { density } });
     expect(readFileSync(file).length).toBeGreaterThan(4 << 20);
     const r = spawnSync(python!, ['-c', SCRIPT, file], { encoding: 'utf8', maxBuffer: 1 << 28 });
     expect(r.status).toBe(0);
@@ -261,11 +261,11 @@ describe.skipIf(!python)(`writeVtu read by VTK's own reader${python ? '' : ' (sk
     expect(Math.abs(s.measure - 1)).toBeLessThan(1e-12); // the unit square's area
   }, 60_000);
 
-  it('binary keeps NaN and infinities', () => {
+  it.each(['binary', 'raw'] as const)('%s keeps NaN and infinities', (format) => {
     const mesh = meshes.hexahedron();
     const d = new Float64Array(mesh.nCells); d[0] = NaN; d[1] = Infinity; d[2] = -Infinity;
-    const file = join(root, 'nan.vtu');
-    writeVtu(file, { mesh, format: 'binary', cellData: { d } });
+    const file = join(root, `nan-${format}.vtu`);
+    writeVtu(file, { mesh, format, cellData: { d } });
     const script = 'import sys, vtk\nr = vtk.vtkXMLUnstructuredGridReader()\nr.SetFileName(sys.argv[1])\nr.Update()\n' +
       'a = r.GetOutput().GetCellData().GetArray("d")\nprint(" ".join(repr(a.GetValue(i)) for i in range(4)))';
     const r = spawnSync(python!, ['-c', script, file], { encoding: 'utf8' });

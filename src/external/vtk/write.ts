@@ -9,17 +9,20 @@
 // first three vertices seen counter-clockwise from the fourth, hexahedra in VTK_HEXAHEDRON's order). A field of a
 // higher degree goes in as its values at the vertices (`vertexValues`); quadratic VTK cells are not written.
 //
-// Two encodings: 'ascii' (the default, and what rungs's own reader reads back: src/external/vtk/vtu.ts) writes each
-// number in the shortest form that reads back as the same double (ECMAScript Number::toString, which round-trips
-// exactly), so values come back bit for bit; 'binary' writes each DataArray inline as base64 of a UInt64 byte count
-// followed by the raw little- or big-endian bytes of this machine (header_type="UInt64", no compression), smaller
-// and faster to write, and the only way to keep NaN or ±Infinity (refused in ASCII, whose files rungs's own reader
-// must read back: it takes plain decimal numbers only, src/csv/read.ts parseDecimal).
+// Three encodings: 'ascii' (the default) writes each number in the shortest form that reads back as the same double
+// (ECMAScript Number::toString, which round-trips exactly), so values come back bit for bit; 'binary' writes each
+// DataArray inline as base64 of a UInt64 byte count followed by the raw little- or big-endian bytes of this machine
+// (header_type="UInt64", no compression); 'raw' writes the same byte count and bytes without any encoding, one block
+// per DataArray, in <AppendedData encoding="raw"> after the '_' that starts it (each DataArray format="appended"
+// with the byte offset of its block), the smallest and fastest to write. rungs's own reader reads all three
+// (src/external/vtk/vtu.ts). The two binary ones keep NaN and ±Infinity (refused in ASCII, whose numbers rungs's
+// reader takes as plain decimals only, src/csv/read.ts parseDecimal).
 //
 // The file goes to disk a piece at a time through one reused 4 MiB buffer (writeFileAtomicFrom: temporary file,
 // then rename), never whole in memory. Measured on the 1M-unknown P1 level (999² squares in triangles, u_h and u at
 // the vertices, two densities per cell; 2 shared cores AMD EPYC, test/bench/error-densities.bench.ts): ASCII 4.2 s
-// for 230 MB, binary 1.4 s for 152 MB.
+// for 230 MB, binary 1.4 s for 152 MB. Raw against binary on the 2M-cell level of the P1 ladder (u_h, u and the
+// error at the vertices, two densities per cell), same process alternating: see README "Performance".
 import { endianness } from 'node:os';
 import { RungsInputError } from '../../errors.ts';
 import { VTK_CELL_TYPES, vtkCellTypeName } from './cell-types.ts';
@@ -28,7 +31,9 @@ import type { DiscreteField } from '../../fem/field/types.ts';
 import type { CellKind, Mesh } from '../../mesh/types.ts';
 import { writeFileAtomicFrom } from '../../files/atomic-write.ts';
 
-export type VtuFormat = 'ascii' | 'binary';
+/** The encodings writeVtu can write, in one list (the check of the format option and its message read it). */
+export const VTU_FORMATS = ['ascii', 'binary', 'raw'] as const;
+export type VtuFormat = (typeof VTU_FORMATS)[number];
 
 /** A data array: plain values (components = length / count) or values with their number of components given. */
 export type VtuArray = Float64Array | { values: Float64Array; components: number };
@@ -39,7 +44,7 @@ export interface VtuInput {
   pointData?: Record<string, VtuArray>;
   /** Values per cell: nCells × components (an error density is one value per cell). */
   cellData?: Record<string, VtuArray>;
-  /** 'ascii' (default) or 'binary' (inline base64); see the head of this file. */
+  /** 'ascii' (default), 'binary' (inline base64) or 'raw' (appended raw bytes); see the head of this file. */
   format?: VtuFormat;
 }
 
@@ -83,8 +88,8 @@ export function vtuBytes(input: VtuInput): Uint8Array {
 function dataArrays(input: VtuInput): DataArray[] {
   const { mesh } = input;
   const format = input.format ?? 'ascii';
-  if (format !== 'ascii' && format !== 'binary') {
-    throw new RungsInputError(`writeVtu: format must be 'ascii' or 'binary', got ${JSON.stringify(format)}`, 'writeVtu.format');
+  if (!(VTU_FORMATS as readonly string[]).includes(format)) {
+    throw new RungsInputError(`writeVtu: format must be ${VTU_FORMATS.map((f) => `'${f}'`).join(', ')}, got ${JSON.stringify(format)}`, 'writeVtu.format');
   }
   const pointArrays = checkArrays(input.pointData ?? {}, mesh.nVertices, 'pointData', 'vertices (mesh.nVertices)', format);
   const cellArrays = checkArrays(input.cellData ?? {}, mesh.nCells, 'cellData', 'cells (mesh.nCells)', format);
@@ -110,6 +115,7 @@ function writePieces(input: VtuInput, arrays: DataArray[], write: (bytes: Uint8A
   out.text(`<VTKFile type="UnstructuredGrid" version="1.0" byte_order="${byteOrder}" header_type="UInt64">\n<UnstructuredGrid>\n`);
   out.text(`<Piece NumberOfPoints="${mesh.nVertices}" NumberOfCells="${mesh.nCells}">\n`);
   let open = '';
+  let offset = 0;
   for (const a of arrays) {
     if (a.section !== open) {
       if (open) out.text(`</${open}>\n`);
@@ -117,12 +123,25 @@ function writePieces(input: VtuInput, arrays: DataArray[], write: (bytes: Uint8A
       open = a.section;
     }
     const nameAttr = a.name === null ? '' : ` Name="${attributeText(a.name)}"`;
-    out.text(`<DataArray type="${a.type}"${nameAttr} NumberOfComponents="${a.components}" format="${format}">\n`);
+    const head = `<DataArray type="${a.type}"${nameAttr} NumberOfComponents="${a.components}"`;
+    if (format === 'raw') {
+      // The block of this array in the appended data: its UInt64 byte count, then its bytes.
+      out.text(`${head} format="appended" offset="${offset}"/>\n`);
+      offset += 8 + countOf(a) * WIDTH[a.type];
+      continue;
+    }
+    out.text(`${head} format="${format}">\n`);
     if (format === 'ascii') out.ascii(a);
     else out.base64(a);
     out.text('</DataArray>\n');
   }
-  out.text(`</${open}>\n</Piece>\n</UnstructuredGrid>\n</VTKFile>\n`);
+  out.text(`</${open}>\n</Piece>\n</UnstructuredGrid>\n`);
+  if (format === 'raw') {
+    out.text('<AppendedData encoding="raw">\n_');
+    for (const a of arrays) out.raw(a);
+    out.text('\n</AppendedData>\n');
+  }
+  out.text('</VTKFile>\n');
   out.done();
 }
 
@@ -278,11 +297,7 @@ class Out {
       const values = 'values' in a ? a.values : null, at = 'at' in a ? a.at : null;
       for (let i = 0; i < n; i++) {
         if (fill + width > scratch.length) flush(false);
-        const v = values !== null ? values[i] : at!(i);
-        if (width === 1) scratch[fill] = v;
-        else if (width === 4) view.setInt32(fill, v, le);
-        // Int64 from a whole number below 2^53: low and high 32-bit words.
-        else { view.setUint32(fill + (le ? 0 : 4), v % 2 ** 32, le); view.setUint32(fill + (le ? 4 : 0), Math.floor(v / 2 ** 32), le); }
+        writeInteger(view, fill, width, values !== null ? values[i] : at!(i), le);
         fill += width;
       }
     }
@@ -290,9 +305,39 @@ class Out {
     this.text('\n');
   }
 
+  /** One block of raw appended data: the UInt64 byte count, then the values' bytes (this machine's byte order).
+   *  Stored arrays go to `write` as views of their own memory, without a copy; produced ones through the buffer. */
+  raw(a: DataArray): void {
+    const n = countOf(a), width = WIDTH[a.type];
+    const le = endianness() === 'LE';
+    this.room(8);
+    new DataView(this.buf.buffer, this.buf.byteOffset + this.pos, 8).setBigUint64(0, BigInt(n * width), le);
+    this.pos += 8;
+    if ('values' in a && a.type !== 'Int64') {
+      this.flush();
+      this.write(new Uint8Array(a.values.buffer, a.values.byteOffset, n * width));
+      return;
+    }
+    const values = 'values' in a ? a.values : null, at = 'at' in a ? a.at : null;
+    const view = new DataView(this.buf.buffer, this.buf.byteOffset, this.buf.length);
+    for (let i = 0; i < n; i++) {
+      this.room(width);
+      const v = values !== null ? values[i] : at!(i);
+      writeInteger(view, this.pos, width, v, le);
+      this.pos += width;
+    }
+  }
+
   done(): void {
     this.flush();
   }
+}
+
+/** A whole number as UInt8, Int32 or Int64 (below 2^53: low and high 32-bit words) at byte `at` of `view`. */
+function writeInteger(view: DataView, at: number, width: number, v: number, le: boolean): void {
+  if (width === 1) view.setUint8(at, v);
+  else if (width === 4) view.setInt32(at, v, le);
+  else { view.setUint32(at + (le ? 0 : 4), v % 2 ** 32, le); view.setUint32(at + (le ? 4 : 0), Math.floor(v / 2 ** 32), le); }
 }
 
 /** The output buffer, reused by every file: 4 MiB. */
