@@ -3,6 +3,7 @@ import { computeH } from './diameter.ts';
 import { gridPoints } from './grid.ts';
 import { requireCount, requireIndexable, requireRange } from './input-checks.ts';
 import type { Mesh } from './types.ts';
+import { meshFloat64, meshInt32 } from './shared-arrays.ts';
 
 export interface BoxOptions {
   x: readonly [number, number];
@@ -64,7 +65,7 @@ export function boxMesh(options: BoxOptions): Mesh {
   requireIndexable(3 * nVertices, 'coordinates');
 
   const xs = gridPoints(x0, x1, nx), ys = gridPoints(y0, y1, ny), zs = gridPoints(z0, z1, nz);
-  const coords = new Float64Array(3 * nVertices);
+  const coords = meshFloat64(3 * nVertices, nCells);
   for (let k = 0; k <= nz; k++) {
     for (let j = 0; j <= ny; j++) {
       for (let i = 0; i <= nx; i++) {
@@ -77,7 +78,7 @@ export function boxMesh(options: BoxOptions): Mesh {
   }
 
   const step = [sx, sy, sz];
-  const cells = new Int32Array(nCells * verticesPerCell);
+  const cells = meshInt32(nCells * verticesPerCell, nCells);
   let o = 0;
   for (let k = 0; k < nz; k++) {
     for (let j = 0; j < ny; j++) {

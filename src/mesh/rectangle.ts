@@ -4,6 +4,7 @@ import { computeH } from './diameter.ts';
 import { gridPoints, trianglesPerSquare, writeSquareTriangles, type Diagonal } from './grid.ts';
 import { requireCount, requireDiagonal, requireIndexable, requireRange } from './input-checks.ts';
 import type { Mesh } from './types.ts';
+import { meshFloat64, meshInt32 } from './shared-arrays.ts';
 
 export interface RectangleOptions {
   x: readonly [number, number];
@@ -53,7 +54,7 @@ export function rectangleMesh(options: RectangleOptions): Mesh {
 
   const xs = gridPoints(x0, x1, nx);
   const ys = gridPoints(y0, y1, ny);
-  const coords = new Float64Array(2 * nVertices);
+  const coords = meshFloat64(2 * nVertices, nCells);
   for (let j = 0; j <= ny; j++) {
     for (let i = 0; i <= nx; i++) {
       const v = i + j * rowLength;
@@ -71,7 +72,7 @@ export function rectangleMesh(options: RectangleOptions): Mesh {
     }
   }
 
-  const cells = new Int32Array(nCells * verticesPerCell);
+  const cells = meshInt32(nCells * verticesPerCell, nCells);
   let o = 0;
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {

@@ -1,5 +1,7 @@
 /** Moving a level's data to the cell team: typed arrays into shared memory (once per array), functions as text. */
 
+import { SHARED_MIN_CELLS } from '../../mesh/shared-arrays.ts';
+
 type Typed = Float64Array | Int32Array;
 const copies = new WeakMap<Typed, Typed>();
 
@@ -19,7 +21,7 @@ export function shared<T extends Typed>(a: T): T {
  *  in shared memory at once, so that shared()/sharedCopy() pass them as they are: the team takes part in the error
  *  integration from two parts of 32,768 cells on (src/norms/error-cells.ts) and in the assembly from 131,072 cells. A
  *  smaller mesh's vectors are small; shared memory costs them nothing either, but plain arrays are the default. */
-export const TEAM_MIN_CELLS = 32768;
+export const TEAM_MIN_CELLS = SHARED_MIN_CELLS;
 
 /** A zeroed array of n numbers in shared memory. */
 export function sharedFloat64(n: number): Float64Array {
