@@ -42,35 +42,25 @@ export function vertexSubspace(space: FunctionSpace, components: number, kept: I
   const coarseKept = new Int32Array(nc);
   for (let u = 0; u < nV * components; u++) if (coarseOf[u] >= 0) coarseKept[coarseOf[u]] = u;
 
-  // Entries per row: a vertex unknown is itself; any other one takes its node's nonzero degree-1 values at the kept
-  // vertex unknowns of one cell. Counted first, so that the arrays are filled in place.
-  const rowPtr = new Int32Array(kept.length + 1);
-  for (let pass = 0; pass < 2; pass++) {
-    const fill = pass === 1;
-    const colIdx = fill ? new Int32Array(rowPtr[kept.length]) : null;
-    const values = fill ? new Float64Array(rowPtr[kept.length]) : null;
-    let k = 0;
-    for (let r = 0; r < kept.length; r++) {
-      const u = kept[r];
-      const g = Math.floor(u / components), comp = u - g * components;
-      if (g < nV) {
-        if (fill) { colIdx![k] = coarseOf[u]; values![k] = 1; }
-        k++;
-      } else {
-        const at = where[g];
-        const cell = (at / nLoc) | 0, i = at - cell * nLoc;
-        for (let v = 0; v < vpc; v++) {
-          const value = phi[i * vpc + v];
-          const J = coarseOf[mesh.cells[cell * vpc + v] * components + comp];
-          if (Math.abs(value) > ZERO_VALUE && J >= 0) {
-            if (fill) { colIdx![k] = J; values![k] = value; }
-            k++;
-          }
-        }
-      }
-      if (!fill) rowPtr[r + 1] = k;
+  // Entries of row r: a vertex unknown is itself; any other one takes its node's nonzero degree-1 values at the kept
+  // vertex unknowns of one cell. Visited twice: to count them, then to fill the arrays in place.
+  const visitRow = (r: number, visit: (column: number, value: number) => void): void => {
+    const u = kept[r];
+    const g = Math.floor(u / components), comp = u - g * components;
+    if (g < nV) { visit(coarseOf[u], 1); return; }
+    const at = where[g];
+    const cell = (at / nLoc) | 0, i = at - cell * nLoc;
+    for (let v = 0; v < vpc; v++) {
+      const value = phi[i * vpc + v];
+      const J = coarseOf[mesh.cells[cell * vpc + v] * components + comp];
+      if (Math.abs(value) > ZERO_VALUE && J >= 0) visit(J, value);
     }
-    if (fill) return { P: { nRows: kept.length, nCols: nc, rowPtr, colIdx: colIdx!, values: values! }, coarseKept };
-  }
-  throw new Error('internal: unreachable');
+  };
+  const rowPtr = new Int32Array(kept.length + 1);
+  let k = 0;
+  for (let r = 0; r < kept.length; r++) { visitRow(r, () => { k++; }); rowPtr[r + 1] = k; }
+  const colIdx = new Int32Array(k), values = new Float64Array(k);
+  k = 0;
+  for (let r = 0; r < kept.length; r++) visitRow(r, (column, value) => { colIdx[k] = column; values[k++] = value; });
+  return { P: { nRows: kept.length, nCols: nc, rowPtr, colIdx, values }, coarseKept };
 }
