@@ -6,6 +6,7 @@ import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
 import { expandSweeps, judgeSweeps, type SweepVerdict } from '../study/sweep.ts';
 import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
+import { settleBackgroundWrites } from '../files/background-write.ts';
 import type { StudyResult } from '../study/result.ts';
 import type { LevelResult } from '../study/result.ts';
 import { levelsCsv } from '../report/csv.ts';
@@ -288,11 +289,15 @@ export async function executeStudies(paths: string[], opts: ExecuteOptions): Pro
   const incomplete = new Set<string>();
   const notRun: string[] = [];
   for (const p of prepared) {
-    if (broken.has(p)) continue;
+    // The study's error maps were written in the background (src/study/where.ts): settled after its local orders,
+    // which they overlap, and before it counts as done; a failed write fails the study, naming the file.
+    const files = p.env.errorFiles ? join(p.env.out, fileStem(p.loaded.declaration.name)) : null;
+    if (broken.has(p)) { if (files) await settleBackgroundWrites(files).catch(() => undefined); continue; }
     const cut = p.result.levels.length < p.total;
     if (cut && p.result.levels.length === 0) { notRun.push(p.result.study); continue; }
     try {
       const r = completeStudy(p);
+      if (files) await settleBackgroundWrites(files);
       if (cut) incomplete.add(r.study);
       results.push(r);
     } catch (err) {

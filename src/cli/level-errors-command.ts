@@ -7,6 +7,7 @@ import { existsSync, renameSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { RungsInputError } from '../errors.ts';
 import { writeFileAtomic } from '../files/atomic-write.ts';
+import { settleBackgroundWrites } from '../files/background-write.ts';
 import { loadStudy } from '../study/load.ts';
 import { runLevel } from '../study/level.ts';
 import { fileStem } from '../study/names.ts';
@@ -55,6 +56,7 @@ export async function levelErrorsCommand(file: string, flags: LevelErrorsFlags):
         run: async () => ({ argv: [], exitCode: 0, stdout: '', stderr: '', seconds: 0 }),
       }),
     });
+    await settleBackgroundWrites(whereRoot);
     const vtu = join(whereRoot, fileStem(decl.name), `level-${index + 1}`, 'errors.vtu');
     if (existsSync(vtu)) renameSync(vtu, join(flags.folder, 'errors.vtu'));
     rmSync(whereRoot, { recursive: true, force: true });

@@ -8,6 +8,11 @@ import { basename, dirname, join } from 'node:path';
 const TEMP_NAME = /^\.(.+)\.(\d+)\.\d+\.tmp$/;
 let tempCount = 0;
 
+/** A fresh temporary path beside `path` (TEMP_NAME's form), for a write that ends in a rename over `path`. */
+export function tempPathFor(path: string): string {
+  return join(dirname(path), `.${basename(path)}.${process.pid}.${++tempCount}.tmp`);
+}
+
 /**
  * The one way rungs writes a file: the text goes to a temporary file in the same folder, is flushed to disk, and is
  * renamed over the target. rename(2) replaces the target in one step, so a reader (or a run killed at any moment)
@@ -22,7 +27,7 @@ export function writeFileAtomic(path: string, text: string | Uint8Array): void {
  *  `produce` hands each piece to `write`, in order (a piece may be a reused buffer: it is written before `write`
  *  returns). Same temporary file, flush and rename; on failure the temporary file is removed. */
 export function writeFileAtomicFrom(path: string, produce: (write: (bytes: Uint8Array) => void) => void): void {
-  const temp = join(dirname(path), `.${basename(path)}.${process.pid}.${++tempCount}.tmp`);
+  const temp = tempPathFor(path);
   let fd: number | null = null;
   try {
     fd = openSync(temp, 'wx', 0o644);

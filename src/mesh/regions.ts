@@ -76,10 +76,28 @@ export function boundaryStrips(mesh: Mesh, options: StripOptions = {}): Boundary
   return { layers, tagNames: [...mesh.tagNames], strips, own, meets, interior };
 }
 
-/** The absolute measure of every cell. */
+const measured = new WeakMap<Mesh, Float64Array>();
+
+/** The absolute measure of every cell, computed once per mesh (the finest level's are asked for by its regions, its
+ *  error map and the local orders: 2M triangles each time). Shared between callers: read it, never write it. */
 export function cellMeasures(mesh: Mesh): Float64Array {
+  const known = measured.get(mesh);
+  if (known && known.length === mesh.nCells) return known;
   const out = new Float64Array(mesh.nCells);
-  for (let c = 0; c < mesh.nCells; c++) out[c] = Math.abs(signedCellMeasure(mesh, c));
+  if (mesh.cellKind === 'triangle' && mesh.dim === 2) {
+    // signedCellMeasure's shoelace sum for three vertices, unrolled in the same order (so the same bits).
+    const { coords, cells } = mesh;
+    for (let c = 0; c < mesh.nCells; c++) {
+      const a = 2 * cells[3 * c]!, b = 2 * cells[3 * c + 1]!, d = 2 * cells[3 * c + 2]!;
+      const twice = coords[a]! * coords[b + 1]! - coords[b]! * coords[a + 1]!
+        + (coords[b]! * coords[d + 1]! - coords[d]! * coords[b + 1]!)
+        + (coords[d]! * coords[a + 1]! - coords[a]! * coords[d + 1]!);
+      out[c] = Math.abs(twice / 2);
+    }
+  } else {
+    for (let c = 0; c < mesh.nCells; c++) out[c] = Math.abs(signedCellMeasure(mesh, c));
+  }
+  measured.set(mesh, out);
   return out;
 }
 

@@ -2,6 +2,7 @@
 import { loadStudy, type LoadedStudy } from '../study/load.ts';
 import { buildProblem, type StudyProblem } from '../study/problem.ts';
 import { runLevel } from '../study/level.ts';
+import { settleBackgroundWrites } from '../files/background-write.ts';
 import { sweepMember } from '../study/sweep.ts';
 import { solverSettings } from '../study/runner.ts';
 import type { NormName } from '../study/declaration.ts';
@@ -47,6 +48,8 @@ export default async function runLevelTask(task: LevelTask): Promise<LevelReply>
     const { loaded, problem } = await prepared(task.file, task.member);
     const decl = loaded.declaration;
     const level = await runLevel(decl, loaded.file, problem, task.index, task.norms as NormName[], solverSettings(decl), { out: task.out, data: task.data, total: task.total, errorFiles: task.errorFiles });
+    // The level's files are written once it is reported done (the other thread may read them at once).
+    await settleBackgroundWrites();
     return { ok: true, level };
   } catch (err) {
     const e = err as Error;

@@ -11,6 +11,9 @@ import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
 import { recordWhere } from './where.ts';
+import { fileStem } from './names.ts';
+import { settleBackgroundWrites } from '../files/background-write.ts';
+import { join } from 'node:path';
 
 export type { LevelEnvironment } from './discretizations/types.ts';
 
@@ -45,6 +48,9 @@ async function runLevelUnguarded(
   solver: LevelContext['solver'], env: LevelEnvironment,
 ): Promise<LevelResult> {
   const tStart = performance.now();
+  // The previous level's error map, written while this thread went on (src/study/where.ts), is finished before this
+  // level allocates: its arrays are let go before this level's peak of memory.
+  if (env.errorFiles) await settleBackgroundWrites(join(env.out, fileStem(decl.name)));
   const { n, steps } = ladderRungs(decl)[index]!;
   const t = performance.now();
   const disc = levelDiscretization(decl, problem, file);

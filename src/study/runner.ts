@@ -3,6 +3,7 @@ import { addCrossNormReasons, analyseSeries, applyQuasiOptimality, assessQuasiOp
 import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import { analyseRegions } from '../analysis/regions.ts';
+import { settleBackgroundWrites } from '../files/background-write.ts';
 import { localOrderMap, readLevelCellErrors, singularityTest, type LevelCellErrors } from './where.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
@@ -200,7 +201,9 @@ export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Prom
     addLevel(p, level);
     opts.onLevel?.(p.result, level);
   }
-  return completeStudy(p);
+  const result = completeStudy(p);
+  if (p.env.errorFiles) await settleBackgroundWrites(join(p.env.out, fileStem(decl.name)));
+  return result;
 }
 
 function finishAnalysis(

@@ -8,7 +8,7 @@ import { parentCells } from '../mesh/nesting.ts';
 import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts';
 import { localOrders, summarizeLocalOrders } from '../analysis/local-orders.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
-import { writeVtu, vertexValues } from '../external/vtk/write.ts';
+import { writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
 import { readVtkFile } from '../external/vtk/read.ts';
 import { meshFromArrays } from '../mesh/from-arrays.ts';
 import { CELL_DIM, type CellKind } from '../mesh/types.ts';
@@ -130,7 +130,8 @@ function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Arra
 }
 
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s, base64
- *  1.4 s on 2M cells; raw: README "Performance"). */
+ *  1.4 s on 2M cells; raw: README "Performance"). Written in the background (the kernel's copy of 128 MB takes about
+ *  0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on the file. */
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
@@ -145,7 +146,7 @@ function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, ind
   const measure = cellMeasures(mesh);
   const density = (sq: Float64Array) => { const d = new Float64Array(sq.length); for (let c = 0; c < sq.length; c++) d[c] = Math.sqrt(sq[c]! / measure[c]!); return d; };
   const components = uh.length / nv;
-  writeVtu(join(dir, 'errors.vtu'), {
+  writeVtuInBackground(join(dir, 'errors.vtu'), {
     mesh,
     pointData: { u_h: components === 1 ? uh : { values: uh, components }, u: u, error: err },
     cellData: { [`${cells.norms.L2}_density`]: density(cells.perCell.L2), [`${cells.norms.H1semi}_density`]: density(cells.perCell.H1semi) },

@@ -147,12 +147,15 @@ describe('vertexValues', () => {
       const sp = lagrangeSpace(mesh, degree);
       const { dim, coords } = mesh;
       const at = (v: number) => [coords[v * dim], dim > 1 ? coords[v * dim + 1] : 0, dim > 2 ? coords[v * dim + 2] : 0] as const;
-      const scalar = vertexValues(lagrangeField(sp, interpolate(sp, quadratic)));
+      const field = lagrangeField(sp, interpolate(sp, quadratic));
+      // rungs's own field gives its vertex coefficients; any other field (a copy of it is one) is evaluated per cell.
+      const scalar = vertexValues(field);
+      const evaluated = vertexValues({ ...field });
       const vector = vertexValues(vectorLagrangeField(sp, 2, interpolateVector(sp, 2, (x, y, z, out) => { out[0] = quadratic(x, y, z); out[1] = -x; })));
       const bad: string[] = [];
       for (let v = 0; v < mesh.nVertices; v++) {
         const [x, y, z] = at(v);
-        if (Math.abs(scalar[v] - quadratic(x, y, z)) > 1e-13) bad.push(`scalar ${v}`);
+        if (Math.abs(scalar[v] - quadratic(x, y, z)) > 1e-13 || Math.abs(evaluated[v] - scalar[v]) > 1e-13) bad.push(`scalar ${v}`);
         if (Math.abs(vector[2 * v] - quadratic(x, y, z)) > 1e-13 || Math.abs(vector[2 * v + 1] + x) > 1e-13) bad.push(`vector ${v}`);
       }
       expect([scalar.length, vector.length]).toEqual([mesh.nVertices, 2 * mesh.nVertices]);

@@ -28,8 +28,10 @@ import { RungsInputError } from '../../errors.ts';
 import { VTK_CELL_TYPES, vtkCellTypeName } from './cell-types.ts';
 import { REFERENCE_VERTICES } from '../../fem/element/nodes.ts';
 import type { DiscreteField } from '../../fem/field/types.ts';
+import { lagrangeFieldData } from '../../fem/field/lagrange-field.ts';
 import type { CellKind, Mesh } from '../../mesh/types.ts';
 import { writeFileAtomicFrom } from '../../files/atomic-write.ts';
+import { writeFileAtomicInBackground } from '../../files/background-write.ts';
 
 /** The encodings writeVtu can write, in one list (the check of the format option and its message read it). */
 export const VTU_FORMATS = ['ascii', 'binary', 'raw'] as const;
@@ -74,6 +76,17 @@ export const VTU_CELL_TYPE: Readonly<Record<CellKind, number>> = Object.freeze({
 export function writeVtu(path: string, input: VtuInput): void {
   const arrays = dataArrays(input);
   writeFileAtomicFrom(path, (write) => writePieces(input, arrays, write));
+}
+
+/** writeVtu's file, written while the caller goes on (src/files/background-write.ts): the same bytes, checked the same
+ *  way before this returns. The input's arrays go to the file system as they are (with the 'raw' format, most of the
+ *  file), so they must not change until the caller has settled the write (settleBackgroundWrites); the pieces made
+ *  through the reused buffer are copied. */
+export function writeVtuInBackground(path: string, input: VtuInput): void {
+  const arrays = dataArrays(input);
+  const pieces: Uint8Array[] = [];
+  writePieces(input, arrays, (bytes) => pieces.push(bytes.buffer === CHUNK.buffer ? Uint8Array.from(bytes) : bytes));
+  writeFileAtomicInBackground(path, pieces);
 }
 
 /** The bytes of the .vtu file writeVtu writes, in memory. */
@@ -151,6 +164,11 @@ function writePieces(input: VtuInput, arrays: DataArray[], write: (bytes: Uint8A
 export function vertexValues(field: DiscreteField): Float64Array {
   const { mesh } = field;
   const nc = field.components ?? 1, vpc = mesh.verticesPerCell, dim = mesh.dim;
+  // A Lagrange field of rungs's own numbers its vertex unknowns first, unknown v at vertex v (src/fem/dofmap/
+  // dofmap.ts), and a nodal basis takes its coefficient there: the values are its first nVertices coefficients (the
+  // field's own value, where evaluating the basis at the reference vertex may be an ulp off for degree ≥ 2).
+  const lagrange = lagrangeFieldData(field);
+  if (lagrange && nc === 1 && lagrange.space.mesh === mesh) return lagrange.coeffs.slice(0, mesh.nVertices);
   const ref = new Float64Array(REFERENCE_VERTICES[mesh.cellKind].flat());
   const vals = new Float64Array(vpc * nc), grads = new Float64Array(vpc * nc * dim);
   const out = new Float64Array(mesh.nVertices * nc);
@@ -203,6 +221,10 @@ function pointsOf(mesh: Mesh): Float64Array {
   const { dim, coords, nVertices } = mesh;
   if (dim === 3) return coords.subarray(0, 3 * nVertices);
   const p = new Float64Array(3 * nVertices);
+  if (dim === 2) {
+    for (let v = 0; v < nVertices; v++) { p[3 * v] = coords[2 * v]!; p[3 * v + 1] = coords[2 * v + 1]!; }
+    return p;
+  }
   for (let v = 0; v < nVertices; v++) for (let d = 0; d < dim; d++) p[3 * v + d] = coords[v * dim + d];
   return p;
 }
