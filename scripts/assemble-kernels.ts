@@ -4,9 +4,11 @@ import initWabt from 'wabt';
 
 export async function assembleKernels(text: string): Promise<Uint8Array> {
   const wabt = await initWabt();
-  const module = wabt.parseWat('sparse.wat', text);
+  // threads: the memory is shared (the cell team's workers run the kernels on the same arena).
+  const module = wabt.parseWat('sparse.wat', text, { threads: true });
   try {
-    module.validate();
+    // wabt's typings omit validate's features (index.js: WasmModule.prototype.validate = function (options)).
+    (module as unknown as { validate(features: { threads: boolean }): void }).validate({ threads: true });
     return module.toBinary({ log: false, write_debug_names: false }).buffer;
   } finally {
     module.destroy();

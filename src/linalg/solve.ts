@@ -15,7 +15,7 @@ import { ilu0Preconditioner } from './precond/ilu0.ts';
 import { jacobiPreconditioner } from './precond/jacobi.ts';
 import { ssorPreconditioner } from './precond/ssor.ts';
 import { assertNotSaddlePoint } from './saddle/zero-diagonal-block.ts';
-import type { Csr, Preconditioner, SolveOptions, SolveStats } from './types.ts';
+import type { Csr, PartTeam, Preconditioner, SolveOptions, SolveStats } from './types.ts';
 
 export const METHODS = ['auto', 'cg', 'gmres', 'bicgstab', 'direct'] as const;
 export const PRECONDITIONERS = ['auto', 'none', 'jacobi', 'ssor', 'ic0', 'ilu0', 'amg'] as const;
@@ -46,6 +46,8 @@ export interface SolveSystemOptions {
    *  O(nnz) symmetry check before CG is skipped (on 1M P2 elasticity unknowns it took 0.3 s of a 5.5 s setup). An
    *  assembled matrix of such a form may differ from its transpose by round-off, which CG tolerates. */
   symmetricByConstruction?: boolean;
+  /** Threads that may share the multigrid cycle's sweeps (AmgOptions.team). */
+  team?: PartTeam;
 }
 
 export interface SolveSystemResult {
@@ -142,7 +144,7 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
     case 'ilu0': M = ilu0Preconditioner(A); break;
     case 'amg': {
       try {
-        const setup = amgSetup(A, { ...options.amg, symmetric });
+        const setup = amgSetup(A, { ...options.amg, symmetric, ...(options.team ? { team: options.team } : {}) });
         M = setup.preconditioner;
         amg = setup.stats;
       } catch (e) {

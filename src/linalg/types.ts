@@ -7,6 +7,16 @@ export interface Csr {
   values: Float64Array;
 }
 
+/** Threads that share the parts of a phase: `run` computes parts 0 … parts − 1, `here` taking a part on this thread
+ *  and the other threads rebuilding the task from `task` (a module URL whose `prepare(input)` returns the function
+ *  of one part) and `input` (numbers, arrays, shared memory). Parts write only into places they own, so the result
+ *  is the same whichever thread took which part. `light`: the task allocates nothing and holds nothing of the
+ *  caller's (the workers skip their collection after it). The cell team of src/fem/team/team.ts is one. */
+export interface PartTeam {
+  readonly workers: number;
+  run(task: string, input: unknown, parts: number, here: (part: number) => void, options?: { light?: boolean }): number;
+}
+
 /** z = M^{-1} r for a preconditioner M. Must not allocate per call. */
 export interface Preconditioner {
   name: string;

@@ -1,3 +1,5 @@
+import { SEAM_MIN_ROWS } from '../../linalg/amg/seams.ts';
+import { cellTeam } from '../team/team.ts';
 import type { Mesh } from '../../mesh/types.ts';
 import type { SolveStats } from '../../linalg/types.ts';
 import { solveSystem, type SolveSystemOptions } from '../../linalg/index.ts';
@@ -36,7 +38,9 @@ export function solveLagrange(input: LagrangeSolveInput): LagrangeSolution {
   const t1 = performance.now();
   const system = assembleSystem(space, input.coefficients, input.boundary, { quadrature: input.quadrature });
   const t2 = performance.now();
-  const { x, stats } = solveSystem(system.A, system.b, { ...input.solver, symmetric: system.symmetric });
+  // The cell team sweeps the interiors of the multigrid's seam-ordered levels, which only large systems have.
+  const team = system.A.nRows >= SEAM_MIN_ROWS ? cellTeam() : undefined;
+  const { x, stats } = solveSystem(system.A, system.b, { ...input.solver, symmetric: system.symmetric, ...(team ? { team } : {}) });
   const t3 = performance.now();
   const coefficients = expandSolution(system, x);
   return {

@@ -15,6 +15,9 @@ export interface TeamJob {
   input: unknown;
   control: SharedArrayBuffer;
   parts: number;
+  /** A task that allocates nothing and holds none of the level's arrays (the seam sweeps of the multigrid cycle, a
+   *  few milliseconds each): the worker skips its garbage collection after it (worker.ts). */
+  light?: boolean;
 }
 
 /** What a task module exports: `prepare` builds, from a job's input, the function that computes one part (writing

@@ -1,6 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { isMainThread, Worker } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
+import { taskUrl } from '../../files/task-url.ts';
 
 /**
  * The cell team: worker threads, started once per process and kept (unreferenced, so they never keep it alive), that
@@ -23,7 +24,7 @@ export interface CellTeam {
   readonly started: number;
   /** Runs parts 0 … parts − 1 of a task: `here` computes one part on the main thread; the workers rebuild the task
    *  from `task` (a module URL) and `input`. Returns the number of parts the main thread computed. */
-  run(task: string, input: unknown, parts: number, here: (part: number) => void): number;
+  run(task: string, input: unknown, parts: number, here: (part: number) => void, options?: { light?: boolean }): number;
   /** Parts computed by worker threads since the team started (tests: that the workers took part). */
   readonly partsElsewhere: number;
   /** Blocks until every worker has loaded and built one task (tests: so that workers surely take parts). */
@@ -80,12 +81,12 @@ function makeTeam(nWorkers: number): CellTeam {
     get workers() { return active().length; },
     get started() { return workers.length; },
     get partsElsewhere() { return elsewhere; },
-    run(task, input, parts, here) {
+    run(task, input, parts, here, options) {
       if (parts <= 0) return 0;
       const team = active();
       if (team.length === 0 || parts === 1) { for (let k = 0; k < parts; k++) here(k); return parts; }
       const control = new Int32Array(new SharedArrayBuffer(4 * (STATUS + parts)));
-      const job: TeamJob = { task, input, control: control.buffer as SharedArrayBuffer, parts };
+      const job: TeamJob = { task, input, control: control.buffer as SharedArrayBuffer, parts, ...(options?.light ? { light: true } : {}) };
       for (const w of team) w.postMessage(job);
       if (workersFirst) {
         const until = performance.now() + 120_000;
@@ -140,10 +141,7 @@ function makeTeam(nWorkers: number): CellTeam {
   };
 }
 
-/** The URL of a task module beside `moduleUrl` (a .ts file from the source tree, a .js file once compiled). */
-export function taskUrl(moduleUrl: string, stem: string): string {
-  return new URL(`./${stem}${moduleUrl.endsWith('.ts') ? '.ts' : '.js'}`, moduleUrl).href;
-}
+export { taskUrl };
 
 const WARM_TASK = taskUrl(import.meta.url, 'warm-task');
 export type { TaskModule };

@@ -9,6 +9,7 @@ const modules = new Map<string, Promise<TaskModule>>();
 
 parentPort!.on('message', async (job: TeamJob) => {
   await runJob(job);
+  if (job.light) return;
   // The job's input held the level's shared arrays (mesh, unknowns per cell, matrix, vectors: 0.3 GB at 1M P1
   // unknowns); a SharedArrayBuffer's memory is given back only once every thread that received it has collected its
   // object, and this thread's small heap is rarely collected by itself (collect.ts).

@@ -29,6 +29,7 @@ import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { AmgHierarchy, AmgLevel, AmgOptions, AmgSetupResult } from './types.ts';
 import { vCyclePreconditioner } from './vcycle.ts';
 import { wasmCyclePreconditioner } from './wasm-cycle.ts';
+import { seamLayout } from './seams.ts';
 
 const WHERE = 'linalg/amg';
 
@@ -164,6 +165,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     levels[l + 1].rc = alloc.f64(m, false);
     levels[l + 1].dx = alloc.f64(m, false);
   }
+  // The levels swept once per visit of a symmetric hierarchy may sweep in seam order (several threads at once).
+  if (symmetric && opts.seamOrder !== false) {
+    for (let l = 0; l + 1 < levels.length; l++) if (levels[l].sweeps === 1) levels[l].seams = seamLayout(levels[l].A);
+  }
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
   // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole
@@ -181,7 +186,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const coarsest = levels[levels.length - 1].A.nRows;
   return {
     hierarchy,
-    preconditioner: packed ? wasmCyclePreconditioner(packed) : vCyclePreconditioner(hierarchy),
+    preconditioner: packed ? wasmCyclePreconditioner(packed, opts.team) : vCyclePreconditioner(hierarchy),
     stats: {
       levels: levels.length,
       operatorComplexity: nnzSum / nnz0,

@@ -1,6 +1,7 @@
 import type { DenseCholesky } from '../dense/cholesky.ts';
 import type { DenseLu } from '../dense/lu.ts';
-import type { Csr, Preconditioner } from '../types.ts';
+import type { Csr, PartTeam, Preconditioner } from '../types.ts';
+import type { SeamLayout } from './seams.ts';
 
 export interface AmgOptions {
   /** Strength threshold θ on the finest level, halved on each coarser one (Vaněk, Mandel & Brezina 1996 use
@@ -51,6 +52,11 @@ export interface AmgOptions {
    *  Patera 1987, Int. J. Numer. Methods Eng. 24, 1795–1812, from memory). With it, the finest level's own system
    *  options are not used. */
   firstCoarseSpace?: FirstCoarseSpace;
+  /** Seam-ordered Gauss–Seidel on the large levels of a symmetric hierarchy (seams.ts): the same bits on any number
+   *  of threads, and swept by `team` where one is given. Default true; false keeps the natural order everywhere. */
+  seamOrder?: boolean;
+  /** Threads that sweep the interiors of seam-ordered levels beside this one (WebAssembly cycle only). */
+  team?: PartTeam;
 }
 
 export interface FirstCoarseSpace {
@@ -82,6 +88,8 @@ export interface AmgLevel {
   /** Coarse residual and correction of a second visit (empty unless the next finer level visits this one twice). */
   rc: Float64Array;
   dx: Float64Array;
+  /** The seam order of this level's sweeps (seams.ts), or absent/null for the natural order. */
+  seams?: SeamLayout | null;
 }
 
 export type CoarseSolver =

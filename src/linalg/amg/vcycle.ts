@@ -14,6 +14,7 @@ import {
   forwardSweepWithResidual, prolongAndAdd, residualInto, restrictByTranspose,
 } from './smoother.ts';
 import type { AmgHierarchy, AmgLevel } from './types.ts';
+import { seamBackward, seamBackwardWithProduct, seamForwardFromZeroWithResidual } from './seams.ts';
 
 export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
   const { levels, coarse, symmetric } = h;
@@ -35,7 +36,11 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
   /** x = S b from x = 0 with S the forward sweeps of level L, and L.r = b − A x. */
   const preSmooth = (L: AmgLevel, b: Float64Array, x: Float64Array): void => {
     const { A, diagPos, invDiag, sweeps } = L;
-    if (symmetric && sweeps === 1) { forwardSweepFromZeroWithResidual(A, diagPos, invDiag, b, x, L.r); return; }
+    if (symmetric && sweeps === 1) {
+      if (L.seams) seamForwardFromZeroWithResidual(A, diagPos, invDiag, b, x, L.r, L.seams);
+      else forwardSweepFromZeroWithResidual(A, diagPos, invDiag, b, x, L.r);
+      return;
+    }
     forwardSweepFromZero(A, diagPos, invDiag, b, x);
     if (symmetric) {
       for (let s = 2; s < sweeps; s++) forwardSweep(A, diagPos, invDiag, b, x);
@@ -67,8 +72,10 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
     const L = levels[l];
     preSmooth(L, b, x);
     coarseCorrection(l, x);
-    for (let s = 0; s < L.sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
+    if (L.seams) seamBackward(L.A, L.diagPos, L.invDiag, b, x, L.seams); // seam order only with one sweep
+    else for (let s = 0; s < L.sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
   };
+  const sums = new Float64Array(levels[0].seams ? levels[0].seams.interiors.length / 2 : 0);
 
   /** cycle(0, …) ending with the backward sweep that also forms A z (symmetric A only). */
   const cycleWithProduct = (b: Float64Array, x: Float64Array, w: Float64Array): number => {
@@ -83,7 +90,9 @@ export function vCyclePreconditioner(h: AmgHierarchy): Preconditioner {
     preSmooth(L, b, x);
     coarseCorrection(0, x);
     for (let s = 1; s < L.sweeps; s++) backwardSweep(L.A, L.diagPos, L.invDiag, b, x);
-    return backwardSweepWithProduct(L.A, L.diagPos, L.invDiag, b, x, w);
+    return L.seams
+      ? seamBackwardWithProduct(L.A, L.diagPos, L.invDiag, b, x, w, L.seams, sums)
+      : backwardSweepWithProduct(L.A, L.diagPos, L.invDiag, b, x, w);
   };
 
   return {

@@ -4,9 +4,15 @@
  *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
  *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
 import { javascriptCgSteps, residualInto, spmvDot } from '../cg-steps.ts';
-import type { Csr, Preconditioner } from '../types.ts';
+import type { Csr, PartTeam, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
 import type { PackedHierarchy } from './pack.ts';
+import type { SeamLayout } from './seams.ts';
+import { seamPart, type SeamOp, type SeamPhase } from './seam-task.ts';
+import { memoryId } from '../kernels/arena.ts';
+import { taskUrl } from '../../files/task-url.ts';
+
+const SEAM_TASK = taskUrl(import.meta.url, 'seam-task');
 
 /** Byte offsets of a level's arrays inside the arena. */
 interface LevelPointers {
@@ -15,6 +21,7 @@ interface LevelPointers {
   /** The prolongator to the next finer level (its transpose restricts), null on the finest. */
   P: CsrPointers | null;
   sweeps: number; visits: number;
+  seams: SeamLayout | null;
 }
 interface CsrPointers { n: number; rp: number; ci: number; va: number }
 
@@ -25,11 +32,11 @@ function levelPointers(L: AmgLevel): LevelPointers {
   return {
     ...csrPointers(L.A), dp: L.diagPos.byteOffset, inv: L.invDiag.byteOffset,
     b: L.b.byteOffset, x: L.x.byteOffset, r: L.r.byteOffset, rc: L.rc.byteOffset, dx: L.dx.byteOffset,
-    P: L.P && csrPointers(L.P), sweeps: L.sweeps, visits: L.coarseVisits,
+    P: L.P && csrPointers(L.P), sweeps: L.sweeps, visits: L.coarseVisits, seams: L.seams ?? null,
   };
 }
 
-export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner {
+export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam): Preconditioner {
   const { hierarchy: h, arena, staging, spares } = packed;
   const k = arena.kernels;
   const { coarse, symmetric } = h;
@@ -55,9 +62,53 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
     else coarse.factor.solve(view(b, L.n), view(x, L.n));
   };
 
+  // Seam-ordered levels (seams.ts): the interiors go to the team's threads as parts (this thread takes parts too),
+  // the seams follow here. Each phase is one job of the team; its descriptor is the only allocation of a cycle.
+  const mem = memoryId(arena.memory);
+  const sums = new Float64Array(new SharedArrayBuffer(8 * Math.max(1, ...levels.map((L) => (L.seams ? L.seams.interiors.length / 2 : 0)))));
+  const interiors = (L: LevelPointers, op: SeamOp, b: number, x: number, v: number): void => {
+    const f: SeamPhase = {
+      memoryId: mem, memory: arena.memory, op, rp: L.rp, ci: L.ci, va: L.va, dp: L.dp, inv: L.inv, b, x, v,
+      interiors: L.seams!.interiors, sums,
+    };
+    runParts(f);
+  };
+  const runParts = (f: SeamPhase): void => {
+    const op = f.op;
+    const parts = f.interiors.length / 2;
+    const here = (p: number): void => { const bx = seamPart(k, f, p); if (op === 'product') sums[p] = bx; };
+    if (team && team.workers > 0) team.run(SEAM_TASK, f, parts, here, { light: true });
+    else for (let p = 0; p < parts; p++) here(p);
+  };
+  /** Equal runs of rows of each seam-ordered level, for the prolongation's parts. */
+  const rowParts = levels.map((L) => (L.seams ? equalParts(L.n, L.seams.interiors.length / 2) : null));
+  const seamForward = (L: LevelPointers, b: number, x: number): void => {
+    const { seams } = L.seams!;
+    for (let s = 0; s < seams.length; s += 2) k.zeroRows(seams[s], seams[s + 1], x);
+    interiors(L, 'forward', b, x, L.r);
+    for (let s = 0; s < seams.length; s += 2) k.seamSweepWithResidualRows(seams[s], seams[s + 1], L.rp, L.ci, L.va, L.dp, L.inv, b, x, L.r);
+  };
+  const seamBackward = (L: LevelPointers, b: number, x: number): void => {
+    const { seams } = L.seams!;
+    for (let s = seams.length - 2; s >= 0; s -= 2) k.backwardSweepRows(seams[s], seams[s + 1], L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+    interiors(L, 'backward', b, x, 0);
+  };
+  const seamBackwardWithProduct = (L: LevelPointers, b: number, x: number, w: number): number => {
+    const { seams, interiors: parts } = L.seams!;
+    let bx = 0;
+    for (let s = seams.length - 2; s >= 0; s -= 2) bx += k.backwardSweepWithProductRows(seams[s], seams[s + 1], 0, L.rp, L.ci, L.va, L.dp, L.inv, b, x, w);
+    interiors(L, 'product', b, x, w);
+    for (let p = parts.length / 2 - 1; p >= 0; p--) bx += sums[p];
+    return bx;
+  };
+
   const preSmooth = (L: LevelPointers, b: number, x: number): void => {
     const { n, rp, ci, va, dp, inv, sweeps } = L;
-    if (symmetric && sweeps === 1) { k.forwardSweepFromZeroWithResidual(n, rp, ci, va, dp, inv, b, x, L.r); return; }
+    if (symmetric && sweeps === 1) {
+      if (L.seams) seamForward(L, b, x);
+      else k.forwardSweepFromZeroWithResidual(n, rp, ci, va, dp, inv, b, x, L.r);
+      return;
+    }
     k.forwardSweepFromZero(n, rp, ci, va, dp, inv, b, x);
     if (symmetric) {
       for (let s = 2; s < sweeps; s++) k.forwardSweep(n, rp, ci, va, dp, inv, b, x);
@@ -78,7 +129,13 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
       cycle(l + 1, C.rc, C.dx);
       k.addInto(C.n, C.x, C.dx);
     }
-    k.multiplyAdd(P.n, P.rp, P.ci, P.va, C.x, x);
+    if (team && team.workers > 0 && levels[l].seams) {
+      // x += P x_c row by row, so parts of rows give the same bits wherever they run.
+      runParts({
+        memoryId: mem, memory: arena.memory, op: 'prolong', rp: P.rp, ci: P.ci, va: P.va, dp: 0, inv: 0, b: C.x, x, v: 0,
+        interiors: rowParts[l]!, sums,
+      });
+    } else k.multiplyAdd(P.n, P.rp, P.ci, P.va, C.x, x);
   };
 
   const cycle = (l: number, b: number, x: number): void => {
@@ -86,7 +143,8 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
     if (l === last) { solveCoarsest(L, b, x); return; }
     preSmooth(L, b, x);
     coarseCorrection(l, x);
-    for (let s = 0; s < L.sweeps; s++) k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
+    if (L.seams) seamBackward(L, b, x); // seam order only with one sweep
+    else for (let s = 0; s < L.sweeps; s++) k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
   };
 
   const cycleWithProduct = (b: number, x: number, w: number): number => {
@@ -102,7 +160,7 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
     preSmooth(L, b, x);
     coarseCorrection(0, x);
     for (let s = 1; s < L.sweeps; s++) k.backwardSweep(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x);
-    return k.backwardSweepWithProduct(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x, w);
+    return L.seams ? seamBackwardWithProduct(L, b, x, w) : k.backwardSweepWithProduct(L.n, L.rp, L.ci, L.va, L.dp, L.inv, b, x, w);
   };
 
   /** The caller's vector as an arena offset: its own when it lives there, else the staging copy. */
@@ -176,4 +234,11 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy): Preconditioner
       },
     } : {}),
   };
+}
+
+/** Rows 0 … n − 1 cut into `parts` runs of nearly equal length, as [first, last) pairs. */
+function equalParts(n: number, parts: number): Int32Array {
+  const out = new Int32Array(2 * parts);
+  for (let p = 0; p < parts; p++) { out[2 * p] = Math.floor((p * n) / parts); out[2 * p + 1] = Math.floor(((p + 1) * n) / parts); }
+  return out;
 }

@@ -46,6 +46,22 @@ function kernelModule(): WebAssembly.Module | null {
   return compiled;
 }
 
+/** The kernels on a memory an arena of another thread made (the cell team's workers, amg/seam-task.ts), or null
+ *  where WebAssembly is unavailable. */
+export function instantiateKernels(memory: WebAssembly.Memory): SparseKernels | null {
+  const module = kernelModule();
+  return module ? (new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as SparseKernels) : null;
+}
+
+let lastId = 0;
+const ids = new WeakMap<WebAssembly.Memory, number>();
+/** A number naming an arena's memory for the threads it is posted to (a posted memory arrives as a new object). */
+export function memoryId(memory: WebAssembly.Memory): number {
+  let id = ids.get(memory);
+  if (id === undefined) { id = ++lastId; ids.set(memory, id); }
+  return id;
+}
+
 const rounded = (byteLength: number): number => Math.max(ALIGN, Math.ceil(byteLength / ALIGN) * ALIGN);
 
 /** Bytes an arena needs for arrays of these byte lengths (each rounded up to the alignment), plus the reserved start. */
@@ -71,7 +87,8 @@ export function createArena(bytes: number): Arena | null {
   } else {
     const pages = Math.max(1, Math.ceil(bytes / PAGE));
     try {
-      memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
+      // Shared (sparse.wat imports shared memory): the cell team's workers run kernels on this arena too.
+      memory = new WebAssembly.Memory({ initial: pages, maximum: pages, shared: true });
     } catch {
       return null; // the engine refused that much memory
     }

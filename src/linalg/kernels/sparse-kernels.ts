@@ -13,6 +13,15 @@ export interface SparseKernels {
   backwardSweep(n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
   backwardSweepWithProduct(
     n: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, w: number): number;
+  /** The seam-ordered sweeps of amg/seams.ts: rows first … last − 1 (absolute indices). */
+  zeroRows(first: number, last: number, x: number): void;
+  forwardSweepFromZeroWithResidualRows(
+    first: number, last: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
+  seamSweepWithResidualRows(
+    first: number, last: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, r: number): void;
+  backwardSweepRows(first: number, last: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
+  backwardSweepWithProductRows(first: number, last: number, low: number,
+    rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, w: number): number;
   /** C = A B into room for every contribution; marker (one i32 per column of B) must hold −1. Returns nnz(C). */
   sparseProduct(m: number, aRp: number, aCi: number, aVa: number, bRp: number, bCi: number, bVa: number,
     marker: number, outRp: number, outCi: number, outVa: number): number;
