@@ -3,7 +3,7 @@
 // after any error: the main thread then computes that part itself and meets the error there, with its message).
 import { parentPort } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
-import { collectGarbage } from './collect.ts';
+import { collectGarbage } from '../../linalg/kernels/collect.ts';
 
 const modules = new Map<string, Promise<TaskModule>>();
 
@@ -12,7 +12,7 @@ parentPort!.on('message', async (job: TeamJob) => {
   if (job.light) return;
   // The job's input held the level's shared arrays (mesh, unknowns per cell, matrix, vectors: 0.3 GB at 1M P1
   // unknowns); a SharedArrayBuffer's memory is given back only once every thread that received it has collected its
-  // object, and this thread's small heap is rarely collected by itself (collect.ts).
+  // object, and this thread's small heap is rarely collected by itself (src/linalg/kernels/collect.ts).
   collectGarbage();
 });
 

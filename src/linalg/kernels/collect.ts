@@ -2,7 +2,14 @@ import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
 
 /**
- * A full garbage collection of this thread's heap, for a worker of the cell team after each job.
+ * A full garbage collection of this thread's heap: for a worker of the cell team after each job, and on the main
+ * thread before the multigrid setup of a large matrix (amg/setup.ts).
+ *
+ * Why on the main thread: the arena's WebAssembly memory is shared (arena.ts), and V8 does not count shared memory
+ * as external memory the way it counted the unshared arena (all 4 GiB of it, which kept it collecting often); the
+ * garbage of a level's assembly (about 100 MB of array buffers at 1M P1 unknowns) then stayed alive through the
+ * setup. One collection there, 20–30 ms, took the seven-level P1 ladder's peak RSS from 795–834 to 772–779 MiB
+ * (2 threads, 4 alternating runs, AMD EPYC 2 cores).
  *
  * Why: a job's input reaches a worker as objects over SharedArrayBuffers (no copy), and a SharedArrayBuffer's memory
  * is freed only when every thread holding an object of it has collected that object. The main thread collects often
