@@ -5,7 +5,7 @@
  */
 import { RungsInputError } from '../errors.ts';
 import { boundingBox } from './bounding-box.ts';
-import { signedCellMeasure } from './measure.ts';
+import { cellMeasures } from './regions.ts';
 import type { Mesh } from './types.ts';
 
 /** A map of per-cell values.
@@ -68,8 +68,9 @@ export function cellDensities(mesh: Mesh, cellIntegrals: ArrayLike<number>): Flo
     throw new RungsInputError(`cell integrals: expected one per cell (${mesh.nCells}), got ${cellIntegrals.length}`, 'cellIntegrals');
   }
   const out = new Float64Array(mesh.nCells);
+  const measures = cellMeasures(mesh);
   for (let c = 0; c < mesh.nCells; c++) {
-    const measure = Math.abs(signedCellMeasure(mesh, c));
+    const measure = measures[c]!;
     const integral = cellIntegrals[c]!;
     out[c] = measure > 0 ? Math.sqrt(Math.max(0, integral) / measure) : Number.NaN;
   }
@@ -86,6 +87,9 @@ export function cellDensities(mesh: Mesh, cellIntegrals: ArrayLike<number>): Flo
  * of a bounded number of cells, so the work is O(cells + pixels); in 3D only the cells that cross the plane visit any
  * pixel. Typed arrays throughout, nothing allocated per cell or per pixel.
  */
+/** The cell of each pixel, by mesh and raster size (rasterizeCells). */
+const located = new WeakMap<Mesh, Map<string, Int32Array>>();
+
 export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: RasterOptions = {}): ErrorMap {
   if (perCell.length !== mesh.nCells) {
     throw new RungsInputError(`per-cell values: expected one per cell (${mesh.nCells}), got ${perCell.length}`, 'perCell');
@@ -101,15 +105,19 @@ export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: Ras
   }
   const nx = width >= height ? maxPixels : Math.max(1, Math.round((maxPixels * width) / height));
   const ny = height >= width ? maxPixels : Math.max(1, Math.round((maxPixels * height) / width));
-  const owner = new Int32Array(nx * ny).fill(-1);
-  const grid: PixelGrid = { nx, ny, x0, y0, dx: width / nx, dy: height / ny, owner };
-  let slice: { axis: 'z'; at: number } | undefined;
-  if (mesh.dim === 2) {
-    locate2D(mesh, grid);
-  } else {
-    const at = (box.min[2]! + box.max[2]!) / 2;
-    slice = { axis: 'z', at };
-    locateSlice(mesh, grid, at);
+  const slice: { axis: 'z'; at: number } | undefined = mesh.dim === 3 ? { axis: 'z', at: (box.min[2]! + box.max[2]! ) / 2 } : undefined;
+  // The pixels' cells depend on the mesh and the raster only: located once for every map of the same mesh (the finest
+  // level draws two, one per norm: 2M triangles each time on the P1 ladder).
+  const key = `${nx}×${ny}`;
+  let byRaster = located.get(mesh);
+  if (!byRaster) { byRaster = new Map(); located.set(mesh, byRaster); }
+  let owner = byRaster.get(key);
+  if (!owner) {
+    owner = new Int32Array(nx * ny).fill(-1);
+    const grid: PixelGrid = { nx, ny, x0, y0, dx: width / nx, dy: height / ny, owner };
+    if (mesh.dim === 2) locate2D(mesh, grid);
+    else locateSlice(mesh, grid, slice!.at);
+    byRaster.set(key, owner);
   }
   const values = new Float32Array(nx * ny);
   for (let p = 0; p < values.length; p++) {

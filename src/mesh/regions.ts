@@ -60,20 +60,63 @@ export function boundaryStrips(mesh: Mesh, options: StripOptions = {}): Boundary
   const nTags = mesh.tagNames.length;
   const measures = cellMeasures(mesh);
   const inStrip = new Uint8Array(mesh.nCells); // how many strips hold each cell (saturates at 255)
-  const vertexMark = new Uint8Array(mesh.nVertices);
   const cellMark = new Uint8Array(mesh.nCells);
-  const stripCells: Int32Array[] = [];
-  for (let t = 0; t < nTags; t++) {
-    markStrip(mesh, t, layers, vertexMark, cellMark);
-    const cells = listMarked(cellMark);
-    for (let k = 0; k < cells.length; k++) { const c = cells[k]!; if (inStrip[c]! < 255) inStrip[c]!++; }
-    stripCells.push(cells);
+  let stripCells: Int32Array[];
+  let interiorCells: Int32Array;
+  if (layers === 1 && nTags <= 16) {
+    ({ stripCells, interiorCells } = oneLayerStrips(mesh, inStrip));
+  } else {
+    const vertexMark = new Uint8Array(mesh.nVertices);
+    stripCells = [];
+    for (let t = 0; t < nTags; t++) {
+      markStrip(mesh, t, layers, vertexMark, cellMark);
+      const cells = listMarked(cellMark);
+      for (let k = 0; k < cells.length; k++) { const c = cells[k]!; if (inStrip[c]! < 255) inStrip[c]!++; }
+      stripCells.push(cells);
+    }
+    interiorCells = listMarked(inStrip, 0);
   }
   const strips = stripCells.map((cells) => cellSet(cells, measures));
   const own = stripCells.map((cells) => cellSet(cells.filter((c) => inStrip[c] === 1), measures));
   const meets = findMeets(stripCells, cellMark, measures);
-  const interior = cellSet(listMarked(inStrip, 0), measures);
+  const interior = cellSet(interiorCells, measures);
   return { layers, tagNames: [...mesh.tagNames], strips, own, meets, interior };
+}
+
+/** The one-layer strips of up to 16 tags in one pass over the cells (markStrip takes one per tag): each vertex gets
+ *  the bits of the tags of its facets, each cell the union of its vertices' bits. The same ascending lists as
+ *  markStrip's, and inStrip counts each cell's strips. */
+function oneLayerStrips(mesh: Mesh, inStrip: Uint8Array): { stripCells: Int32Array[]; interiorCells: Int32Array } {
+  const { cells, facets, facetTags } = mesh;
+  const n = mesh.verticesPerCell, m = mesh.verticesPerFacet, nTags = mesh.tagNames.length;
+  const vertexBits = new Uint16Array(mesh.nVertices);
+  for (let f = 0; f < mesh.nFacets; f++) {
+    const t = facetTags[f]!;
+    if (t < 0 || t >= nTags) continue;
+    for (let k = 0; k < m; k++) vertexBits[facets[f * m + k]!] |= 1 << t;
+  }
+  const cellBits = new Uint16Array(mesh.nCells);
+  const counts = new Int32Array(nTags);
+  let interior = 0;
+  for (let c = 0; c < mesh.nCells; c++) {
+    let bits = 0;
+    for (let k = 0; k < n; k++) bits |= vertexBits[cells[c * n + k]!]!;
+    cellBits[c] = bits;
+    if (bits === 0) { interior++; continue; }
+    let count = 0;
+    for (let t = 0; t < nTags; t++) if (bits & (1 << t)) { counts[t]++; count++; }
+    inStrip[c] = count;
+  }
+  const stripCells = Array.from(counts, (k) => new Int32Array(k));
+  const fill = new Int32Array(nTags);
+  const interiorCells = new Int32Array(interior);
+  let o = 0;
+  for (let c = 0; c < mesh.nCells; c++) {
+    const bits = cellBits[c]!;
+    if (bits === 0) { interiorCells[o++] = c; continue; }
+    for (let t = 0; t < nTags; t++) if (bits & (1 << t)) stripCells[t]![fill[t]!++] = c;
+  }
+  return { stripCells, interiorCells };
 }
 
 const measured = new WeakMap<Mesh, Float64Array>();

@@ -175,3 +175,26 @@ describe('regionErrors', () => {
     expect(() => regionErrors(mesh, s, l2, new Float64Array(mesh.nCells + 1))).toThrow(/perCellH1sq/);
   });
 });
+
+describe('boundaryStrips, one layer, against the definition', () => {
+  it('on tetrahedra: each strip is every cell with a vertex on a facet of its tag, ascending; own, interior likewise', () => {
+    const mesh = boxMesh({ x: [0, 1], y: [0, 2], z: [0, 1], nx: 6, ny: 5, nz: 4, cells: 'tetrahedra' });
+    const s = boundaryStrips(mesh);
+    const n = mesh.verticesPerCell, m = mesh.verticesPerFacet;
+    const expected = mesh.tagNames.map((_, t) => {
+      const onTag = new Set<number>();
+      for (let f = 0; f < mesh.nFacets; f++) if (mesh.facetTags[f] === t) for (let k = 0; k < m; k++) onTag.add(mesh.facets[f * m + k]!);
+      const cells: number[] = [];
+      for (let c = 0; c < mesh.nCells; c++) {
+        let touches = false;
+        for (let k = 0; k < n; k++) if (onTag.has(mesh.cells[c * n + k]!)) touches = true;
+        if (touches) cells.push(c);
+      }
+      return cells;
+    });
+    const strips = (c: number) => expected.filter((cells) => cells.includes(c)).length;
+    expect(s.strips.map((x) => Array.from(x.cells))).toEqual(expected);
+    expect(s.own.map((x) => Array.from(x.cells))).toEqual(expected.map((cells) => cells.filter((c) => strips(c) === 1)));
+    expect(Array.from(s.interior.cells)).toEqual(Array.from({ length: mesh.nCells }, (_, c) => c).filter((c) => strips(c) === 0));
+  });
+});

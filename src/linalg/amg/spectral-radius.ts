@@ -7,8 +7,9 @@ import { spmv } from '../csr.ts';
 import { heapAllocator, type Allocator } from '../kernels/allocator.ts';
 import type { Csr } from '../types.ts';
 
-/** strong = null: the whole of A (then dF must be its diagonal), ρ(D⁻¹A); its products run as the kernel spmv
- *  when every array lives in the allocator's WebAssembly memory (same bits as csr.ts's spmv). */
+/** strong = null: the whole of A (then dF must be its diagonal), ρ(D⁻¹A). The products run as the kernel spmv (or
+ *  filteredProduct with a strong mask) when every array lives in the allocator's WebAssembly memory, with the bits
+ *  of the loops here. */
 export function lanczosSpectralRadius(
   A: Csr, strong: Uint8Array | null, dF: Float64Array, steps: number, gershgorin: number, alloc: Allocator = heapAllocator,
 ): number {
@@ -24,8 +25,8 @@ export function lanczosSpectralRadius(
   let v = alloc.f64(n, false);
   let vPrev = alloc.f64(n); // zero: the first step subtracts β₋₁ v₋₁ = 0 · v₋₁
   const w = alloc.f64(n, false);
-  const Au = strong ? null : alloc.f64(n, false);
-  const wasm = Au && alloc.wasm && alloc.wasm.owns(rowPtr, colIdx, values, u, Au) ? alloc.wasm.kernels : null;
+  const Au = alloc.f64(n, false);
+  const wasm = alloc.wasm && alloc.wasm.owns(rowPtr, colIdx, values, u, Au, dF, ...(strong ? [strong] : [])) ? alloc.wasm.kernels : null;
   let nrm = 0;
   for (let i = 0; i < n; i++) { v[i] = rand() - 0.5; nrm += v[i] * v[i]; }
   nrm = Math.sqrt(nrm);
@@ -37,11 +38,13 @@ export function lanczosSpectralRadius(
   for (let j = 0; j < k; j++) {
     // w = B v − β_{j−1} v_{j−1}, α_j = w·v
     let a = 0;
-    if (!strong) {
-      if (wasm) wasm.spmv(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, u.byteOffset, Au!.byteOffset);
-      else spmv(A, u, Au!);
+    if (!strong || wasm) {
+      // A u, or the filtered product dF ⊙ u + A_strong u as one kernel (the loop below, same operations)
+      if (wasm && strong) wasm.filteredProduct(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, strong.byteOffset, dF.byteOffset, u.byteOffset, Au.byteOffset);
+      else if (wasm) wasm.spmv(n, rowPtr.byteOffset, colIdx.byteOffset, values.byteOffset, u.byteOffset, Au.byteOffset);
+      else spmv(A, u, Au);
       for (let i = 0; i < n; i++) {
-        const wi = s[i] * Au![i] - betaPrev * vPrev[i];
+        const wi = s[i] * Au[i] - betaPrev * vPrev[i];
         w[i] = wi;
         a += wi * v[i];
       }
@@ -65,7 +68,7 @@ export function lanczosSpectralRadius(
     betaPrev = b;
   }
   alloc.free(s); alloc.free(u); alloc.free(v); alloc.free(vPrev); alloc.free(w);
-  if (Au) alloc.free(Au);
+  alloc.free(Au);
   const lmax = largestTridiagonalEigenvalue(alpha, beta, m);
   return Math.min(gershgorin, 1.05 * lmax);
 }

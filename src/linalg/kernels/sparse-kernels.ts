@@ -22,6 +22,8 @@ export interface SparseKernels {
   backwardSweepRows(first: number, last: number, rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number): void;
   backwardSweepWithProductRows(first: number, last: number, low: number,
     rp: number, ci: number, va: number, dp: number, inv: number, b: number, x: number, w: number): number;
+  /** out = dF ⊙ u + A_strong u (amg/spectral-radius.ts): strong holds one byte per entry of A. */
+  filteredProduct(n: number, rp: number, ci: number, va: number, strong: number, dF: number, u: number, out: number): void;
   /** C = A B into room for every contribution; marker (one i32 per column of B) must hold −1. Returns nnz(C). */
   sparseProduct(m: number, aRp: number, aCi: number, aVa: number, bRp: number, bCi: number, bVa: number,
     marker: number, outRp: number, outCi: number, outVa: number): number;

@@ -536,6 +536,28 @@
       (br $rows)))
     (local.get $bx))
 
+  ;; out_i = dF_i u_i + Σ_{strong entries p of row i} a_p u_{c_p}: the product with the filtered matrix of smoothed
+  ;; aggregation (amg/spectral-radius.ts), strong one byte per entry (nonzero: strong).
+  (func (export "filteredProduct") (param $n i32) (param $rp i32) (param $ci i32) (param $va i32) (param $strong i32)
+    (param $dF i32) (param $u i32) (param $out i32)
+    (local $i i32) (local $p i32) (local $pe i32) (local $acc f64)
+    (block $done (loop $rows
+      (br_if $done (i32.ge_u (local.get $i) (local.get $n)))
+      (local.set $acc (f64.mul (f64.load (i32.add (local.get $dF) (i32.shl (local.get $i) (i32.const 3))))
+        (f64.load (i32.add (local.get $u) (i32.shl (local.get $i) (i32.const 3))))))
+      (local.set $p (i32.load (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+      (local.set $pe (i32.load offset=4 (i32.add (local.get $rp) (i32.shl (local.get $i) (i32.const 2)))))
+      (block $rd (loop $row
+        (br_if $rd (i32.ge_s (local.get $p) (local.get $pe)))
+        (if (i32.load8_u (i32.add (local.get $strong) (local.get $p))) (then
+          (local.set $acc (f64.add (local.get $acc) (f64.mul (f64.load (i32.add (local.get $va) (i32.shl (local.get $p) (i32.const 3))))
+            (f64.load (i32.add (local.get $u) (i32.shl (i32.load (i32.add (local.get $ci) (i32.shl (local.get $p) (i32.const 2)))) (i32.const 3)))))))))
+        (local.set $p (i32.add (local.get $p) (i32.const 1)))
+        (br $row)))
+      (f64.store (i32.add (local.get $out) (i32.shl (local.get $i) (i32.const 3))) (local.get $acc))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (br $rows))))
+
   ;; Insertion sort of one row's (column, value) pairs by column, positions [lo, hi); rows longer than 32 are left
   ;; for the caller (a heap sort in csr.ts: insertion sort is quadratic).
   (func $sortRow (param $ci i32) (param $va i32) (param $lo i32) (param $hi i32)
