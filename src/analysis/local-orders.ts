@@ -128,9 +128,9 @@ export function summarizeLocalOrders(
  * a stable sort by value, at which the weights summed in that order reach p × the total (summed in input order); p = 0
  * gives the smallest value. The definition of simple-statistics' weightedQuantile (and the same bits: tested against
  * it), on typed arrays: that function sorts one two-element array per value, about 90 MB of heap for the 524k cells
- * of the P1 ladder's 512² level, which set the whole run's peak memory; this one needs 28 bytes per value. A
- * value's place in the stable order is found by binary search in a copy sorted natively plus a count per run of
- * equal values, so the order of equal values, and with it every rounding of the sums, is the stable sort's.
+ * of the P1 ladder's 512² level, which set the whole run's peak memory; this one needs 40 bytes per value, and
+ * finds the stable order by a radix sort (stableOrder), so the order of equal values, and with it every rounding of
+ * the sums, is the stable sort's.
  */
 export function weightedQuantiles(values: Float64Array, weights: Float64Array, ps: readonly number[]): number[] {
   const n = values.length;
@@ -142,17 +142,9 @@ export function weightedQuantiles(values: Float64Array, weights: Float64Array, p
     total += weights[i]!;
   }
   if (!(total > 0)) throw new RungsInputError('weighted quantiles need at least one positive weight', 'weights');
-  const keys = Float64Array.from(values).sort();
-  const taken = new Int32Array(n);
+  const order = stableOrder(values);
   const sortedValues = new Float64Array(n), sortedWeights = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const x = values[i]!;
-    // First place whose key is not below x (−0 and +0 count as equal, as in a comparison by difference).
-    let lo = 0, hi = n;
-    while (lo < hi) { const mid = (lo + hi) >>> 1; if (keys[mid]! < x) lo = mid + 1; else hi = mid; }
-    const slot = lo + taken[lo]!++;
-    sortedValues[slot] = x; sortedWeights[slot] = weights[i]!;
-  }
+  for (let k = 0; k < n; k++) { const i = order[k]!; sortedValues[k] = values[i]!; sortedWeights[k] = weights[i]!; }
   return ps.map((p) => {
     if (!(p >= 0 && p <= 1)) throw new RungsInputError(`quantiles must lie in [0, 1], got ${p}`, 'p');
     if (p === 0) return sortedValues[0]!;
@@ -164,4 +156,38 @@ export function weightedQuantiles(values: Float64Array, weights: Float64Array, p
     }
     return sortedValues[n - 1]!;
   });
+}
+
+/**
+ * The indices of `values` (finite) in the order of a stable sort by value, −0 and +0 counting as equal: an LSD radix
+ * sort on the bits of each double made to sort as unsigned integers (sign bit flipped for values ≥ 0, every bit for
+ * negative ones: common practice, no source), 16 bits per pass, four passes, each stable. Linear in n: on the 524k
+ * local orders of the P1 ladder it replaced a native sort plus one binary search per value (about 180 ms).
+ */
+export function stableOrder(values: Float64Array): Int32Array {
+  const n = values.length;
+  const bits = new Float64Array(1), words = new Uint32Array(bits.buffer);
+  const lowEndian = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
+  const LO = lowEndian ? 0 : 1, HI = 1 - LO;
+  let hi = new Uint32Array(n), lo = new Uint32Array(n), idx = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    bits[0] = values[i]! === 0 ? 0 : values[i]!; // −0 → +0
+    const h = words[HI]!, l = words[LO]!;
+    if (h & 0x80000000) { hi[i] = ~h >>> 0; lo[i] = ~l >>> 0; } else { hi[i] = (h | 0x80000000) >>> 0; lo[i] = l; }
+    idx[i] = i;
+  }
+  let hi2 = new Uint32Array(n), lo2 = new Uint32Array(n), idx2 = new Int32Array(n);
+  const count = new Int32Array(65537);
+  for (let pass = 0; pass < 4; pass++) {
+    const word = pass < 2 ? lo : hi, shift = (pass & 1) * 16;
+    count.fill(0);
+    for (let i = 0; i < n; i++) count[((word[i]! >>> shift) & 0xffff) + 1]++;
+    for (let d = 0; d < 65536; d++) count[d + 1]! += count[d]!;
+    for (let i = 0; i < n; i++) {
+      const at = count[(word[i]! >>> shift) & 0xffff]!++;
+      hi2[at] = hi[i]!; lo2[at] = lo[i]!; idx2[at] = idx[i]!;
+    }
+    [hi, hi2] = [hi2, hi]; [lo, lo2] = [lo2, lo]; [idx, idx2] = [idx2, idx];
+  }
+  return idx;
 }

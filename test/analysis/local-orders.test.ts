@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { weightedQuantile } from 'simple-statistics';
-import { localOrders, LOCAL_ORDER_ROUND_OFF, summarizeLocalOrders, weightedQuantiles } from '../../src/analysis/local-orders.ts';
+import { localOrders, LOCAL_ORDER_ROUND_OFF, stableOrder, summarizeLocalOrders, weightedQuantiles } from '../../src/analysis/local-orders.ts';
 import { mulberry32 } from '../../src/mesh/random.ts';
 import { RungsInputError } from '../../src/errors.ts';
 import { parentCells } from '../../src/mesh/nesting.ts';
@@ -127,6 +127,22 @@ describe('summarizeLocalOrders', () => {
   it('null when no cell has an order; refuses measures of another length', () => {
     expect(summarizeLocalOrders(Float64Array.of(Number.NaN), Float64Array.of(1), 2, 0.1)).toBeNull();
     expect(() => summarizeLocalOrders(Float64Array.of(1, 2), Float64Array.of(1), 2, 0.1)).toThrow(RungsInputError);
+  });
+});
+
+describe('stableOrder', () => {
+  it("is the order of JavaScript's stable sort (ECMAScript 2019, Array.prototype.sort) by value, -0 equal to +0", () => {
+    const random = mulberry32(7);
+    const specials = [0, -0, 5e-324, -5e-324, Number.MAX_VALUE, -Number.MAX_VALUE, 1, -1, 2 ** -1074 * 3];
+    const bad: number[] = [];
+    for (const n of [1, 2, 17, 1000, 70_000]) {
+      const values = Float64Array.from({ length: n }, (_, i) => (i % 7 === 0 ? specials[Math.floor(random() * specials.length)]!
+        : i % 3 === 0 ? Math.floor(random() * 9) - 4 : (random() - 0.5) * 10 ** Math.floor(random() * 40 - 20)));
+      const expected = Array.from({ length: n }, (_, i) => i).sort((a, b) => (values[a]! < values[b]! ? -1 : values[a]! > values[b]! ? 1 : 0));
+      const got = stableOrder(values);
+      if (expected.some((v, k) => got[k] !== v)) bad.push(n);
+    }
+    expect(bad).toEqual([]);
   });
 });
 
