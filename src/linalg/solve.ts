@@ -3,6 +3,7 @@
  *  met by the direct solver throw RungsInputError. */
 import { RungsInputError } from '../errors.ts';
 import { amgSetup } from './amg/setup.ts';
+import { collectGarbage } from './kernels/collect.ts';
 import type { AmgOptions, AmgStats } from './amg/types.ts';
 import { bicgstab } from './bicgstab.ts';
 import { CG_SYMMETRY_TOL, cg } from './cg.ts';
@@ -48,6 +49,9 @@ export interface SolveSystemOptions {
   symmetricByConstruction?: boolean;
   /** Threads that may share the multigrid cycle's sweeps (AmgOptions.team). */
   team?: PartTeam;
+  /** false for the last solve of a run: the multigrid's memory is given back when the solver is disposed, not kept
+   *  for a next setup (AmgOptions.keepMemory). */
+  keepMemory?: boolean;
 }
 
 export interface SolveSystemResult {
@@ -144,7 +148,9 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
     case 'ilu0': M = ilu0Preconditioner(A); break;
     case 'amg': {
       try {
-        const setup = amgSetup(A, { ...options.amg, symmetric, ...(options.team ? { team: options.team } : {}) });
+        const setup = amgSetup(A, {
+          ...options.amg, symmetric, ...(options.team ? { team: options.team } : {}), ...(options.keepMemory === false ? { keepMemory: false } : {}),
+        });
         M = setup.preconditioner;
         amg = setup.stats;
       } catch (e) {
@@ -182,16 +188,23 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
       if (disposed) return;
       disposed = true;
       M.dispose?.();
+      M = identityPreconditioner;
     },
   };
 }
 
 export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions): SolveSystemResult {
-  const solver = createLinearSolver(A, options);
+  let solver: LinearSolver | null = createLinearSolver(A, options);
+  let result: SolveSystemResult;
   try {
-    return solver.solve(b);
+    result = solver.solve(b);
   } finally {
     // The preconditioner lives only for this solve: the multigrid arena's memory (already resident) goes to the next.
     solver.dispose();
   }
+  // Memory not kept for a next solve (keepMemory: false) is given back once this thread has collected it, with
+  // nothing here holding the solver.
+  solver = null;
+  if (options.keepMemory === false) collectGarbage();
+  return result;
 }

@@ -11,6 +11,9 @@ import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
 import { recordWhere } from './where.ts';
+import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
+import { startedTeam } from '../fem/team/team.ts';
+import { collectGarbage } from '../linalg/kernels/collect.ts';
 import { fileStem } from './names.ts';
 import { settleBackgroundWrites } from '../files/background-write.ts';
 import { join } from 'node:path';
@@ -68,12 +71,17 @@ async function runLevelUnguarded(
   const tMesh = seconds(t);
   const { h, nCells } = mesh;
   const time = decl.time && steps !== null ? { T: decl.time.final, steps, dt: decl.time.final / steps } : undefined;
-  const running = disc.run({ decl, file, problem, index, n, mesh, time, norms, solver, env });
+  // A study's last level is its largest: the multigrid's memory is not kept for a next solve (about 300 MB after
+  // 1M unknowns), but given back before the level's errors and error maps (otherwise the run's peak: P1 ladder).
+  const last = env.total !== undefined && index === env.total - 1;
+  const running = disc.run({ decl, file, problem, index, n, mesh, time, norms, solver: last ? { ...solver, keepMemory: false } : solver, env });
   const external = decl.discretization.kind === 'external';
   // An external code meshes for itself (its discretization has read h): the mesh is let go while the level waits for
   // the code, which as a job may take hours with every level of the ladder waiting at once.
   if (external) mesh = null;
   const out = await running;
+  // Whatever the discretization kept anyway (a solver of its own that was not told) goes too.
+  if (last && releaseArenaMemory(startedTeam() ?? undefined)) collectGarbage();
   const tWhere = performance.now();
   const cellsMesh = out.errorCells?.mesh ?? mesh;
   const where = out.errorCells && cellsMesh && env.total !== undefined

@@ -262,6 +262,19 @@ describe('the multigrid cycle in WebAssembly', () => {
     same(second.x, reference);
   });
 
+  it('with keepMemory: false a disposed preconditioner keeps no memory: the next setup gets a fresh one', () => {
+    const A = lagrangeGridStiffness('triangle', 1, 24).A;
+    const buffer = (opts: { keepMemory?: boolean }): ArrayBufferLike => {
+      const { preconditioner } = amgSetup(A, opts);
+      const got = preconditioner.vector!(A.nRows).buffer;
+      preconditioner.dispose!();
+      return got;
+    };
+    const kept = buffer({}), reused = buffer({ keepMemory: false }), fresh = buffer({});
+    expect(reused).toBe(kept); // the default kept it, and this setup took it
+    expect(fresh).not.toBe(reused); // this one was given back
+  });
+
   it('PCG with either kernels takes the same iterations to the same solution', () => {
     const A = lagrangeGridStiffness('triangle', 2, 32, checkerboard(1000)).A;
     const b = randomVector(A.nRows, 3);

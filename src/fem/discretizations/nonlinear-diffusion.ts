@@ -160,7 +160,8 @@ export function solveNonlinearDiffusion(input: NonlinearDiffusionInput): Nonline
     // GMRES with multigrid from a few hundred unknowns on (with ILU(0), as 'auto' picks below 5000 unknowns, the
     // Jacobians took 280–360 GMRES iterations per Newton step at 4225 P2 unknowns; measured).
     const preconditioner = input.solver?.preconditioner ?? (sys.A.nRows > AUTO_DIRECT_MAX_N ? 'amg' : undefined);
-    const { x, stats } = solveSystem(sys.A, sys.b, { relTol: 1e-12, ...input.solver, preconditioner, symmetric: false });
+    // Every Newton step solves again: the multigrid's memory is kept from one to the next (the level gives it back).
+    const { x, stats } = solveSystem(sys.A, sys.b, { relTol: 1e-12, ...input.solver, keepMemory: true, preconditioner, symmetric: false });
     tSolve += (performance.now() - ts) / 1e3;
     const delta = expand(sys, x);
     for (let i = 0; i < delta.length; i++) U.current[i] += delta[i];

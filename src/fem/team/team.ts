@@ -57,6 +57,11 @@ export function setTeamThreads(threads: number): void {
   if (team && team.started < threads - 1) { team.close(); team = null; }
 }
 
+/** The process's team if one was started, else null (for work that only concerns a team already running). */
+export function startedTeam(): CellTeam | null {
+  return team;
+}
+
 /** The process's team (started on first use). */
 export function cellTeam(): CellTeam {
   if (!team) team = makeTeam(isMainThread ? teamThreads() - 1 : 0);

@@ -2,7 +2,12 @@
  *  PartTeam: part p sweeps interior p (or prolongs run p of rows) with the kernels of sparse.wat, on the arena's shared memory, in whichever thread takes it. The main thread's parts run
  *  the same kernels on the same memory (wasm-cycle.ts seamPart), so every part is the same operations on the same
  *  values wherever it runs. */
-import { instantiateKernels } from '../kernels/arena.ts';
+import { dropKeptMemory, instantiateKernels } from '../kernels/arena.ts';
+import { taskUrl } from '../../files/task-url.ts';
+import type { PartTeam } from '../types.ts';
+
+/** This module's URL, for the team's workers. */
+export const SEAM_TASK = taskUrl(import.meta.url, 'seam-task');
 import type { SparseKernels } from '../kernels/sparse-kernels.ts';
 
 export type SeamOp = 'forward' | 'backward' | 'product' | 'prolong';
@@ -37,6 +42,8 @@ export function seamPart(k: SparseKernels, f: SeamPhase, p: number): number {
 let current: { id: number; kernels: SparseKernels } | null = null;
 
 export function prepare(input: unknown): (part: number) => void {
+  // A job that only lets go of the kernels (and with them the arena's memory): see releaseArenaMemory.
+  if ((input as { forget?: boolean }).forget) { current = null; return () => {}; }
   const f = input as SeamPhase;
   if (!current || current.id !== f.memoryId) {
     const kernels = instantiateKernels(f.memory);
@@ -48,4 +55,14 @@ export function prepare(input: unknown): (part: number) => void {
     const bx = seamPart(k, f, p);
     if (f.op === 'product') f.sums[p] = bx;
   };
+}
+
+/** Lets go of the memory the arenas keep for the next solve, in this thread and (by a job that makes the workers
+ *  forget their kernels, after which they collect) in the team's: for when no multigrid solve is left to run. The
+ *  memory is given back once this thread has collected too (collect.ts); returns whether any was kept. */
+export function releaseArenaMemory(team?: PartTeam): boolean {
+  const kept = dropKeptMemory();
+  current = null;
+  if (kept && team && team.workers > 0) team.run(SEAM_TASK, { forget: true }, team.workers + 1, () => {});
+  return kept;
 }

@@ -191,7 +191,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const coarsest = levels[levels.length - 1].A.nRows;
   return {
     hierarchy,
-    preconditioner: packed ? wasmCyclePreconditioner(packed, opts.team) : vCyclePreconditioner(hierarchy),
+    preconditioner: packed ? wasmCyclePreconditioner(packed, opts.team, opts.keepMemory ?? true) : vCyclePreconditioner(hierarchy),
     stats: {
       levels: levels.length,
       operatorComplexity: nnzSum / nnz0,

@@ -57,6 +57,9 @@ export interface AmgOptions {
   seamOrder?: boolean;
   /** Threads that sweep the interiors of seam-ordered levels beside this one (WebAssembly cycle only). */
   team?: PartTeam;
+  /** false: dispose() gives the arena's memory back (seam-task.ts releaseArenaMemory) instead of keeping it for the
+   *  next setup, which would find its pages resident. Default true. */
+  keepMemory?: boolean;
 }
 
 export interface FirstCoarseSpace {

@@ -8,11 +8,9 @@ import type { Csr, PartTeam, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
 import type { PackedHierarchy } from './pack.ts';
 import type { SeamLayout } from './seams.ts';
-import { seamPart, type SeamOp, type SeamPhase } from './seam-task.ts';
+import { releaseArenaMemory, SEAM_TASK, seamPart, type SeamOp, type SeamPhase } from './seam-task.ts';
 import { memoryId } from '../kernels/arena.ts';
-import { taskUrl } from '../../files/task-url.ts';
 
-const SEAM_TASK = taskUrl(import.meta.url, 'seam-task');
 
 /** Byte offsets of a level's arrays inside the arena. */
 interface LevelPointers {
@@ -36,7 +34,7 @@ function levelPointers(L: AmgLevel): LevelPointers {
   };
 }
 
-export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam): Preconditioner {
+export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam, keepMemory = true): Preconditioner {
   const { hierarchy: h, arena, staging, spares } = packed;
   const k = arena.kernels;
   const { coarse, symmetric } = h;
@@ -218,7 +216,10 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam
       const v = n === levels[0].n ? spares.pop() : undefined;
       return v ?? new Float64Array(n);
     },
-    dispose(): void { arena.release(); },
+    dispose(): void {
+      arena.release();
+      if (keepMemory === false) releaseArenaMemory(team);
+    },
     release(v: Float64Array): void {
       if (arena.owns(v) && v.length === levels[0].n && !spares.includes(v)) spares.push(v);
     },

@@ -34,6 +34,14 @@ let compiled: WebAssembly.Module | null | undefined;
 /** The memory of the last arena released (see Arena.release), with its high-water mark. */
 let released: { memory: WebAssembly.Memory; touched: number } | null = null;
 
+/** Forgets the memory kept for the next arena (Arena.release), so that its pages (a few hundred MB after a
+ *  1M-unknown hierarchy) are given back once collected; whether any was kept. */
+export function dropKeptMemory(): boolean {
+  const had = released !== null;
+  released = null;
+  return had;
+}
+
 /** The compiled kernel module, or null where WebAssembly is unavailable. */
 function kernelModule(): WebAssembly.Module | null {
   if (compiled === undefined) {
