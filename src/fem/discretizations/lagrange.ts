@@ -1,5 +1,4 @@
-import { SEAM_MIN_ROWS } from '../../linalg/amg/seams.ts';
-import { cellTeam } from '../team/team.ts';
+import { solverTeam } from '../team/team.ts';
 import type { Mesh } from '../../mesh/types.ts';
 import type { SolveStats } from '../../linalg/types.ts';
 import { solveSystem, type SolveSystemOptions } from '../../linalg/index.ts';
@@ -39,7 +38,7 @@ export function solveLagrange(input: LagrangeSolveInput): LagrangeSolution {
   const system = assembleSystem(space, input.coefficients, input.boundary, { quadrature: input.quadrature });
   const t2 = performance.now();
   // The cell team sweeps the interiors of the multigrid's seam-ordered levels, which only large systems have.
-  const team = system.A.nRows >= SEAM_MIN_ROWS ? cellTeam() : undefined;
+  const team = solverTeam(system.A.nRows);
   // A form without convection is symmetric by construction (each entry and its transpose are the same products of the
   // same cell terms), so CG's O(nnz) symmetry check is skipped (80 ms over the P1 ladder).
   const { x, stats } = solveSystem(system.A, system.b, {

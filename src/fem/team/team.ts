@@ -2,6 +2,7 @@ import { availableParallelism } from 'node:os';
 import { isMainThread, Worker } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
 import { taskUrl } from '../../files/task-url.ts';
+import { SEAM_MIN_ROWS } from '../../linalg/amg/seams.ts';
 
 /**
  * The cell team: worker threads, started once per process and kept (unreferenced, so they never keep it alive), that
@@ -55,6 +56,13 @@ export function setTeamThreads(threads: number): void {
   if (!(Number.isInteger(threads) && threads >= 1)) throw new Error(`setTeamThreads: threads must be an integer ≥ 1, got ${threads}`);
   wanted = threads;
   if (team && team.started < threads - 1) { team.close(); team = null; }
+}
+
+/** The team for a multigrid solve of this many unknowns: the cell team when the system is large enough to have
+ *  seam-ordered levels (linalg/amg/seams.ts), whose interiors it sweeps; undefined for smaller systems, which would
+ *  only pay for starting workers. */
+export function solverTeam(rows: number): CellTeam | undefined {
+  return rows >= SEAM_MIN_ROWS ? cellTeam() : undefined;
 }
 
 /** The process's team if one was started, else null (for work that only concerns a team already running). */
