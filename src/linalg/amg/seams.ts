@@ -17,10 +17,11 @@
  * uses: forward from zero with the residual, backward, backward with A x), and only when it has SEAM_MIN_ROWS rows
  * or more and its interiors hold SEAM_MIN_INTERIOR of them; any other level keeps the natural order.
  *
- * The loops below are the reference of the *Rows kernels of src/linalg/kernels/sparse.wat (the same operations in
- * the same order), as smoother.ts is of the others.
+ * The sweeps are smoother.ts's on ranges of rows, plus seamForwardWithResidual below: the reference of the *Rows
+ * kernels of src/linalg/kernels/sparse.wat (the same operations in the same order).
  */
 import type { Csr } from '../types.ts';
+import { backwardSweep, backwardSweepWithProduct, forwardSweepFromZeroWithResidual } from './smoother.ts';
 
 /** Parts per level: enough for 8 threads, few enough that the seams stay a few per cent of a large level's rows. */
 export const SEAM_PARTS = 8;
@@ -70,22 +71,6 @@ export function seamLayout(A: Csr, parts = SEAM_PARTS, minRows = SEAM_MIN_ROWS, 
   return { interiors, seams: Int32Array.from(seams), interiorRows };
 }
 
-/** forwardSweepFromZeroWithResidual of smoother.ts on rows [first, last). */
-export function interiorForwardWithResidual(
-  A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, r: Float64Array, first: number, last: number,
-): void {
-  const { rowPtr, colIdx, values } = A;
-  for (let i = first; i < last; i++) {
-    const lo = rowPtr[i], end = diagPos[i];
-    let s = b[i];
-    for (let k = lo; k < end; k++) s -= values[k] * x[colIdx[k]];
-    const xi = s * invDiag[i];
-    x[i] = xi;
-    r[i] = 0;
-    for (let k = lo; k < end; k++) r[colIdx[k]] -= values[k] * xi;
-  }
-}
-
 /** Seam rows [first, last) of the forward sweep with residual: each row solved from all of x (upper part with the
  *  diagonal from the row's end down, then the lower part), x_i += δ, r_i = 0, then −a_ij δ into r_j for every j ≠ i.
  *  Rows swept before it (every interior, the earlier seams) get their share of r; rows swept after it reset theirs. */
@@ -105,46 +90,6 @@ export function seamForwardWithResidual(
   }
 }
 
-/** backwardSweep of smoother.ts on rows last − 1 down to first. */
-export function backwardRows(
-  A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, first: number, last: number,
-): void {
-  const { rowPtr, colIdx, values } = A;
-  for (let i = last - 1; i >= first; i--) {
-    let s = b[i];
-    const d = diagPos[i];
-    for (let k = rowPtr[i]; k <= d; k++) s -= values[k] * x[colIdx[k]];
-    for (let k = rowPtr[i + 1] - 1; k > d; k--) s -= values[k] * x[colIdx[k]];
-    x[i] += s * invDiag[i];
-  }
-}
-
-/** backwardSweepWithProduct of smoother.ts on rows last − 1 down to first, returning their b·x summed from 0; each
- *  row also adds a_ij δ_i into w_j for its columns j < low (after its upper part): an interior's rows come after the
- *  seam below it in the backward order, so that seam's A x needs their corrections. */
-export function backwardWithProductRows(
-  A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, w: Float64Array,
-  first: number, last: number, low: number,
-): number {
-  const { rowPtr, colIdx, values } = A;
-  let bx = 0;
-  for (let i = last - 1; i >= first; i--) {
-    const bi = b[i];
-    let s = bi;
-    const lo = rowPtr[i], d = diagPos[i], end = rowPtr[i + 1];
-    for (let k = lo; k <= d; k++) s -= values[k] * x[colIdx[k]];
-    for (let k = end - 1; k > d; k--) s -= values[k] * x[colIdx[k]];
-    const delta = s * invDiag[i];
-    const xi = x[i] + delta;
-    x[i] = xi;
-    w[i] = bi;
-    for (let k = d + 1; k < end; k++) w[colIdx[k]] += values[k] * delta;
-    for (let k = lo; k < d && colIdx[k] < low; k++) w[colIdx[k]] += values[k] * delta;
-    bx += bi * xi;
-  }
-  return bx;
-}
-
 /** Runs part p of a phase: the hook a caller with threads replaces (each part touches only its own rows). */
 export type PartRunner = (parts: number, run: (p: number) => void) => void;
 const inOrder: PartRunner = (parts, run) => { for (let p = 0; p < parts; p++) run(p); };
@@ -157,7 +102,7 @@ export function seamForwardFromZeroWithResidual(
 ): void {
   const { interiors, seams } = layout;
   for (let s = 0; s < seams.length; s += 2) x.fill(0, seams[s], seams[s + 1]);
-  parts(interiors.length / 2, (p) => interiorForwardWithResidual(A, diagPos, invDiag, b, x, r, interiors[2 * p], interiors[2 * p + 1]));
+  parts(interiors.length / 2, (p) => forwardSweepFromZeroWithResidual(A, diagPos, invDiag, b, x, r, interiors[2 * p], interiors[2 * p + 1]));
   for (let s = 0; s < seams.length; s += 2) seamForwardWithResidual(A, diagPos, invDiag, b, x, r, seams[s], seams[s + 1]);
 }
 
@@ -167,8 +112,8 @@ export function seamBackward(
   parts: PartRunner = inOrder,
 ): void {
   const { interiors, seams } = layout;
-  for (let s = seams.length - 2; s >= 0; s -= 2) backwardRows(A, diagPos, invDiag, b, x, seams[s], seams[s + 1]);
-  parts(interiors.length / 2, (p) => backwardRows(A, diagPos, invDiag, b, x, interiors[2 * p], interiors[2 * p + 1]));
+  for (let s = seams.length - 2; s >= 0; s -= 2) backwardSweep(A, diagPos, invDiag, b, x, seams[s], seams[s + 1]);
+  parts(interiors.length / 2, (p) => backwardSweep(A, diagPos, invDiag, b, x, interiors[2 * p], interiors[2 * p + 1]));
 }
 
 /** The backward sweep in seam order that also leaves w = A x and returns b·x (symmetric A): the seams' share summed
@@ -180,9 +125,9 @@ export function seamBackwardWithProduct(
 ): number {
   const { interiors, seams } = layout;
   let bx = 0;
-  for (let s = seams.length - 2; s >= 0; s -= 2) bx += backwardWithProductRows(A, diagPos, invDiag, b, x, w, seams[s], seams[s + 1], 0);
+  for (let s = seams.length - 2; s >= 0; s -= 2) bx += backwardSweepWithProduct(A, diagPos, invDiag, b, x, w, seams[s], seams[s + 1]);
   parts(interiors.length / 2, (p) => {
-    sums[p] = backwardWithProductRows(A, diagPos, invDiag, b, x, w, interiors[2 * p], interiors[2 * p + 1], interiors[2 * p]);
+    sums[p] = backwardSweepWithProduct(A, diagPos, invDiag, b, x, w, interiors[2 * p], interiors[2 * p + 1], interiors[2 * p]);
   });
   for (let p = interiors.length / 2 - 1; p >= 0; p--) bx += sums[p];
   return bx;

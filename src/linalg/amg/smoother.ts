@@ -19,12 +19,14 @@ export function forwardSweepFromZero(A: Csr, diagPos: Int32Array, invDiag: Float
 
 /** Forward sweep from x = 0 that also leaves r = b − A x, for symmetric A, reading only the lower triangle.
  *  After the sweep b_i − Σ_{j≤i} a_ij x_j = 0, so r_i = −Σ_{j>i} a_ij x_j = −Σ_{j>i} a_ji x_j: row j scatters
- *  −a_ji x_j into r_i for its lower entries i < j as soon as x_j is known. */
+ *  −a_ji x_j into r_i for its lower entries i < j as soon as x_j is known. Rows first … last − 1 only (the interior
+ *  of a part in seam order, seams.ts), all by default. */
 export function forwardSweepFromZeroWithResidual(
   A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, r: Float64Array,
+  first = 0, last = A.nRows,
 ): void {
-  const { nRows: n, rowPtr, colIdx, values } = A;
-  for (let i = 0; i < n; i++) {
+  const { rowPtr, colIdx, values } = A;
+  for (let i = first; i < last; i++) {
     const lo = rowPtr[i], end = diagPos[i];
     let s = b[i];
     for (let k = lo; k < end; k++) s -= values[k] * x[colIdx[k]];
@@ -66,10 +68,12 @@ export function forwardSweep(A: Csr, diagPos: Int32Array, invDiag: Float64Array,
   }
 }
 
-/** One backward Gauss–Seidel sweep (decreasing i). */
-export function backwardSweep(A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array): void {
-  const { nRows: n, rowPtr, colIdx, values } = A;
-  for (let i = n - 1; i >= 0; i--) {
+/** One backward Gauss–Seidel sweep (decreasing i), over rows last − 1 down to first (all by default). */
+export function backwardSweep(
+  A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, first = 0, last = A.nRows,
+): void {
+  const { rowPtr, colIdx, values } = A;
+  for (let i = last - 1; i >= first; i--) {
     let s = b[i];
     const d = diagPos[i];
     for (let k = rowPtr[i]; k <= d; k++) s -= values[k] * x[colIdx[k]];
@@ -80,23 +84,27 @@ export function backwardSweep(A: Csr, diagPos: Int32Array, invDiag: Float64Array
 
 /** Backward sweep that also leaves w = A x (symmetric A) and returns b·x, so a CG iteration needs no product with A.
  *  With δ_j the correction of row j, (A x)_i = b_i + Σ_{j<i} a_ij δ_j after the sweep: the rows below i are the
- *  ones still to be corrected when row i is done. Row j scatters a_ij δ_j = a_ji δ_j into w_i along its upper part. */
+ *  ones still to be corrected when row i is done. Row j scatters a_ij δ_j = a_ji δ_j into w_i along its upper part.
+ *  Over rows last − 1 down to first (all by default), b·x summed from 0 over them; each row also scatters into its
+ *  columns below `low` (none by default): in seam order an interior's rows come after the seam below it (seams.ts). */
 export function backwardSweepWithProduct(
   A: Csr, diagPos: Int32Array, invDiag: Float64Array, b: Float64Array, x: Float64Array, w: Float64Array,
+  first = 0, last = A.nRows, low = 0,
 ): number {
-  const { nRows: n, rowPtr, colIdx, values } = A;
+  const { rowPtr, colIdx, values } = A;
   let bx = 0;
-  for (let i = n - 1; i >= 0; i--) {
+  for (let i = last - 1; i >= first; i--) {
     const bi = b[i];
     let s = bi;
-    const d = diagPos[i], end = rowPtr[i + 1];
-    for (let k = rowPtr[i]; k <= d; k++) s -= values[k] * x[colIdx[k]];
+    const lo = rowPtr[i], d = diagPos[i], end = rowPtr[i + 1];
+    for (let k = lo; k <= d; k++) s -= values[k] * x[colIdx[k]];
     for (let k = end - 1; k > d; k--) s -= values[k] * x[colIdx[k]];
     const delta = s * invDiag[i];
     const xi = x[i] + delta;
     x[i] = xi;
     w[i] = bi;
     for (let k = d + 1; k < end; k++) w[colIdx[k]] += values[k] * delta;
+    for (let k = lo; k < d && colIdx[k] < low; k++) w[colIdx[k]] += values[k] * delta;
     bx += bi * xi;
   }
   return bx;

@@ -6,7 +6,8 @@
 ;; inside ci/va, inv the inverse diagonal. Nothing may sit at offset 0 (the descending loops compare addresses
 ;; against the start of a row, which must stay above 4).
 ;; The *Rows kernels work on rows first … last − 1 of the same arrays (absolute row indices), for the seam-ordered
-;; Gauss–Seidel of amg/seams.ts, whose TypeScript reference they follow operation for operation.
+;; Gauss–Seidel of amg/seams.ts, whose TypeScript references (smoother.ts on ranges of rows, seams.ts) they follow
+;; operation for operation.
 ;; Regenerate src/linalg/kernels/sparse-wasm.ts after editing: npm run kernels
 (module
   ;; Shared memory (the threads proposal, standard since 2023): the cell team's workers run the same kernels on the
@@ -341,7 +342,7 @@
       (local.set $a (i32.add (local.get $a) (i32.const 8)))
       (br $l))))
 
-  ;; forwardSweepFromZeroWithResidual on rows first … last − 1 (a part's interior: seams.ts interiorForward).
+  ;; forwardSweepFromZeroWithResidual on rows first … last − 1 (a part's interior in seam order, amg/seams.ts).
   (func (export "forwardSweepFromZeroWithResidualRows") (param $first i32) (param $last i32) (param $rp i32) (param $ci i32)
     (param $va i32) (param $dp i32) (param $inv i32) (param $b i32) (param $x i32) (param $r i32)
     (local $i i32) (local $lc i32) (local $lv i32) (local $pc i32) (local $pv i32) (local $pe i32) (local $s f64) (local $xi f64)
@@ -385,7 +386,7 @@
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $rows))))
 
-  ;; A seam's rows in the forward sweep with residual (seams.ts seamForward): each row solved from all of x (upper
+  ;; A seam's rows in the forward sweep with residual (seams.ts seamForwardWithResidual): each row solved from all of x (upper
   ;; part and diagonal from the row's end down, then the lower part), x_i += δ, r_i = 0, and −a_ij δ scattered into
   ;; r_j for every j ≠ i (lower part, then upper part).
   (func (export "seamSweepWithResidualRows") (param $first i32) (param $last i32) (param $rp i32) (param $ci i32)
@@ -473,7 +474,7 @@
       (br $rows))))
 
   ;; backwardSweepWithProduct on rows last − 1 down to first, returning this range's b·x from 0; each row also
-  ;; scatters a_ij δ_i into w_j for its columns j < low, after its upper part (seams.ts backwardWithProductRows).
+  ;; scatters a_ij δ_i into w_j for its columns j < low, after its upper part (smoother.ts backwardSweepWithProduct).
   (func (export "backwardSweepWithProductRows") (param $first i32) (param $last i32) (param $low i32) (param $rp i32)
     (param $ci i32) (param $va i32) (param $dp i32) (param $inv i32) (param $b i32) (param $x i32) (param $w i32) (result f64)
     (local $i i32) (local $dc i32) (local $ec i32) (local $pc i32) (local $pv i32) (local $s f64) (local $a i32)
