@@ -2,7 +2,8 @@
  *  grid transfers run by the kernels of src/linalg/kernels/sparse.wat: the same operations in the same order, so
  *  the same bits, 3.7× as fast as the TypeScript cycle on the 1M P1 matrix (measured, test/bench/kernels.bench.ts).
  *  Vectors the caller passes from outside the arena are copied through staging vectors; a Krylov solver avoids
- *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle. */
+ *  that by taking its vectors from Preconditioner.vector. Nothing is allocated per cycle but, with a team, the small
+ *  descriptor of each phase it shares (seam-ordered sweeps and prolongation: seams.ts, seam-task.ts). */
 import { javascriptCgSteps, residualInto, spmvDot } from '../cg-steps.ts';
 import type { Csr, PartTeam, Preconditioner } from '../types.ts';
 import type { AmgLevel } from './types.ts';
@@ -10,7 +11,6 @@ import type { PackedHierarchy } from './pack.ts';
 import type { SeamLayout } from './seams.ts';
 import { releaseArenaMemory, SEAM_TASK, seamPart, type SeamOp, type SeamPhase } from './seam-task.ts';
 import { memoryId } from '../kernels/arena.ts';
-
 
 /** Byte offsets of a level's arrays inside the arena. */
 interface LevelPointers {
