@@ -77,6 +77,9 @@ export function cellDensities(mesh: Mesh, cellIntegrals: ArrayLike<number>): Flo
   return out;
 }
 
+/** The cell of each pixel, by mesh and raster size (rasterizeCells). */
+const located = new WeakMap<Mesh, Map<string, Int32Array>>();
+
 /**
  * The map of `perCell` (one value per cell) on `mesh`: a raster in 2D, the mid-plane slice z = (z0 + z1)/2 in 3D, the
  * profile in 1D (see ErrorMap).
@@ -87,9 +90,6 @@ export function cellDensities(mesh: Mesh, cellIntegrals: ArrayLike<number>): Flo
  * of a bounded number of cells, so the work is O(cells + pixels); in 3D only the cells that cross the plane visit any
  * pixel. Typed arrays throughout, nothing allocated per cell or per pixel.
  */
-/** The cell of each pixel, by mesh and raster size (rasterizeCells). */
-const located = new WeakMap<Mesh, Map<string, Int32Array>>();
-
 export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: RasterOptions = {}): ErrorMap {
   if (perCell.length !== mesh.nCells) {
     throw new RungsInputError(`per-cell values: expected one per cell (${mesh.nCells}), got ${perCell.length}`, 'perCell');
@@ -105,7 +105,7 @@ export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: Ras
   }
   const nx = width >= height ? maxPixels : Math.max(1, Math.round((maxPixels * width) / height));
   const ny = height >= width ? maxPixels : Math.max(1, Math.round((maxPixels * height) / width));
-  const slice: { axis: 'z'; at: number } | undefined = mesh.dim === 3 ? { axis: 'z', at: (box.min[2]! + box.max[2]! ) / 2 } : undefined;
+  const slice: { axis: 'z'; at: number } | undefined = mesh.dim === 3 ? { axis: 'z', at: (box.min[2]! + box.max[2]!) / 2 } : undefined;
   // The pixels' cells depend on the mesh and the raster only: located once for every map of the same mesh (the finest
   // level draws two, one per norm: 2M triangles each time on the P1 ladder).
   const key = `${nx}×${ny}`;

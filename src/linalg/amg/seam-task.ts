@@ -1,14 +1,14 @@
 /** The interiors of a seam-ordered sweep (seams.ts), and the prolongation to a seam-ordered level, as a task of a
- *  PartTeam: part p sweeps interior p (or prolongs run p of rows) with the kernels of sparse.wat, on the arena's shared memory, in whichever thread takes it. The main thread's parts run
- *  the same kernels on the same memory (wasm-cycle.ts seamPart), so every part is the same operations on the same
- *  values wherever it runs. */
+ *  PartTeam: part p sweeps interior p (or prolongs run p of rows) with the kernels of sparse.wat, on the arena's
+ *  shared memory, in whichever thread takes it. The main thread's parts run the same kernels on the same memory
+ *  (wasm-cycle.ts, through seamPart), so every part is the same operations on the same values wherever it runs. */
 import { dropKeptMemory, instantiateKernels } from '../kernels/arena.ts';
+import type { SparseKernels } from '../kernels/sparse-kernels.ts';
 import { taskUrl } from '../../files/task-url.ts';
 import type { PartTeam } from '../types.ts';
 
 /** This module's URL, for the team's workers. */
 export const SEAM_TASK = taskUrl(import.meta.url, 'seam-task');
-import type { SparseKernels } from '../kernels/sparse-kernels.ts';
 
 export type SeamOp = 'forward' | 'backward' | 'product' | 'prolong';
 
