@@ -14,6 +14,9 @@ export const LADDERS = {
 
 export type LadderName = keyof typeof LADDERS;
 
+/** The manufactured solution of every ladder. */
+const EXACT = 'sin(pi*x) * sin(pi*y)';
+
 /** −Δu = f (or −∇·(k∇u) = f) on the unit square in right-diagonal triangles, u = sin(πx) sin(πy) on the whole
  *  boundary (the default Dirichlet sides), L2 and H1 seminorm errors. */
 export function ladderStudy(which: LadderName) {
@@ -21,10 +24,30 @@ export function ladderStudy(which: LadderName) {
   return defineStudy({
     name: `bench-${which}`,
     domain: rectangle([0, 1], [0, 1]),
-    exact: 'sin(pi*x) * sin(pi*y)',
+    exact: EXACT,
     ...(s.k ? { coefficients: { k: s.k }, solver: { errorFraction: 0, relTol: 1e-10 } } : {}),
     discretization: lagrange({ degree: s.degree }),
     ladder: { n: [...s.n] },
     norms: ['L2', 'H1semi'],
   });
+}
+
+/** The same study as the text of a study file that imports 'rungs' as a user's does (rungs resolves it to itself), for
+ *  runs of the command as installed (peers.bench.ts); `name` and `n` replace the ladder's own. */
+export function ladderStudyFile(which: LadderName, name: string, n: readonly number[] = LADDERS[which].n): string {
+  const s = LADDERS[which];
+  return [
+    `// ${name}: the ${which} ladder of rungs's test/bench/ladder-studies.ts.`,
+    `import { defineStudy, rectangle, lagrange } from 'rungs';`,
+    `export default defineStudy({`,
+    `  name: ${JSON.stringify(name)},`,
+    `  domain: rectangle([0, 1], [0, 1]),`,
+    `  exact: ${JSON.stringify(EXACT)},`,
+    ...(s.k ? [`  coefficients: { k: ${JSON.stringify(s.k)} },`, `  solver: { errorFraction: 0, relTol: 1e-10 },`] : []),
+    `  discretization: lagrange({ degree: ${s.degree} }),`,
+    `  ladder: { n: [${n.join(', ')}] },`,
+    `  norms: ['L2', 'H1semi'],`,
+    `});`,
+    '',
+  ].join('\n');
 }

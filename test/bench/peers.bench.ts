@@ -1,7 +1,7 @@
 /**
  * rungs against hand-written peers on the seven-level P1 ladder of study.bench.ts (16² … 1024² squares, mesh to
- * errors), each as a whole process: `rungs run` of that study (a study file in a temporary folder that imports it
- * from ladder-studies.ts; reports written as a user's run writes them) and peers/p1_ladder.py, the same problem
+ * errors), each as a whole process: `rungs run` of that study as installed (installed.ts: compiled dist/; the study
+ * file, in a temporary folder, imports 'rungs' as a user's does; reports written as a user's run writes them) and peers/p1_ladder.py, the same problem
  * assembled with NumPy/SciPy and solved by pyamg's smoothed aggregation + CG, and, with --direct, by SciPy's sparse
  * direct solver. Runs alternate (rungs, pyamg, direct, rungs, …) so that a shared machine's load falls on all alike;
  * median wall times and the ratios are printed with the machine and the load average.
@@ -21,9 +21,10 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fileURLToPath } from 'node:url';
 import { printFigure } from './figures.ts';
-import { LADDERS } from './ladder-studies.ts';
+import { LADDERS, ladderStudyFile } from './ladder-studies.ts';
+import { installedLayout } from './installed.ts';
 
 const TARGET_PYAMG = 0.5;
 const TARGET_DIRECT = 0.1;
@@ -59,14 +60,10 @@ if (probe.status !== 0) {
 
 const root = mkdtempSync(join(tmpdir(), 'rungs-peers-'));
 const study = join(root, 'p1-ladder.study.ts');
-const levelsAt = levels.join(', ');
-writeFileSync(study, [
-  `// The P1 ladder of test/bench/study.bench.ts, for peers.bench.ts.`,
-  `import { ladderStudy } from ${JSON.stringify(pathToFileURL(join(here, 'ladder-studies.ts')).href)};`,
-  `const s = ladderStudy('p1');`,
-  `export default { ...s, name: 'p1-ladder', ladder: { ...s.ladder, n: [${levelsAt}] } };`,
-  '',
-].join('\n'));
+writeFileSync(study, ladderStudyFile('p1', 'p1-ladder', levels));
+// rungs as a user runs it: the installed layout (compiled dist/, no TypeScript compiled on the fly; a checkout's
+// bin/rungs.mjs would compile src/ through tsx at every start, about 0.3 s more of this ladder).
+const rungsBin = installedLayout(repo, root);
 
 interface Level { n: number; L2: number; H1semi: number; iterations: number; relativeResidual: number }
 interface Run { wall: number; levels: Level[]; text: string }
@@ -81,7 +78,7 @@ function timed(cmd: string, argv: string[], env: NodeJS.ProcessEnv): { wall: num
 
 let round = 0;
 function runRungs(): Run {
-  const { wall, stdout } = timed(process.execPath, [join(repo, 'bin', 'rungs.mjs'), 'run', study, '--out', join(root, `out-${round}`), '--json'], { ...process.env, NO_COLOR: '1' });
+  const { wall, stdout } = timed(process.execPath, [rungsBin, 'run', study, '--out', join(root, `out-${round}`), '--json'], { ...process.env, NO_COLOR: '1' });
   const result = JSON.parse(stdout) as Array<{ levels: Array<{ n: number; errors: Record<string, number>; solver?: { iterations: number; relativeResidual: number } }> }>;
   const lv = result[0]!.levels.map((l) => ({ n: l.n, L2: l.errors.L2!, H1semi: l.errors.H1semi!, iterations: l.solver?.iterations ?? NaN, relativeResidual: l.solver?.relativeResidual ?? NaN }));
   return { wall, levels: lv, text: '' };

@@ -4,31 +4,26 @@
 // checkout's; the commands run interleaved, so a change of load touches all of them alike. The run from the source
 // (a checkout's bin/rungs.mjs: tsx compiling src/) is timed too, for comparison.
 // Run: npx tsx test/bench/startup.bench.ts [rounds, default 9]
-import { execFileSync, spawnSync } from 'node:child_process';
-import { cpSync, mkdirSync, mkdtempSync, rmSync, symlinkSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { cpSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { printFigure } from './figures.ts';
+import { installedLayout } from './installed.ts';
 
 const rounds = Number(process.argv[2] ?? 9);
 const repo = resolve('.');
 const root = mkdtempSync(join(tmpdir(), 'rungs-startup-'));
-const pkg = join(root, 'rungs');
-mkdirSync(pkg);
-for (const f of ['package.json', 'tsconfig.json', 'tsconfig.build.json', 'bin', 'src']) cpSync(join(repo, f), join(pkg, f), { recursive: true });
-symlinkSync(join(repo, 'node_modules'), join(pkg, 'node_modules'), 'dir');
-execFileSync(process.execPath, [join(repo, 'node_modules', 'typescript', 'bin', 'tsc'), '-p', join(pkg, 'tsconfig.build.json')], { stdio: 'inherit' });
-// As installed: the package ships no src/ (and no tsconfig), so bin/rungs.mjs runs dist/.
-for (const f of ['src', 'tsconfig.json', 'tsconfig.build.json']) rmSync(join(pkg, f), { recursive: true });
+const bin = installedLayout(repo, root);
 const study = join(root, 'studies', 'rod-p1.study.ts');
 mkdirSync(join(root, 'studies'));
 cpSync(join(repo, 'studies', 'rod-p1.study.ts'), study);
 
 const commands: Record<string, string[]> = {
   'node -e 1': ['-e', '1'],
-  'rungs --version': [join(pkg, 'bin', 'rungs.mjs'), '--version'],
-  'rungs --help': [join(pkg, 'bin', 'rungs.mjs'), '--help'],
-  'rungs run rod-p1': [join(pkg, 'bin', 'rungs.mjs'), 'run', study, '--out', join(root, 'reports'), '--quiet'],
+  'rungs --version': [bin, '--version'],
+  'rungs --help': [bin, '--help'],
+  'rungs run rod-p1': [bin, 'run', study, '--out', join(root, 'reports'), '--quiet'],
   'from source: rungs --version': [join(repo, 'bin', 'rungs.mjs'), '--version'],
   'from source: rungs run rod-p1': [join(repo, 'bin', 'rungs.mjs'), 'run', study, '--out', join(root, 'reports-source'), '--quiet'],
 };
