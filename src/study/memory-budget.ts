@@ -15,7 +15,7 @@ import type { StudyDeclaration } from './declaration.ts';
  *   P1 263 169 → 1 050 625 unknowns: 79 → 456 MiB above the baseline (455 B/unknown at 1M), slope 501 B/unknown;
  *   P2 263 169 → 1 050 625 unknowns: 115 → 562 MiB (561 B/unknown at 1M), slope 595 B/unknown;
  *   P3 264 196 → 1 048 576 unknowns: 161 → 773 MiB (773 B/unknown at 1M), slope 818 B/unknown (relTol 1e-10).
- * README's Performance table agrees (peak RSS 0.69 GB for P1, 0.85 GB for P2 at 1.05M unknowns, baseline included).
+ * docs/performance-history.md agrees (peak RSS 0.69 GB for P1, 0.85 GB for P2 at 1.05M unknowns, baseline included).
  * Rounded up by about a fifth: coefficients, quadrilaterals and perturbed meshes add nonzeros per row. The fixed part
  * of the fit came out negative (−47, −34, −45 MiB: small levels cost less per unknown), so the estimate is the slope
  * times the unknowns and nothing else.

@@ -129,8 +129,8 @@ function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Arra
   return out;
 }
 
-/** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s, base64
- *  1.4 s on 2M cells; raw: README "Performance"). Written in the background (the kernel's copy of 128 MB takes about
+/** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s,
+ *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of 128 MB takes about
  *  0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on the file. */
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);

@@ -88,3 +88,15 @@ export function figureTable(rows: readonly FigureRow[]): string[] {
   }
   return lines;
 }
+
+/** The lines of README.md between which `npm run bench -- --readme` writes the summary (heading and table). */
+export const README_BEGIN = '<!-- bench summary: written by `npm run bench -- --readme`; rerun it rather than editing these lines -->';
+export const README_END = '<!-- end of bench summary -->';
+
+/** `text` with what lies between the lines `begin` and `end` replaced by `body` (the marker lines kept), or null when
+ *  the markers are missing, out of order or not each there once. */
+export function replaceBetween(text: string, begin: string, end: string, body: string): string | null {
+  const a = text.indexOf(begin), b = text.indexOf(end);
+  if (a < 0 || b < a || text.indexOf(begin, a + 1) >= 0 || text.indexOf(end, b + 1) >= 0) return null;
+  return text.slice(0, a + begin.length) + '\n' + body.replace(/\n*$/, '\n') + text.slice(b);
+}

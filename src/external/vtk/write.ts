@@ -22,7 +22,7 @@
 // then rename), never whole in memory. Measured on the 1M-unknown P1 level (999² squares in triangles, u_h and u at
 // the vertices, two densities per cell; 2 shared cores AMD EPYC, test/bench/error-densities.bench.ts): ASCII 4.2 s
 // for 230 MB, binary 1.4 s for 152 MB. Raw against binary on the 2M-cell level of the P1 ladder (u_h, u and the
-// error at the vertices, two densities per cell), same process alternating: see README "Performance".
+// error at the vertices, two densities per cell), same process alternating: see docs/performance-history.md.
 import { endianness } from 'node:os';
 import { RungsInputError } from '../../errors.ts';
 import { VTK_CELL_TYPES, vtkCellTypeName } from './cell-types.ts';
