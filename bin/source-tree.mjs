@@ -25,14 +25,16 @@ export function useSourceTree() {
 /**
  * For a worker thread's entry, a plain .mjs file beside its module (`stem`.ts in src/, `stem`.js once compiled into
  * dist/): imports that module as the tree it lives in requires. From the source, with useSourceTree; compiled, with
- * tsx's loader only, since a worker may load study files, which are TypeScript.
+ * tsx's loader only when the worker may load study files, which are TypeScript (a level pool's worker: studies true);
+ * the cell team's and the load worker's tasks are rungs's own compiled modules, and registering tsx would delay
+ * their first part by about 0.1 s.
  */
-export async function importWorkerModule(entryUrl, stem) {
+export async function importWorkerModule(entryUrl, stem, { studies = true } = {}) {
   const source = new URL(`./${stem}.ts`, entryUrl);
   if (existsSync(source)) {
     useSourceTree();
     return import(source.href);
   }
-  registerTsx();
+  if (studies) registerTsx();
   return import(new URL(`./${stem}.js`, entryUrl).href);
 }

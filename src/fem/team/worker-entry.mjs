@@ -2,4 +2,4 @@
 // the thread: worker.ts from a checkout's source (tsx), worker.js in the compiled package (bin/source-tree.mjs, reached
 // by the same path from src/fem/team/ and dist/fem/team/).
 const { importWorkerModule } = await import(new URL('../../../bin/source-tree.mjs', import.meta.url).href);
-await importWorkerModule(import.meta.url, 'worker');
+await importWorkerModule(import.meta.url, 'worker', { studies: false });
