@@ -38,18 +38,12 @@ export interface ParentCells {
  * NESTED_MEASURE_TOLERANCE; otherwise `nested` is false with a reason naming the first failing cell.
  */
 export function parentCells(coarse: Mesh, fine: Mesh): ParentCells {
-  const parent = new Int32Array(fine.nCells);
-  return completeParents(coarse, fine, parent, locateParents(coarse, fine, parent));
-}
-
-/** The first half of parentCells: parent[c] for each fine cell c (−1 where no coarse cell holds its centroid), and
- *  the first such orphan, or −1. Another thread may run it (src/study/nesting-ahead.ts): it reads the two meshes'
- *  cells and coordinates only and writes only `parent`. */
-export function locateParents(coarse: Mesh, fine: Mesh, parent: Int32Array): number {
   if (coarse.dim !== fine.dim) {
     throw new RungsInputError(`parent cells need meshes of one dimension, got ${coarse.dim}D and ${fine.dim}D`, 'meshes');
   }
   const grid = bucketGrid(coarse);
+  const parent = new Int32Array(fine.nCells).fill(-1);
+  const childCount = new Int32Array(coarse.nCells);
   const { dim, coords, cells } = fine;
   const n = fine.verticesPerCell;
   let orphan = -1;
@@ -63,16 +57,9 @@ export function locateParents(coarse: Mesh, fine: Mesh, parent: Int32Array): num
     }
     const found = locate(coarse, grid, px / n, py / n, pz / n);
     parent[c] = found;
-    if (found < 0 && orphan < 0) orphan = c;
+    if (found >= 0) childCount[found]!++;
+    else if (orphan < 0) orphan = c;
   }
-  return orphan;
-}
-
-/** The second half of parentCells, from locateParents' parents and first orphan: the children per coarse cell and
- *  whether the pair is nested. */
-export function completeParents(coarse: Mesh, fine: Mesh, parent: Int32Array, orphan: number): ParentCells {
-  const childCount = new Int32Array(coarse.nCells);
-  for (let c = 0; c < fine.nCells; c++) if (parent[c]! >= 0) childCount[parent[c]!]!++;
   if (orphan >= 0) {
     return { parent, childCount, nested: false, reason: `fine cell ${orphan} has its centroid in no coarse cell` };
   }

@@ -11,7 +11,6 @@ import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
 import { recordWhere } from './where.ts';
-import { nestAhead } from './nesting-ahead.ts';
 import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { collectGarbage } from '../linalg/kernels/collect.ts';
@@ -75,11 +74,6 @@ async function runLevelUnguarded(
   // A study's last level is its largest: the multigrid's memory is not kept for a next solve (about 300 MB after
   // 1M unknowns), but given back before the level's errors and error maps (otherwise the run's peak: P1 ladder).
   const last = env.total !== undefined && index === env.total - 1;
-  // The finest level's cells are located in the level before it (for the local orders, where.ts) by a worker of the
-  // cell team while this level runs (nesting-ahead.ts).
-  // (An external code's cell errors come on its own mesh, so its levels start nothing.)
-  const before = last && index > 0 && decl.discretization.kind !== 'external' ? env.cellErrorsOf?.(index - 1) : undefined;
-  if (before && before.h > h * (1 + 1e-9)) nestAhead(before.mesh, mesh);
   const running = disc.run({ decl, file, problem, index, n, mesh, time, norms, solver: last ? { ...solver, keepMemory: false } : solver, env });
   const external = decl.discretization.kind === 'external';
   // An external code meshes for itself (its discretization has read h): the mesh is let go while the level waits for

@@ -104,11 +104,7 @@ export function prepareStudy(loaded: LoadedStudy, opts: { levels?: number; out?:
     : undefined;
   const prepareSeconds = (performance.now() - t0) / 1e3;
   result.seconds = prepareSeconds;
-  const cellErrors = new Map<number, LevelCellErrors>();
-  return {
-    loaded, problem, norms, expected, total, solver, result, prepareSeconds, cellErrors,
-    env: { out, data, total, errorFiles: opts.errorFiles ?? false, cellErrorsOf: (index) => cellErrors.get(index) },
-  };
+  return { loaded, problem, norms, expected, total, solver, result, prepareSeconds, cellErrors: new Map(), env: { out, data, total, errorFiles: opts.errorFiles ?? false } };
 }
 
 function manufacturedWarnings(decl: StudyDeclaration, problem: ReturnType<typeof buildProblem>): string[] {

@@ -4,7 +4,7 @@ import type { Mesh } from '../mesh/types.ts';
 import type { DiscreteField } from '../norms/types.ts';
 import type { PerCellErrors } from '../norms/errors.ts';
 import { boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
-import { nestedParents } from './nesting-ahead.ts';
+import { parentCells } from '../mesh/nesting.ts';
 import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts';
 import { localOrders, summarizeLocalOrders } from '../analysis/local-orders.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
@@ -86,7 +86,7 @@ export function localOrderMap(
   coarse: LevelCellErrors, fine: LevelCellErrors, coarseIndex: number, expected: number | null = null, tolerance = DEFAULT_TOLERANCE,
 ): ErrorMapEntry | null {
   if (!(coarse.h > fine.h * (1 + 1e-9))) return null;
-  const nest = nestedParents(coarse.mesh, fine.mesh);
+  const nest = parentCells(coarse.mesh, fine.mesh);
   if (!nest.nested) return null;
   const orders = localOrders(coarse.L2, fine.L2, nest.parent, coarse.h / fine.h);
   const summary = summarizeLocalOrders(orders, cellMeasures(coarse.mesh), expected, tolerance);

@@ -15,12 +15,18 @@ export function locateFacets(mesh: Mesh): FacetCells {
   const hit = cache.get(mesh);
   if (hit) return hit;
   const { nCells, nVertices, cells, verticesPerCell: vpc, nFacets, facets, verticesPerFacet: vpf } = mesh;
+  // The cells around each facet's first vertex, in cell order: the only vertices searched from. An adjacency of every
+  // vertex cost 60 ms and 24 MB on the 2M triangles of a 1024² P1 level, for its 4096 boundary facets.
+  const searched = new Uint8Array(nVertices);
+  for (let f = 0; f < nFacets; f++) searched[facets[f * vpf]] = 1;
   const start = new Int32Array(nVertices + 1);
-  for (let i = 0; i < nCells * vpc; i++) start[cells[i] + 1]++;
+  for (let i = 0; i < nCells * vpc; i++) if (searched[cells[i]]) start[cells[i] + 1]++;
   for (let v = 0; v < nVertices; v++) start[v + 1] += start[v];
   const fill = start.slice(0, nVertices);
-  const adj = new Int32Array(nCells * vpc);
-  for (let c = 0; c < nCells; c++) for (let k = 0; k < vpc; k++) adj[fill[cells[c * vpc + k]]++] = c;
+  const adj = new Int32Array(start[nVertices]);
+  for (let c = 0; c < nCells; c++) {
+    for (let k = 0; k < vpc; k++) { const v = cells[c * vpc + k]; if (searched[v]) adj[fill[v]++] = c; }
+  }
   const localFacets = REFERENCE_FACETS[mesh.cellKind];
   const cell = new Int32Array(nFacets).fill(-1);
   const local = new Int32Array(nFacets).fill(-1);

@@ -30,20 +30,7 @@ export interface CellTeam {
   readonly partsElsewhere: number;
   /** Blocks until every worker has loaded and built one task (tests: so that workers surely take parts). */
   warm(): void;
-  /** Hands one part of `task` to a worker, to run in the background while this thread goes on; null without workers.
-   *  The job's `finish` then waits for it, or runs `here` instead when no worker has claimed it yet or the worker
-   *  failed, so the work is done exactly once either way (nesting-ahead.ts in src/study/). */
-  post(task: string, input: unknown): BackgroundJob | null;
   close(): void;
-}
-
-/** A part handed to a worker by CellTeam.post. */
-export interface BackgroundJob {
-  /** Waits until the worker is done with the part, or computes it here (`here`) when no worker has claimed it yet or
-   *  the worker failed; returns whether a worker computed it. Call once. */
-  finish(here: () => void): boolean;
-  /** Whether a worker has claimed the part (tests: to wait until it surely runs there). */
-  started(): boolean;
 }
 
 let team: CellTeam | null = null;
@@ -159,25 +146,6 @@ function makeTeam(nWorkers: number): CellTeam {
       for (let k = 0; k < n; k++) {
         while (Atomics.load(control, STATUS + k) === 0 && performance.now() < until) Atomics.wait(control, STATUS + k, 0, 100);
       }
-    },
-    post(task, input) {
-      const team = active();
-      if (team.length === 0) return null;
-      // One part, claimed by Atomics.add on NEXT like any job's: by the worker when it gets to it, or by finish().
-      const control = new Int32Array(new SharedArrayBuffer(4 * (STATUS + 1)));
-      const job: TeamJob = { task, input, control: control.buffer as SharedArrayBuffer, parts: 1 };
-      team[0]!.postMessage(job);
-      return {
-        finish(here) {
-          if (Atomics.add(control, NEXT, 1) === 0) { here(); return false; }
-          let s = Atomics.load(control, STATUS);
-          while (s === 0) { Atomics.wait(control, STATUS, 0, 200); s = Atomics.load(control, STATUS); }
-          if (s === FAILED) { here(); return false; }
-          elsewhere++;
-          return true;
-        },
-        started: () => Atomics.load(control, NEXT) > 0,
-      };
     },
     close() {
       for (const w of workers) void w.terminate();

@@ -19,9 +19,6 @@ export interface LevelEnvironment {
   errorFiles?: boolean;
   /** Runs an external level elsewhere (as a job of a scheduler, src/scheduler/); none: a child process of rungs. */
   levelRunner?: (disc: ExternalDiscretization, level: ExternalLevelInput) => LevelRunner;
-  /** The mesh and cell errors of an earlier level of the study when this thread has them (the runner's, for the local
-   *  orders of the finest pair), so that the finest level can start work on the pair ahead (src/study/level.ts). */
-  cellErrorsOf?: (index: number) => { mesh: Mesh; h: number } | undefined;
 }
 
 export interface LevelTime { T: number; steps: number; dt: number }
