@@ -84,6 +84,7 @@ function levelByteLengths(L: AmgLevel): number[] {
   const out = [...csrByteLengths(L.A), L.diagPos.byteLength, L.invDiag.byteLength, L.b.byteLength, L.x.byteLength,
     L.r.byteLength, L.rc.byteLength, L.dx.byteLength];
   if (L.P) out.push(...csrByteLengths(L.P));
+  if (L.R) out.push(...csrByteLengths(L.R));
   return out;
 }
 
@@ -98,7 +99,7 @@ export function packHierarchy(h: AmgHierarchy): PackedHierarchy | null {
   const csr = (A: Csr): Csr => ({ nRows: A.nRows, nCols: A.nCols, rowPtr: i32(A.rowPtr), colIdx: i32(A.colIdx), values: f64(A.values) });
   const levels = h.levels.map((L): AmgLevel => ({
     ...L,
-    A: csr(L.A), diagPos: i32(L.diagPos), invDiag: f64(L.invDiag), P: L.P && csr(L.P),
+    A: csr(L.A), diagPos: i32(L.diagPos), invDiag: f64(L.invDiag), P: L.P && csr(L.P), R: L.R ? csr(L.R) : null,
     b: f64(L.b), x: f64(L.x), r: f64(L.r), rc: f64(L.rc), dx: f64(L.dx),
   }));
   return { hierarchy: { ...h, levels }, arena, ...arenaVectors(arena, n0) };

@@ -10,7 +10,7 @@ import type { PartTeam } from '../types.ts';
 /** This module's URL, for the team's workers. */
 export const SEAM_TASK = taskUrl(import.meta.url, 'seam-task');
 
-export type SeamOp = 'forward' | 'backward' | 'product' | 'prolong';
+export type SeamOp = 'forward' | 'backward' | 'product' | 'prolong' | 'restrict';
 
 /** One phase: the level's arrays and vectors as byte offsets into the memory, the interiors, and (op 'product') a
  *  shared array for each part's b·x. */
@@ -20,8 +20,9 @@ export interface SeamPhase {
   op: SeamOp;
   rp: number; ci: number; va: number; dp: number; inv: number;
   b: number; x: number;
-  /** r (forward) or w (product); unused by 'backward' and 'prolong' (rp, ci, va: P's; b: the coarse x; interiors:
-   *  runs of P's rows). */
+  /** r (forward) or w (product); unused by 'backward', 'prolong' (rp, ci, va: P's; b: the coarse x; interiors:
+   *  runs of P's rows) and 'restrict' (rp, ci, va: R's; b: the fine residual; x: the coarse b; interiors: runs of R's
+   *  rows). */
   v: number;
   interiors: Int32Array;
   sums: Float64Array;
@@ -33,6 +34,7 @@ export function seamPart(k: SparseKernels, f: SeamPhase, p: number): number {
   if (f.op === 'forward') k.forwardSweepFromZeroWithResidualRows(first, last, f.rp, f.ci, f.va, f.dp, f.inv, f.b, f.x, f.v);
   else if (f.op === 'backward') k.backwardSweepRows(first, last, f.rp, f.ci, f.va, f.dp, f.inv, f.b, f.x);
   else if (f.op === 'prolong') k.multiplyAdd(last - first, f.rp + 4 * first, f.ci, f.va, f.b, f.x + 8 * first);
+  else if (f.op === 'restrict') k.spmv(last - first, f.rp + 4 * first, f.ci, f.va, f.b, f.x + 8 * first);
   else return k.backwardSweepWithProductRows(first, last, first, f.rp, f.ci, f.va, f.dp, f.inv, f.b, f.x, f.v);
   return 0;
 }

@@ -81,6 +81,9 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   const alloc: Allocator = spill ?? heapAllocator;
   let current = A;
   let P: Csr | null = null;
+  let keptR: Csr | null = null;
+  // Pᵀ is kept for the levels whose finer neighbour may be seam-ordered and swept by the team (AmgLevel.R).
+  const teamSweeps = symmetric && opts.seamOrder !== false && opts.team !== undefined && opts.team.workers > 0 && (opts.kernels ?? 'wasm') === 'wasm';
   let exactProducts = true;
   for (let l = 0; ; l++) {
     const n = current.nRows;
@@ -96,7 +99,7 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     const { diagPos, diag, invDiag } = scan;
     const onCoarsest = n <= maxCoarse || levels.length >= maxLevels;
     levels.push({
-      A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P,
+      A: current, diagPos, invDiag, sweeps: l < FIRST_CHEAP_LEVEL ? sweeps : coarseSweeps, coarseVisits: 1, P, R: keptR,
       // Work vectors: every cycle writes them before reading them, so they need no zeroing.
       b: alloc.f64(l === 0 ? 0 : n, false), x: alloc.f64(l === 0 ? 0 : n, false), r: alloc.f64(onCoarsest ? 0 : n, false),
       rc: alloc.f64(0), dx: alloc.f64(0),
@@ -156,10 +159,12 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
       P = smoothedProlongator(current, graph, agg, lanczos, alloc);
       freeGraph();
     }
-    // Pᵀ only for the Galerkin product (its memory goes to the next level): the cycle restricts with P's rows.
+    // Pᵀ for the Galerkin product; its memory then goes to the next level, unless the restriction from a level that
+    // may be seam-ordered runs in parts on the team (AmgLevel.R: 31 MB at 1M P1 unknowns, held through the solve).
     const R = transpose(P, alloc);
     current = galerkinProduct(current, P, R, symmetric, alloc);
-    alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values);
+    keptR = teamSweeps && levels[l]!.sweeps === 1 && n >= SEAM_MIN_ROWS ? R : null;
+    if (!keptR) { alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values); }
   }
   if (nodes && nearNull && ownNodes) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
   // A second visit of the coarsest level would add nothing to its exact solve.
@@ -174,6 +179,12 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   if (symmetric && opts.seamOrder !== false) {
     for (let l = 0; l + 1 < levels.length; l++) if (levels[l].sweeps === 1) levels[l].seams = seamLayout(levels[l].A);
   }
+  // A kept Pᵀ whose finer level did not become seam-ordered is let go.
+  for (let l = 1; l < levels.length; l++) {
+    const R = levels[l].R;
+    if (R && !levels[l - 1].seams) { alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values); levels[l].R = null; }
+  }
+
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
   // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole

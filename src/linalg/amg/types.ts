@@ -83,6 +83,10 @@ export interface AmgLevel {
   /** Prolongator from this level to the next finer one (nCols = this level's size, nRows = the finer size);
    *  null on the finest level. */
   P: Csr | null;
+  /** Pᵀ, kept when the next finer level is seam-ordered and swept by a team (AmgOptions.team): the restriction to
+   *  this level then runs in parts of its rows on the team's threads (wasm-cycle.ts), a row of R summing its terms in
+   *  the order P's scatter adds them (the same bits). Absent otherwise: the cycle restricts with P's rows. */
+  R?: Csr | null;
   /** Right-hand side and iterate of this level inside a cycle (empty on the finest, which works on the caller's
    *  arrays), and the residual this level hands to the next coarser one. */
   b: Float64Array;

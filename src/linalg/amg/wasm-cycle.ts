@@ -18,6 +18,8 @@ interface LevelPointers {
   b: number; x: number; r: number; rc: number; dx: number;
   /** The prolongator to the next finer level (its transpose restricts), null on the finest. */
   P: CsrPointers | null;
+  /** Its transpose when kept (AmgLevel.R): the restriction to this level in parts of its rows. */
+  R: CsrPointers | null;
   sweeps: number; visits: number;
   seams: SeamLayout | null;
 }
@@ -30,7 +32,7 @@ function levelPointers(L: AmgLevel): LevelPointers {
   return {
     ...csrPointers(L.A), dp: L.diagPos.byteOffset, inv: L.invDiag.byteOffset,
     b: L.b.byteOffset, x: L.x.byteOffset, r: L.r.byteOffset, rc: L.rc.byteOffset, dx: L.dx.byteOffset,
-    P: L.P && csrPointers(L.P), sweeps: L.sweeps, visits: L.coarseVisits, seams: L.seams ?? null,
+    P: L.P && csrPointers(L.P), R: L.R ? csrPointers(L.R) : null, sweeps: L.sweeps, visits: L.coarseVisits, seams: L.seams ?? null,
   };
 }
 
@@ -80,6 +82,8 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam
   };
   /** Equal runs of rows of each seam-ordered level, for the prolongation's parts. */
   const rowParts = levels.map((L) => (L.seams ? equalParts(L.n, L.seams.interiors.length / 2) : null));
+  /** Equal runs of the rows of each level restricted to by parts (AmgLevel.R). */
+  const restrictParts = levels.map((L, l) => (L.R && l > 0 && levels[l - 1]!.seams ? equalParts(L.n, levels[l - 1]!.seams!.interiors.length / 2) : null));
   const seamForward = (L: LevelPointers, b: number, x: number): void => {
     const { seams } = L.seams!;
     for (let s = 0; s < seams.length; s += 2) k.zeroRows(seams[s], seams[s + 1], x);
@@ -120,7 +124,13 @@ export function wasmCyclePreconditioner(packed: PackedHierarchy, team?: PartTeam
   const coarseCorrection = (l: number, x: number): void => {
     const C = levels[l + 1];
     const P = C.P!;
-    k.restrictByTranspose(P.n, P.rp, P.ci, P.va, levels[l].r, C.n, C.b);
+    if (team && team.workers > 0 && levels[l].seams && C.R) {
+      // b_c = R r row by row: each row of R = Pᵀ sums its terms in increasing fine row, as P's scatter adds them.
+      runParts({
+        memoryId: mem, memory: arena.memory, op: 'restrict', rp: C.R.rp, ci: C.R.ci, va: C.R.va, dp: 0, inv: 0, b: levels[l].r, x: C.b, v: 0,
+        interiors: restrictParts[l + 1]!, sums,
+      });
+    } else k.restrictByTranspose(P.n, P.rp, P.ci, P.va, levels[l].r, C.n, C.b);
     cycle(l + 1, C.b, C.x);
     if (levels[l].visits > 1) {
       k.residual(C.n, C.rp, C.ci, C.va, C.b, C.x, C.rc);
