@@ -82,8 +82,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
   let current = A;
   let P: Csr | null = null;
   let keptR: Csr | null = null;
-  // Pᵀ is kept for the levels whose finer neighbour may be seam-ordered and swept by the team (AmgLevel.R).
-  const teamSweeps = symmetric && opts.seamOrder !== false && opts.team !== undefined && opts.team.workers > 0 && (opts.kernels ?? 'wasm') === 'wasm';
+  // The levels swept once per visit of a symmetric hierarchy may sweep in seam order (several threads at once), and
+  // with a team to sweep them, the restriction from them runs in parts of Pᵀ's rows (AmgLevel.R).
+  const seamOrder = symmetric && opts.seamOrder !== false;
+  const teamSweeps = seamOrder && opts.team !== undefined && opts.team.workers > 0 && (opts.kernels ?? 'wasm') === 'wasm';
   let exactProducts = true;
   for (let l = 0; ; l++) {
     const n = current.nRows;
@@ -161,9 +163,10 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     }
     // Pᵀ for the Galerkin product; its memory then goes to the next level, unless the restriction from a level that
     // may be seam-ordered runs in parts on the team (AmgLevel.R: 31 MB at 1M P1 unknowns, held through the solve).
+    if (seamOrder && levels[l].sweeps === 1) levels[l].seams = seamLayout(current);
     const R = transpose(P, alloc);
     current = galerkinProduct(current, P, R, symmetric, alloc);
-    keptR = teamSweeps && levels[l]!.sweeps === 1 && n >= SEAM_MIN_ROWS ? R : null;
+    keptR = teamSweeps && levels[l].seams ? R : null;
     if (!keptR) { alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values); }
   }
   if (nodes && nearNull && ownNodes) { freeNodes(nodes, alloc); for (const v of nearNull) alloc.free(v); }
@@ -174,15 +177,6 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     alloc.free(levels[l + 1].rc); alloc.free(levels[l + 1].dx);
     levels[l + 1].rc = alloc.f64(m, false);
     levels[l + 1].dx = alloc.f64(m, false);
-  }
-  // The levels swept once per visit of a symmetric hierarchy may sweep in seam order (several threads at once).
-  if (symmetric && opts.seamOrder !== false) {
-    for (let l = 0; l + 1 < levels.length; l++) if (levels[l].sweeps === 1) levels[l].seams = seamLayout(levels[l].A);
-  }
-  // A kept Pᵀ whose finer level did not become seam-ordered is let go.
-  for (let l = 1; l < levels.length; l++) {
-    const R = levels[l].R;
-    if (R && !levels[l - 1].seams) { alloc.free(R.rowPtr); alloc.free(R.colIdx); alloc.free(R.values); levels[l].R = null; }
   }
 
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
