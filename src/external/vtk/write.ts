@@ -112,10 +112,22 @@ function dataArrays(input: VtuInput): DataArray[] {
     ...cellArrays.map((a) => ({ ...a, section: 'CellData', type: 'Float64' as const })),
     { section: 'Points', name: null, type: 'Float64', components: 3, values: pointsOf(mesh) },
     { section: 'Cells', name: 'connectivity', type: 'Int32', components: 1, values: mesh.cells.subarray(0, nCells * vpc), perLine: vpc },
-    // Offsets (the end of each cell's connectivity) and types are produced as they are written, not stored.
-    { section: 'Cells', name: 'offsets', type: 'Int64', components: 1, count: nCells, at: (c) => (c + 1) * vpc },
-    { section: 'Cells', name: 'types', type: 'UInt8', components: 1, count: nCells, at: () => VTU_CELL_TYPE[mesh.cellKind] },
+    // Offsets (the end of each cell's connectivity) and types are produced as they are written, not stored; raw
+    // appended data takes their bytes made in one pass instead (a DataView call per number cost about 60 ms for the
+    // 2M cells of a 1024² P1 level).
+    { section: 'Cells', name: 'offsets', type: 'Int64', components: 1, count: nCells, at: (c) => (c + 1) * vpc, ...(format === 'raw' ? { bytes: () => offsetBytes(nCells, vpc) } : {}) },
+    { section: 'Cells', name: 'types', type: 'UInt8', components: 1, count: nCells, at: () => VTU_CELL_TYPE[mesh.cellKind], ...(format === 'raw' ? { bytes: () => new Uint8Array(nCells).fill(VTU_CELL_TYPE[mesh.cellKind]) } : {}) },
   ];
+}
+
+/** The offsets (c + 1)·vpc of nCells cells as VTK's Int64 in this machine's byte order: two 32-bit words each, the
+ *  high one zero (the offsets of a mesh rungs holds stay below 2^31), the low one first on a little-endian machine. */
+function offsetBytes(nCells: number, vpc: number): Uint8Array {
+  if ((nCells + 1) * vpc >= 2 ** 31) throw new Error(`internal: ${nCells} cells of ${vpc} vertices overflow VTK offsets written as 32-bit words`);
+  const words = new Uint32Array(2 * nCells);
+  const low = endianness() === 'LE' ? 0 : 1;
+  for (let c = 0; c < nCells; c++) words[2 * c + low] = (c + 1) * vpc;
+  return new Uint8Array(words.buffer);
 }
 
 /** The file, handed to `write` in pieces of at most CHUNK's size (and CHUNK itself is reused between pieces). */
@@ -239,7 +251,7 @@ type DataArray = {
   components: number;
   /** Values to a line in ASCII (default: one tuple of a vector, six scalars). */
   perLine?: number;
-} & ({ values: Float64Array | Int32Array } | { count: number; at: (i: number) => number });
+} & ({ values: Float64Array | Int32Array } | { count: number; at: (i: number) => number; bytes?: () => Uint8Array });
 
 const countOf = (a: DataArray): number => ('values' in a ? a.values.length : a.count);
 const WIDTH: Record<VtkType, number> = { Float64: 8, Int32: 4, Int64: 8, UInt8: 1 };
@@ -338,6 +350,11 @@ class Out {
     if ('values' in a && a.type !== 'Int64') {
       this.flush();
       this.write(new Uint8Array(a.values.buffer, a.values.byteOffset, n * width));
+      return;
+    }
+    if ('bytes' in a && a.bytes) {
+      this.flush();
+      this.write(a.bytes());
       return;
     }
     const values = 'values' in a ? a.values : null, at = 'at' in a ? a.at : null;
