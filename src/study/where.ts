@@ -64,15 +64,16 @@ export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions)
   const out: LevelWhere = {};
   const { perCell } = cells;
   if (mesh.tagNames.length > 0 && mesh.dim > 1) out.regions = regionErrors(mesh, boundaryStrips(mesh), perCell.L2, perCell.H1semi);
-  const finestTwo = o.index >= o.total - 2;
+  const finestTwo = o.index >= o.total - 2, finest = o.index === o.total - 1;
   if (!finestTwo) return out;
-  if (o.out !== undefined) writeLevelVtu(mesh, cells, join(o.out, fileStem(o.study)), o.index);
-  if (o.index === o.total - 1) {
-    const maps: ErrorMapEntry[] = [];
-    for (const [norm, values] of [[cells.norms.L2, perCell.L2], [cells.norms.H1semi, perCell.H1semi]] as const) {
-      maps.push({ level: o.index, norm, what: 'density', map: encodeErrorMap(rasterizeCells(mesh, cellDensities(mesh, values))) });
+  if (o.out !== undefined || finest) {
+    // The densities per cell, once for the file and the maps.
+    const densities = { L2: cellDensities(mesh, perCell.L2), H1semi: cellDensities(mesh, perCell.H1semi) };
+    if (o.out !== undefined) writeLevelVtu(mesh, cells, densities, join(o.out, fileStem(o.study)), o.index);
+    if (finest) {
+      out.maps = ([[cells.norms.L2, densities.L2], [cells.norms.H1semi, densities.H1semi]] as const)
+        .map(([norm, values]): ErrorMapEntry => ({ level: o.index, norm, what: 'density', map: encodeErrorMap(rasterizeCells(mesh, values)) }));
     }
-    out.maps = maps;
   }
   out.cellErrors = { mesh, L2: perCell.L2, norm: cells.norms.L2, h: o.h };
   return out;
@@ -132,7 +133,7 @@ function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Arra
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s,
  *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of 128 MB takes about
  *  0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on the file. */
-function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, index: number): void {
+function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Float64Array; H1semi: Float64Array }, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
   const uh = vertexValues(cells.field);
@@ -143,13 +144,11 @@ function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, studyDir: string, ind
     u[v] = cells.exact(x, y, z);
     err[v] = u[v]! - uh[v * (uh.length / nv)]!;
   }
-  const measure = cellMeasures(mesh);
-  const density = (sq: Float64Array) => { const d = new Float64Array(sq.length); for (let c = 0; c < sq.length; c++) d[c] = Math.sqrt(sq[c]! / measure[c]!); return d; };
   const components = uh.length / nv;
   writeVtuInBackground(join(dir, 'errors.vtu'), {
     mesh,
     pointData: { u_h: components === 1 ? uh : { values: uh, components }, u: u, error: err },
-    cellData: { [`${cells.norms.L2}_density`]: density(cells.perCell.L2), [`${cells.norms.H1semi}_density`]: density(cells.perCell.H1semi) },
+    cellData: { [`${cells.norms.L2}_density`]: densities.L2, [`${cells.norms.H1semi}_density`]: densities.H1semi },
     format: mesh.nCells > 200_000 ? 'raw' : 'ascii',
   });
 }
