@@ -178,7 +178,6 @@ export function amgSetup(A: Csr, opts: AmgOptions = {}): AmgSetupResult {
     levels[l + 1].rc = alloc.f64(m, false);
     levels[l + 1].dx = alloc.f64(m, false);
   }
-
   const coarse = buildCoarseSolver(levels[levels.length - 1].A, symmetric, notes);
   const built: AmgHierarchy = { operator: A, exactProducts, levels, coarse, symmetric };
   // Built in the arena: add the caller's vectors there. Spilled out of it (the estimate was short): copy the whole
