@@ -14,8 +14,10 @@ export const LADDERS = {
 
 export type LadderName = keyof typeof LADDERS;
 
-/** The manufactured solution of every ladder. */
+/** The manufactured solution, the square's sides and the norms of every ladder. */
 const EXACT = 'sin(pi*x) * sin(pi*y)';
+const SIDE = [0, 1] as const;
+const NORMS = ['L2', 'H1semi'] as const;
 
 /** −Δu = f (or −∇·(k∇u) = f) on the unit square in right-diagonal triangles, u = sin(πx) sin(πy) on the whole
  *  boundary (the default Dirichlet sides), L2 and H1 seminorm errors. */
@@ -23,12 +25,12 @@ export function ladderStudy(which: LadderName) {
   const s = LADDERS[which];
   return defineStudy({
     name: `bench-${which}`,
-    domain: rectangle([0, 1], [0, 1]),
+    domain: rectangle([...SIDE], [...SIDE]),
     exact: EXACT,
     ...(s.k ? { coefficients: { k: s.k }, solver: { errorFraction: 0, relTol: 1e-10 } } : {}),
     discretization: lagrange({ degree: s.degree }),
     ladder: { n: [...s.n] },
-    norms: ['L2', 'H1semi'],
+    norms: [...NORMS],
   });
 }
 
@@ -41,12 +43,12 @@ export function ladderStudyFile(which: LadderName, name: string, n: readonly num
     `import { defineStudy, rectangle, lagrange } from 'rungs';`,
     `export default defineStudy({`,
     `  name: ${JSON.stringify(name)},`,
-    `  domain: rectangle([0, 1], [0, 1]),`,
+    `  domain: rectangle(${JSON.stringify(SIDE)}, ${JSON.stringify(SIDE)}),`,
     `  exact: ${JSON.stringify(EXACT)},`,
     ...(s.k ? [`  coefficients: { k: ${JSON.stringify(s.k)} },`, `  solver: { errorFraction: 0, relTol: 1e-10 },`] : []),
     `  discretization: lagrange({ degree: ${s.degree} }),`,
     `  ladder: { n: [${n.join(', ')}] },`,
-    `  norms: ['L2', 'H1semi'],`,
+    `  norms: ${JSON.stringify(NORMS)},`,
     `});`,
     '',
   ].join('\n');
