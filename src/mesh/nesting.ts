@@ -36,18 +36,23 @@ export interface ParentCells {
  *
  * Nestedness: every fine cell has a parent and each coarse cell's children's measures sum to its own within
  * NESTED_MEASURE_TOLERANCE; otherwise `nested` is false with a reason naming the first failing cell.
+ *
+ * `reference`: the general loops only (tests: the plane's written-out loops, triangleParents and enterCells2D, must
+ * give the same parents).
  */
-export function parentCells(coarse: Mesh, fine: Mesh): ParentCells {
+export function parentCells(coarse: Mesh, fine: Mesh, opts: { reference?: boolean } = {}): ParentCells {
   if (coarse.dim !== fine.dim) {
     throw new RungsInputError(`parent cells need meshes of one dimension, got ${coarse.dim}D and ${fine.dim}D`, 'meshes');
   }
-  const grid = bucketGrid(coarse);
+  const reference = opts.reference ?? false;
+  const grid = bucketGrid(coarse, reference);
   const parent = new Int32Array(fine.nCells).fill(-1);
   const childCount = new Int32Array(coarse.nCells);
   const { dim, coords, cells } = fine;
   const n = fine.verticesPerCell;
   let orphan = -1;
-  for (let c = 0; c < fine.nCells; c++) {
+  if (!reference && coarse.cellKind === 'triangle' && fine.cellKind === 'triangle' && dim === 2) orphan = triangleParents(coarse, fine, grid, parent, childCount);
+  else for (let c = 0; c < fine.nCells; c++) {
     let px = 0, py = 0, pz = 0;
     for (let k = 0; k < n; k++) {
       const v = cells[c * n + k]! * dim;
@@ -64,6 +69,41 @@ export function parentCells(coarse: Mesh, fine: Mesh): ParentCells {
     return { parent, childCount, nested: false, reason: `fine cell ${orphan} has its centroid in no coarse cell` };
   }
   return { parent, childCount, ...checkMeasures(coarse, fine, parent) };
+}
+
+/**
+ * The loop of parentCells for triangles in the plane, written out for three vertices and two axes: the same centroid
+ * sums, buckets and barycentric tests in the same order as the general loop with locate and triangleHolds, so the
+ * same parents (test/mesh/nesting.test.ts), in about half the time (2M triangles in 524k: 0.25 s → 0.1 s). Returns
+ * the first fine cell without a parent, or −1.
+ */
+function triangleParents(coarse: Mesh, fine: Mesh, grid: BucketGrid, parent: Int32Array, childCount: Int32Array): number {
+  const { coords, cells } = fine;
+  const x = coarse.coords, cc = coarse.cells;
+  const { start, items } = grid;
+  const lo0 = grid.lo[0]!, lo1 = grid.lo[1]!, s0 = grid.size[0]!, s1 = grid.size[1]!, n0 = grid.count[0]!, n1 = grid.count[1]!;
+  const tol = POINT_IN_CELL_TOLERANCE;
+  let orphan = -1;
+  for (let c = 0; c < fine.nCells; c++) {
+    const v0 = 2 * cells[3 * c]!, v1 = 2 * cells[3 * c + 1]!, v2 = 2 * cells[3 * c + 2]!;
+    const px = (coords[v0]! + coords[v1]! + coords[v2]!) / 3, py = (coords[v0 + 1]! + coords[v1 + 1]! + coords[v2 + 1]!) / 3;
+    const b = bucketIndex(px, lo0, s0, n0) + n0 * bucketIndex(py, lo1, s1, n1);
+    let found = -1;
+    for (let e = start[b]!, end = start[b + 1]!; e < end; e++) {
+      const k = items[e]!;
+      const a = 2 * cc[3 * k]!, bb = 2 * cc[3 * k + 1]!, d = 2 * cc[3 * k + 2]!;
+      const ax = x[a]!, ay = x[a + 1]!;
+      const ux = x[bb]! - ax, uy = x[bb + 1]! - ay, vx = x[d]! - ax, vy = x[d + 1]! - ay;
+      const wx = px - ax, wy = py - ay;
+      const det = ux * vy - uy * vx;
+      const l1 = (wx * vy - wy * vx) / det, l2 = (ux * wy - uy * wx) / det;
+      if (l1 >= -tol && l2 >= -tol && 1 - l1 - l2 >= -tol) { found = k; break; }
+    }
+    parent[c] = found;
+    if (found >= 0) childCount[found]!++;
+    else if (orphan < 0) orphan = c;
+  }
+  return orphan;
 }
 
 /** Whether the children of each coarse cell fill it: Σ |child| = |K| within NESTED_MEASURE_TOLERANCE. */
@@ -93,7 +133,7 @@ interface BucketGrid {
 }
 
 /** About one bucket per cell: the side s = (volume of the box / cells)^(1/dim), at least one bucket per axis. */
-function bucketGrid(mesh: Mesh): BucketGrid {
+function bucketGrid(mesh: Mesh, reference: boolean): BucketGrid {
   const { min, max } = boundingBox(mesh);
   const lo = Float64Array.of(0, 0, 0), size = Float64Array.of(1, 1, 1), count = Int32Array.of(1, 1, 1);
   let volume = 1;
@@ -108,16 +148,17 @@ function bucketGrid(mesh: Mesh): BucketGrid {
   const nBuckets = count[0]! * count[1]! * count[2]!;
   const grid: BucketGrid = { lo, size, count, start: new Int32Array(nBuckets + 1), items: new Int32Array(0) };
   const range = new Int32Array(6);
-  enterCells(mesh, grid, range, null); // counts per bucket in start[b + 1]
+  enterCells(mesh, grid, range, null, reference); // counts per bucket in start[b + 1]
   for (let b = 0; b < nBuckets; b++) grid.start[b + 1]! += grid.start[b]!;
   grid.items = new Int32Array(grid.start[nBuckets]!);
-  enterCells(mesh, grid, range, grid.start.slice(0, nBuckets));
+  enterCells(mesh, grid, range, grid.start.slice(0, nBuckets), reference);
   return grid;
 }
 
 /** Enters each cell in the buckets its bounding box overlaps: with fill null, counts them into start[b + 1];
  *  otherwise writes the cell at items[fill[b]++]. range is a scratch of 6 entries (bucket ranges per axis). */
-function enterCells(mesh: Mesh, grid: BucketGrid, range: Int32Array, fill: Int32Array | null): void {
+function enterCells(mesh: Mesh, grid: BucketGrid, range: Int32Array, fill: Int32Array | null, reference: boolean): void {
+  if (mesh.dim === 2 && !reference) { enterCells2D(mesh, grid, fill); return; }
   const { dim, coords, cells } = mesh;
   const { lo, size, count, start, items } = grid;
   const n = mesh.verticesPerCell;
@@ -144,6 +185,36 @@ function enterCells(mesh: Mesh, grid: BucketGrid, range: Int32Array, fill: Int32
           if (fill === null) start[bucket + 1]!++;
           else items[fill[bucket]!++] = c;
         }
+      }
+    }
+  }
+}
+
+/** enterCells for a mesh in the plane: both axes' bounds in one pass over each cell's vertices, the same buckets in
+ *  the same order (the order of a bucket's cells decides which of two cells sharing a point holds it). */
+function enterCells2D(mesh: Mesh, grid: BucketGrid, fill: Int32Array | null): void {
+  const { coords, cells } = mesh;
+  const { start, items } = grid;
+  const lo0 = grid.lo[0]!, lo1 = grid.lo[1]!, s0 = grid.size[0]!, s1 = grid.size[1]!, n0 = grid.count[0]!, n1 = grid.count[1]!;
+  const n = mesh.verticesPerCell;
+  for (let c = 0; c < mesh.nCells; c++) {
+    let ax = Infinity, bx = -Infinity, ay = Infinity, by = -Infinity;
+    for (let j = 0; j < n; j++) {
+      const v = 2 * cells[c * n + j]!;
+      const x = coords[v]!, y = coords[v + 1]!;
+      if (x < ax) ax = x;
+      if (x > bx) bx = x;
+      if (y < ay) ay = y;
+      if (y > by) by = y;
+    }
+    const x0 = bucketIndex(ax, lo0, s0, n0), y0 = bucketIndex(ay, lo1, s1, n1);
+    const xl = Math.min(n0 - 1, Math.ceil((bx - lo0) / s0) - 1), yl = Math.min(n1 - 1, Math.ceil((by - lo1) / s1) - 1);
+    const x1 = xl > x0 ? xl : x0, y1 = yl > y0 ? yl : y0;
+    for (let y = y0; y <= y1; y++) {
+      for (let x = x0; x <= x1; x++) {
+        const bucket = x + n0 * y;
+        if (fill === null) start[bucket + 1]!++;
+        else items[fill[bucket]!++] = c;
       }
     }
   }

@@ -112,6 +112,28 @@ describe('parentCells on ladders that are not nested', () => {
     expect(outside.every((i) => i >= 4)).toBe(true);
   });
 
+  it('the plane\'s written-out loops give the same parents as the general ones (nested, perturbed, non-nested, outside, quadrilaterals)', () => {
+    const pairs = [
+      ...DIAGONALS.map((diagonal) => [rectangleMesh({ ...square, nx: 5, ny: 4, cells: 'triangles', diagonal }), rectangleMesh({ ...square, nx: 10, ny: 8, cells: 'triangles', diagonal })]),
+      // Perturbed fine vertices: centroids near coarse edges and in no coarse cell at all.
+      [rectangleMesh({ ...square, nx: 6, ny: 6, cells: 'triangles' }), perturbMesh(rectangleMesh({ ...square, nx: 12, ny: 12, cells: 'triangles' }), { fraction: 0.3, seed: 11 })],
+      [perturbMesh(rectangleMesh({ ...square, nx: 7, ny: 7, cells: 'triangles', diagonal: 'crossed' }), { fraction: 0.25, seed: 5 }), rectangleMesh({ ...square, nx: 9, ny: 9, cells: 'triangles' })],
+      // Centroids outside the coarse mesh, and a quadrilateral coarse mesh (its buckets through enterCells2D).
+      [rectangleMesh({ ...square, nx: 3, ny: 3, cells: 'triangles' }), rectangleMesh({ x: [-0.5, 1.5], y: [0, 1], nx: 8, ny: 4, cells: 'triangles' })],
+      [perturbMesh(rectangleMesh({ ...square, nx: 4, ny: 4, cells: 'quadrilaterals' }), { fraction: 0.2, seed: 2 }), rectangleMesh({ ...square, nx: 8, ny: 8, cells: 'triangles' })],
+    ] as const;
+    const differing: string[] = [];
+    pairs.forEach(([coarse, fine], i) => {
+      const fast = parentCells(coarse, fine), reference = parentCells(coarse, fine, { reference: true });
+      if (Array.from(fast.parent).join() !== Array.from(reference.parent).join() || fast.nested !== reference.nested || fast.reason !== reference.reason) differing.push(`pair ${i}`);
+    });
+    expect(differing).toEqual([]);
+    // The comparison covers both outcomes: nested pairs and pairs with cells in no coarse cell.
+    const outcomes = pairs.map(([coarse, fine]) => parentCells(coarse, fine).nested);
+    expect(outcomes).toContain(true);
+    expect(outcomes).toContain(false);
+  });
+
   it('refuses meshes of different dimensions', () => {
     expect(() => parentCells(intervalMesh(0, 1, 2), rectangleMesh({ ...square, nx: 2, ny: 2, cells: 'quadrilaterals' })))
       .toThrow(RungsInputError);
