@@ -147,6 +147,7 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
   if (level.cellErrors) {
     p.cellErrors.set(level.index, level.cellErrors);
+    if (level.index === p.total - 2) p.env.pairCoarse = level.cellErrors;
     delete level.cellErrors;
   }
   p.result.levels.push(level);
@@ -184,6 +185,7 @@ export function completeStudy(p: PreparedStudy): StudyResult {
     : null;
   if (local) maps.push(local);
   p.cellErrors.clear();
+  delete p.env.pairCoarse;
   if (maps.length) p.result.errorMaps = maps;
   p.result.asExpected = expectationMet(p.result);
   p.result.seconds += (performance.now() - t0) / 1e3;

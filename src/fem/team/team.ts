@@ -26,6 +26,9 @@ export interface CellTeam {
   /** Runs parts 0 … parts − 1 of a task: `here` computes one part on the main thread; the workers rebuild the task
    *  from `task` (a module URL) and `input`. Returns the number of parts the main thread computed. */
   run(task: string, input: unknown, parts: number, here: (part: number) => void, options?: { light?: boolean }): number;
+  /** Starts a task of one part on a worker and returns at once, so that this thread goes on with other work (the
+   *  part writes its results into the input's shared buffers). See BackgroundJob. */
+  background(task: string, input: unknown): BackgroundJob;
   /** Parts computed by worker threads since the team started (tests: that the workers took part). */
   readonly partsElsewhere: number;
   /** Blocks until every worker has loaded and built one task (tests: so that workers surely take parts). */
@@ -33,12 +36,21 @@ export interface CellTeam {
   close(): void;
 }
 
+/** A one-part task left to a worker while the main thread goes on (CellTeam.background). */
+export interface BackgroundJob {
+  /** True once a worker has computed the part (its results are then in the input's buffers); false when none did:
+   *  no worker is active, none had claimed the part by this call (it is claimed here, so none will), or the worker
+   *  failed. On false the caller computes the result itself. Blocks while a worker is computing the part. */
+  settle(): boolean;
+}
+
 let team: CellTeam | null = null;
 let wanted: number | null = null;
 let workersFirst = false;
 
 /** Tests: each job waits (up to 2 minutes, a guard against a hang only) until every worker has claimed a part before
- *  the main thread takes any, so that the workers surely take part whatever the machine's speed. */
+ *  the main thread takes any, so that the workers surely take part whatever the machine's speed (a background job:
+ *  until a worker has claimed its part). */
 export function setWorkersFirst(on: boolean): void {
   workersFirst = on;
 }
@@ -131,6 +143,29 @@ function makeTeam(nWorkers: number): CellTeam {
       }
       elsewhere += parts - count;
       return count;
+    },
+    background(task, input) {
+      const team = active();
+      if (team.length === 0) return { settle: () => false };
+      const control = new Int32Array(new SharedArrayBuffer(4 * (STATUS + 1)));
+      const job: TeamJob = { task, input, control: control.buffer as SharedArrayBuffer, parts: 1 };
+      team[0]!.postMessage(job);
+      let settled: boolean | null = null;
+      return {
+        settle() {
+          if (settled !== null) return settled;
+          if (workersFirst) {
+            const until = performance.now() + 120_000;
+            while (Atomics.load(control, NEXT) === 0 && performance.now() < until) Atomics.wait(control, NEXT, 0, 20);
+          }
+          // Claimed here first: no worker will take it (worker.ts claims before computing).
+          if (Atomics.add(control, NEXT, 1) === 0) return (settled = false);
+          let s = Atomics.load(control, STATUS);
+          while (s === 0) { Atomics.wait(control, STATUS, 0, 200); s = Atomics.load(control, STATUS); }
+          if (s === DONE) elsewhere++;
+          return (settled = s === DONE);
+        },
+      };
     },
     warm() {
       const team = active();
