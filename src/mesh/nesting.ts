@@ -38,17 +38,15 @@ export interface ParentCells {
  * NESTED_MEASURE_TOLERANCE; otherwise `nested` is false with a reason naming the first failing cell.
  *
  * `reference`: the general loops only (tests: the plane's written-out loops, triangleParents and enterCells2D, must
- * give the same parents). `into`: the array the parents are written into (fine.nCells long; a shared one, for a
- * worker thread).
+ * give the same parents).
  */
-export function parentCells(coarse: Mesh, fine: Mesh, opts: { reference?: boolean; into?: Int32Array } = {}): ParentCells {
+export function parentCells(coarse: Mesh, fine: Mesh, opts: { reference?: boolean } = {}): ParentCells {
   if (coarse.dim !== fine.dim) {
     throw new RungsInputError(`parent cells need meshes of one dimension, got ${coarse.dim}D and ${fine.dim}D`, 'meshes');
   }
   const reference = opts.reference ?? false;
   const grid = bucketGrid(coarse, reference);
-  if (opts.into !== undefined && opts.into.length !== fine.nCells) throw new Error(`parentCells: into holds ${opts.into.length} entries, the fine mesh ${fine.nCells} cells`);
-  const parent = (opts.into ?? new Int32Array(fine.nCells)).fill(-1);
+  const parent = new Int32Array(fine.nCells).fill(-1);
   const childCount = new Int32Array(coarse.nCells);
   const { dim, coords, cells } = fine;
   const n = fine.verticesPerCell;

@@ -10,7 +10,7 @@ import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
-import { pairRefines, parentCellsAhead, recordWhere } from './where.ts';
+import { localOrdersAhead, pairRefines, recordWhere } from './where.ts';
 import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { collectGarbage } from '../linalg/kernels/collect.ts';
@@ -84,12 +84,12 @@ async function runLevelUnguarded(
   if (last && releaseArenaMemory(startedTeam() ?? undefined)) collectGarbage();
   const tWhere = performance.now();
   const cellsMesh = out.errorCells?.mesh ?? mesh;
-  // The finest level's cells are located in the level before it's on the team's worker meanwhile (for the local
-  // orders, once the study is complete).
-  const pair = last ? env.pairCoarse : undefined;
-  const parents = pair && cellsMesh && out.errorCells && pairRefines(pair.h, out.h ?? h) ? parentCellsAhead(pair.mesh, cellsMesh) ?? undefined : undefined;
+  // The finest pair's local orders are computed on the team's worker meanwhile (the study takes them once complete).
+  const pair = last ? env.localOrderPair : undefined;
+  const ahead = pair && cellsMesh && out.errorCells && pairRefines(pair.coarse.h, out.h ?? h)
+    ? localOrdersAhead(pair, cellsMesh, out.errorCells.perCell.L2, out.h ?? h) ?? undefined : undefined;
   const where = out.errorCells && cellsMesh && env.total !== undefined
-    ? recordWhere(cellsMesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? h, out: env.errorFiles ? env.out : undefined, parents })
+    ? recordWhere(cellsMesh, out.errorCells, { study: decl.name, index, total: env.total, h: out.h ?? h, out: env.errorFiles ? env.out : undefined, ahead })
     : {};
   if (out.errorCells) out.seconds.errors += seconds(tWhere);
   return {

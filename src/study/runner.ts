@@ -4,7 +4,7 @@ import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import { analyseRegions } from '../analysis/regions.ts';
 import { settleBackgroundWrites } from '../files/background-write.ts';
-import { localOrderMap, readLevelCellErrors, singularityTest, type LevelCellErrors } from './where.ts';
+import { localOrderMap, readLevelCellErrors, singularityTest, warmLocalOrders, type LevelCellErrors } from './where.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -147,13 +147,22 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
   if (level.cellErrors) {
     p.cellErrors.set(level.index, level.cellErrors);
-    if (level.index === p.total - 2) p.env.pairCoarse = level.cellErrors;
+    if (level.index === p.total - 2) {
+      p.env.localOrderPair = { coarse: level.cellErrors, ...localOrderBand(p, level.cellErrors.norm) };
+      warmLocalOrders(p.env.localOrderPair);
+    }
     delete level.cellErrors;
   }
   p.result.levels.push(level);
   p.result.levels.sort((a, b) => a.index - b.index);
   // The study's own compute time (levels may run interleaved with other studies' on a pool).
   p.result.seconds = p.prepareSeconds + p.result.levels.reduce((s, l) => s + l.seconds.total, 0);
+}
+
+/** The expected order of a norm's local orders and the tolerance of its band (one definition for the map and the
+ *  computation the finest level starts ahead of it). */
+function localOrderBand(p: PreparedStudy, norm: string): { expected: number | null; tolerance: number } {
+  return { expected: p.expected[norm] ?? null, tolerance: p.loaded.declaration.tolerance ?? DEFAULT_TOLERANCE };
 }
 
 /** Analyses every norm once all levels are in and checks the study's expectation. */
@@ -180,12 +189,11 @@ export function completeStudy(p: PreparedStudy): StudyResult {
     coarse ??= back(p.total - 2);
     if (coarse) fine ??= back(p.total - 1);
   }
-  const local = coarse && fine
-    ? localOrderMap(coarse, fine, p.total - 2, p.expected[coarse.norm] ?? null, p.loaded.declaration.tolerance ?? DEFAULT_TOLERANCE)
-    : null;
+  const band = coarse ? localOrderBand(p, coarse.norm) : null;
+  const local = coarse && fine && band ? localOrderMap(coarse, fine, p.total - 2, band.expected, band.tolerance) : null;
   if (local) maps.push(local);
   p.cellErrors.clear();
-  delete p.env.pairCoarse;
+  delete p.env.localOrderPair;
   if (maps.length) p.result.errorMaps = maps;
   p.result.asExpected = expectationMet(p.result);
   p.result.seconds += (performance.now() - t0) / 1e3;

@@ -4,13 +4,13 @@ import type { Mesh } from '../mesh/types.ts';
 import type { DiscreteField } from '../norms/types.ts';
 import type { PerCellErrors } from '../norms/errors.ts';
 import { boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
-import { parentCells } from '../mesh/nesting.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { sharedMesh } from '../fem/team/mesh.ts';
+import { shared } from '../fem/team/shared.ts';
 import { taskUrl } from '../files/task-url.ts';
-import type { NestingTaskInput } from './nesting-task.ts';
+import { SUMMARY_FIELDS, type LocalOrderTaskInput } from './local-order-task.ts';
+import { localOrderData, type LocalOrderData } from './local-order-data.ts';
 import { cellDensities, encodeErrorMap, rasterizeCells } from '../mesh/raster.ts';
-import { localOrders, summarizeLocalOrders } from '../analysis/local-orders.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
 import { writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
 import { readVtkFile } from '../external/vtk/read.ts';
@@ -44,18 +44,22 @@ export interface LevelWhere {
 }
 
 /** A level's mesh with its ∫_K |e|² per cell, for the local orders of the pair of finest levels; the finest one's
- *  cells may be being located in the coarser one's already (parentCellsAhead). */
-export interface LevelCellErrors { mesh: Mesh; L2: Float64Array; norm: string; h: number; parents?: PendingParents }
+ *  may carry the pair's local orders being computed already (localOrdersAhead). */
+export interface LevelCellErrors { mesh: Mesh; L2: Float64Array; norm: string; h: number; ahead?: PendingLocalOrders }
 
-/** The parents of a fine mesh's cells in a coarse one (parentCells's), being located on another thread. */
-export interface PendingParents {
-  coarse: Mesh;
+/** The coarser level of the finest pair with what its local orders are judged against (runner.ts hands it to the
+ *  finest level: LevelEnvironment.localOrderPair). */
+export interface LocalOrderPair { coarse: LevelCellErrors; expected: number | null; tolerance: number }
+
+/** The local orders of a pair of levels, being computed on another thread. */
+export interface PendingLocalOrders {
+  pair: LocalOrderPair;
   fine: Mesh;
-  /** The parents and whether the pair is nested: the worker's, or (when no worker computed them) computed here. */
-  take(): { parent: Int32Array; nested: boolean };
+  /** The orders and summary (null: not nested): the worker's, or (when no worker computed them) computed here. */
+  take(): LocalOrderData | null;
 }
 
-const NESTING_TASK = taskUrl(import.meta.url, 'nesting-task');
+const LOCAL_ORDER_TASK = taskUrl(import.meta.url, 'local-order-task');
 
 /** Whether the local orders of a pair of levels are taken: the fine level's cells are smaller (a ladder in Δt keeps
  *  one mesh). */
@@ -64,20 +68,55 @@ export function pairRefines(coarseH: number, fineH: number): boolean {
 }
 
 /**
- * Starts locating the finest level's cells in the level before it (parentCells) on the cell team's worker, which is
- * idle while this thread writes the finest level's error file and maps and analyses the study (about 0.3 s at 1024²
- * P1 squares); localOrderMap then takes the result instead of computing it (0.14 s on this thread for 2M triangles in
- * 524k). The same function on the same meshes, so the same parents. Null when no team is running (small studies: the
- * team starts with the first large level).
+ * Runs the local-order task once on the pair's coarser level against itself, on the cell team's worker, and throws
+ * the result away: called when that level is done (runner.ts), so that the worker's first run of this code is not
+ * the finest pair's. Cold, the worker took 0.6–0.7 s for the 1024² P1 ladder's pair, longer than the main thread
+ * has other work (0.35–0.5 s) while the libuv threads write the error file beside it; warm, half that (measured).
+ * The worker is idle meanwhile: the main thread meshes the finest level and builds its matrix pattern.
  */
-export function parentCellsAhead(coarse: Mesh, fine: Mesh): PendingParents | null {
+export function warmLocalOrders(pair: LocalOrderPair): void {
+  const team = startedTeam();
+  if (!team || team.workers === 0) return;
+  const { coarse } = pair;
+  const input: LocalOrderTaskInput = {
+    coarse: sharedMesh(coarse.mesh), fine: sharedMesh(coarse.mesh), coarseL2: shared(coarse.L2), fineL2: shared(coarse.L2),
+    ratio: 2, expected: pair.expected ?? Number.NaN, tolerance: pair.tolerance,
+    orders: new Float64Array(new SharedArrayBuffer(8 * coarse.mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
+  };
+  team.background(LOCAL_ORDER_TASK, input);
+}
+
+/**
+ * Starts computing the local orders of the finest pair (localOrderData: locating the finest cells in the coarser
+ * level's, the orders, their quantiles) on the cell team's worker, which is idle while this thread writes the finest
+ * level's error file and maps and analyses the study (about 0.3 s at 1024² P1 squares); localOrderMap then takes
+ * the result instead of computing it (about 0.2 s on this thread for 2M triangles in 524k). The same functions on
+ * the same arrays, so the same bits. Null when no team is running (small studies: the team starts with the first
+ * large level).
+ */
+export function localOrdersAhead(pair: LocalOrderPair, fine: Mesh, fineL2: Float64Array, fineH: number): PendingLocalOrders | null {
   const team = startedTeam();
   if (!team || team.workers === 0) return null;
-  const parent = new Int32Array(new SharedArrayBuffer(4 * fine.nCells));
-  const nested = new Int32Array(new SharedArrayBuffer(4));
-  const input: NestingTaskInput = { coarse: sharedMesh(coarse), fine: sharedMesh(fine), parent, nested };
-  const job = team.background(NESTING_TASK, input);
-  return { coarse, fine, take: () => (job.settle() ? { parent, nested: nested[0] === 1 } : parentCells(coarse, fine)) };
+  const { coarse } = pair;
+  const input: LocalOrderTaskInput = {
+    coarse: sharedMesh(coarse.mesh), fine: sharedMesh(fine), coarseL2: shared(coarse.L2), fineL2: shared(fineL2),
+    ratio: coarse.h / fineH, expected: pair.expected ?? Number.NaN, tolerance: pair.tolerance,
+    orders: new Float64Array(new SharedArrayBuffer(8 * coarse.mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
+  };
+  const job = team.background(LOCAL_ORDER_TASK, input);
+  const here = (): LocalOrderData | null => localOrderData(coarse.mesh, fine, coarse.L2, fineL2, input.ratio, pair.expected, pair.tolerance);
+  return {
+    pair, fine,
+    take() {
+      if (!job.settle()) return here();
+      const n = input.numbers;
+      if (n[0] !== 1) return null;
+      if (n[1] !== 1) return { orders: input.orders, summary: null };
+      const [covered, p05, median, p95, below, above] = SUMMARY_FIELDS.map((_, i) => n[2 + i]!);
+      const share = (v: number): number | null => (pair.expected === null ? null : v);
+      return { orders: input.orders, summary: { covered: covered!, p05: p05!, median: median!, p95: p95!, below: share(below!), above: share(above!), expected: pair.expected, tolerance: pair.tolerance } };
+    },
+  };
 }
 
 export interface WhereOptions {
@@ -88,8 +127,8 @@ export interface WhereOptions {
   h: number;
   /** The run's output folder, or undefined to write no files (tests through runStudy, for example). */
   out?: string;
-  /** The finest level's cells being located in the level before it (parentCellsAhead), kept with its cell errors. */
-  parents?: PendingParents;
+  /** The finest pair's local orders being computed (localOrdersAhead), kept with the finest level's cell errors. */
+  ahead?: PendingLocalOrders;
 }
 
 /**
@@ -115,7 +154,7 @@ export function recordWhere(mesh: Mesh, cells: LevelErrorCells, o: WhereOptions)
         .map(([norm, values]): ErrorMapEntry => ({ level: o.index, norm, what: 'density', map: encodeErrorMap(rasterizeCells(mesh, values)) }));
     }
   }
-  out.cellErrors = { mesh, L2: perCell.L2, norm: cells.norms.L2, h: o.h, ...(o.parents ? { parents: o.parents } : {}) };
+  out.cellErrors = { mesh, L2: perCell.L2, norm: cells.norms.L2, h: o.h, ...(o.ahead ? { ahead: o.ahead } : {}) };
   return out;
 }
 
@@ -127,11 +166,11 @@ export function localOrderMap(
   coarse: LevelCellErrors, fine: LevelCellErrors, coarseIndex: number, expected: number | null = null, tolerance = DEFAULT_TOLERANCE,
 ): ErrorMapEntry | null {
   if (!pairRefines(coarse.h, fine.h)) return null;
-  const ahead = fine.parents;
-  const nest = ahead && ahead.coarse === coarse.mesh && ahead.fine === fine.mesh ? ahead.take() : parentCells(coarse.mesh, fine.mesh);
-  if (!nest.nested) return null;
-  const orders = localOrders(coarse.L2, fine.L2, nest.parent, coarse.h / fine.h);
-  const summary = summarizeLocalOrders(orders, cellMeasures(coarse.mesh), expected, tolerance);
+  const ahead = fine.ahead;
+  const same = ahead && ahead.pair.coarse === coarse && ahead.fine === fine.mesh && ahead.pair.expected === expected && ahead.pair.tolerance === tolerance;
+  const data = same ? ahead.take() : localOrderData(coarse.mesh, fine.mesh, coarse.L2, fine.L2, coarse.h / fine.h, expected, tolerance);
+  if (!data) return null;
+  const { orders, summary } = data;
   return { level: coarseIndex, norm: coarse.norm, what: 'local-order', map: encodeErrorMap(rasterizeCells(coarse.mesh, orders)), ...(summary ? { summary } : {}) };
 }
 

@@ -7,7 +7,7 @@ import type { LevelResult } from '../result.ts';
 import type { LevelErrorCells } from '../where.ts';
 import type { ExternalDiscretization } from '../../external/types.ts';
 import type { ExternalLevelInput, LevelRunner } from '../../external/level.ts';
-import type { LevelCellErrors } from '../where.ts';
+import type { LocalOrderPair } from '../where.ts';
 
 /** Where a level runs: the output folder (external solvers write into <out>/<study>/level-k). */
 export interface LevelEnvironment {
@@ -20,9 +20,10 @@ export interface LevelEnvironment {
   errorFiles?: boolean;
   /** Runs an external level elsewhere (as a job of a scheduler, src/scheduler/); none: a child process of rungs. */
   levelRunner?: (disc: ExternalDiscretization, level: ExternalLevelInput) => LevelRunner;
-  /** The cell errors of the study's second finest level once it is done in this thread (runner.ts addLevel): the
-   *  finest level starts locating its cells in that level's on another thread (where.ts, parentCellsAhead). */
-  pairCoarse?: LevelCellErrors;
+  /** The study's second finest level (its cell errors and the expected order) once it is done in this thread
+   *  (runner.ts addLevel): the finest level starts the pair's local orders on another thread (where.ts,
+   *  localOrdersAhead). */
+  localOrderPair?: LocalOrderPair;
 }
 
 export interface LevelTime { T: number; steps: number; dt: number }

@@ -1,0 +1,68 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { rectangleMesh } from '../../src/mesh/rectangle.ts';
+import { perturbMesh } from '../../src/mesh/perturb.ts';
+import type { Mesh } from '../../src/mesh/types.ts';
+import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../src/fem/team/team.ts';
+import { taskUrl } from '../../src/files/task-url.ts';
+import { localOrderMap, localOrdersAhead, type LevelCellErrors } from '../../src/study/where.ts';
+
+// The local orders of a study's finest pair are computed on the cell team's worker while the main thread goes on
+// (src/study/where.ts, localOrdersAhead; src/fem/team/team.ts, background): the map and summary must be those the
+// main thread computes itself, the worker must really have computed them, and without a worker the main thread does.
+describe('local orders computed ahead on the cell team', () => {
+  const square = { x: [0, 1], y: [0, 1] } as const;
+  const before = teamThreads();
+  beforeAll(() => {
+    setTeamThreads(2);
+    setWorkersFirst(true); // settle() waits until the worker has claimed the job, whatever the machine's speed
+    cellTeam().warm();
+  });
+  afterAll(() => { setWorkersFirst(false); setTeamThreads(before); });
+
+  // Cell errors of a second-order method in L2 (∫_K e² falls by 2^(2·2+2) over the four children of a cell), with a
+  // spread so that the quantiles differ.
+  const level = (mesh: Mesh, h: number, scale: number): LevelCellErrors =>
+    ({ mesh, L2: Float64Array.from({ length: mesh.nCells }, (_, c) => scale * (1 + 0.5 * Math.sin(c))), norm: 'L2', h });
+  const pairs = [
+    ['nested triangles', rectangleMesh({ ...square, nx: 40, ny: 40, cells: 'triangles' }), rectangleMesh({ ...square, nx: 80, ny: 80, cells: 'triangles' })],
+    ['a perturbed fine mesh (not nested: no map)', rectangleMesh({ ...square, nx: 20, ny: 20, cells: 'triangles' }), perturbMesh(rectangleMesh({ ...square, nx: 40, ny: 40, cells: 'triangles' }), { fraction: 0.3, seed: 4 })],
+    ['quadrilaterals', rectangleMesh({ ...square, nx: 16, ny: 16, cells: 'quadrilaterals' }), rectangleMesh({ ...square, nx: 32, ny: 32, cells: 'quadrilaterals' })],
+  ] as const;
+
+  it.each(pairs)('%s: the worker\'s map and summary are those of this thread, with and without an expected order', (_name, coarseMesh, fineMesh) => {
+    const coarse = level(coarseMesh, 2 / coarseMesh.nCells ** 0.5, 1);
+    const fine = level(fineMesh, 1 / coarseMesh.nCells ** 0.5, 1 / 64);
+    for (const [expected, tolerance] of [[2, 0.1], [null, 0.25]] as const) {
+      const plain = localOrderMap(coarse, fine, 0, expected, tolerance);
+      const done = cellTeam().partsElsewhere;
+      const ahead = localOrdersAhead({ coarse, expected, tolerance }, fineMesh, fine.L2, fine.h);
+      expect(ahead).not.toBeNull();
+      const viaWorker = localOrderMap(coarse, { ...fine, ahead: ahead! }, 0, expected, tolerance);
+      expect(cellTeam().partsElsewhere - done).toBe(1); // the worker computed it
+      expect(viaWorker).toEqual(plain);
+    }
+  });
+
+  it('the nested pair gives a map with a summary (the comparison above is not between two nulls)', () => {
+    const [, coarseMesh, fineMesh] = pairs[0];
+    const map = localOrderMap(level(coarseMesh, 1 / 40, 1), level(fineMesh, 1 / 80, 1 / 64), 0, 2, 0.1);
+    expect(map?.summary?.median).toBeGreaterThan(1);
+  });
+
+  it('a job no worker computes is left to this thread (settle false), and with one thread nothing is started', () => {
+    setWorkersFirst(false);
+    try {
+      // A task module that does not exist: the worker cannot build it and claims nothing.
+      const job = cellTeam().background(taskUrl(import.meta.url, 'no-such-task'), {});
+      expect(job.settle()).toBe(false);
+      expect(job.settle()).toBe(false); // settled once
+      setTeamThreads(1);
+      const [, coarseMesh, fineMesh] = pairs[0];
+      const fine = level(fineMesh, 1 / 80, 1 / 64);
+      expect(localOrdersAhead({ coarse: level(coarseMesh, 1 / 40, 1), expected: 2, tolerance: 0.1 }, fineMesh, fine.L2, fine.h)).toBeNull();
+    } finally {
+      setTeamThreads(2);
+      setWorkersFirst(true);
+    }
+  });
+});
