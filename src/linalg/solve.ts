@@ -193,11 +193,13 @@ export function createLinearSolver(A: Csr, options: SolveSystemOptions): LinearS
   };
 }
 
-export function solveSystem(A: Csr, b: Float64Array, options: SolveSystemOptions): SolveSystemResult {
+export function solveSystem(A: Csr, b: Float64Array | (() => Float64Array), options: SolveSystemOptions): SolveSystemResult {
   let solver: LinearSolver | null = createLinearSolver(A, options);
   let result: SolveSystemResult;
   try {
-    result = solver.solve(b);
+    // b may be a function: the right-hand side asked for only once the solver is set up (it may be being assembled
+    // on another thread meanwhile: src/fem/discretizations/lagrange.ts).
+    result = solver.solve(typeof b === 'function' ? b() : b);
   } finally {
     // The preconditioner lives only for this solve: the multigrid arena's memory (already resident) goes to the next.
     solver.dispose();

@@ -5,7 +5,9 @@ import type { FormCoefficients } from './types.ts';
 import type { Deferred } from './deferred.ts';
 
 /** What the cell loop of the scalar assembly needs: the element's values at each term's rule (CellValues; null for
- *  an absent term), the coefficients, the global system and the Dirichlet data. */
+ *  an absent term), the coefficients, the global system and the Dirichlet data. A null A or b is not written: the
+ *  matrix and the load vector assembled by separate passes (system.ts); a pass without A needs each cell's matrix only
+ *  where it has a Dirichlet unknown (its columns are folded into b), and the written-out loops compute it only there. */
 export interface CellLoopInput {
   mesh: Mesh;
   cellDofs: Int32Array;
@@ -15,8 +17,8 @@ export interface CellLoopInput {
   cvC: CellValues | null;
   cvF: CellValues | null;
   coef: FormCoefficients;
-  A: Csr;
-  b: Float64Array;
+  A: Csr | null;
+  b: Float64Array | null;
   reduced: Int32Array;
   dirichletValues: Float64Array;
 }

@@ -83,24 +83,25 @@ export function generalCells(p: CellLoopInput): CellLoop {
 }
 
 /** Adds a cell's matrix and vector into the reduced system, Dirichlet columns folded into b; with `owner`, the rows
- *  of the unknowns that part owns, and the additions to other rows recorded in `d` in the same order (deferred.ts). */
+ *  of the unknowns that part owns, and the additions to other rows recorded in `d` in the same order (deferred.ts).
+ *  A null A or b is not written (the matrix and the load vector assembled by separate passes, system.ts): each
+ *  receives the same additions in the same order as in one pass. `owner` needs both. */
 export function scatterCell(
   c: number, n: number, cellDofs: Int32Array, reduced: Int32Array, dirichletValues: Float64Array, Ke: Float64Array, Fe: Float64Array,
-  rows: Int32Array, cols: Int32Array, A: import('../../linalg/types.ts').Csr, b: Float64Array, owner: Int32Array | null, part: number,
+  rows: Int32Array, cols: Int32Array, A: import('../../linalg/types.ts').Csr | null, b: Float64Array | null, owner: Int32Array | null, part: number,
   d: Deferred | null,
 ): void {
   for (let i = 0; i < n; i++) { const g = cellDofs[c * n + i]; rows[i] = reduced[g]; cols[i] = g; }
   for (let i = 0; i < n; i++) {
     const r = rows[i];
     if (r < 0) continue;
-    if (owner !== null && owner[cols[i]] !== part) { deferRow(d!, i, n, r, rows, cols, Ke, Fe, A, dirichletValues); continue; }
-    b[r] += Fe[i];
+    if (owner !== null && owner[cols[i]] !== part) { deferRow(d!, i, n, r, rows, cols, Ke, Fe, A!, dirichletValues); continue; }
+    if (b !== null) b[r] += Fe[i];
     for (let j = 0; j < n; j++) {
       const v = Ke[i * n + j];
       if (v === 0) continue;
       const cr = rows[j];
-      if (cr >= 0) A.values[findEntry(A, r, cr)] += v;
-      else b[r] -= v * dirichletValues[cols[j]];
+      if (cr >= 0) { if (A !== null) A.values[findEntry(A, r, cr)] += v; } else if (b !== null) b[r] -= v * dirichletValues[cols[j]];
     }
   }
 }

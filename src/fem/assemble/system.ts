@@ -14,11 +14,12 @@ import { scatterCell } from './general-cells.ts';
 import { allCells } from './cell-set.ts';
 import { ASSEMBLY_PART_CELLS, cellParts, completionWords, runPart } from './cell-parts.ts';
 import { deferredBuffer } from './deferred.ts';
-import { assembleTaskInput, teamCanAssemble } from './system-team.ts';
+import { assembleTaskInput, cellLoopTaskInput, teamCanAssemble, type LoadTaskInput } from './system-team.ts';
 import { cellTeam, taskUrl } from '../team/team.ts';
 import { sharedFloat64, TEAM_MIN_CELLS } from '../team/shared.ts';
 
 const ASSEMBLE_TASK = taskUrl(import.meta.url, 'assemble-task');
+const LOAD_TASK = taskUrl(import.meta.url, 'load-task');
 import { makeFacetValues, reinitFacet } from './facetvalues.ts';
 import { makeFacetGeometry, reinitFacetGeometry } from '../geometry/facet-geometry.ts';
 import { checkFinite } from './check-finite.ts';
@@ -36,6 +37,9 @@ export interface AssembledSystem {
   /** True when the form is symmetric (no convection term). */
   symmetric: boolean;
   degrees: Record<Term, number>;
+  /** With AssembleOptions.loadAhead: b is being assembled on a worker thread; this completes it (waits for the
+   *  worker, or assembles b here if no worker did) and must be called before b is read. Absent: b is complete. */
+  settleLoad?: () => void;
 }
 
 export interface AssembleOptions {
@@ -46,6 +50,11 @@ export interface AssembleOptions {
   reference?: boolean;
   /** Cells per part of an assembly shared with the cell team (default ASSEMBLY_PART_CELLS; tests use small parts). */
   partCells?: number;
+  /** On a large mesh with the cell team running, a source f, and Dirichlet conditions only: the load vector is
+   *  assembled by a worker of the team in a pass of its own while this thread assembles the matrix and goes on (to
+   *  the solver's setup, which needs no b); the result's settleLoad completes b. The same bits as one pass: each of
+   *  A and b receives the same additions in the same order. */
+  loadAhead?: boolean;
 }
 
 /** Assembles A U = b for −∇·(k∇u) + b·∇u + c·u = f with the given boundary conditions, straight into CSR.
@@ -78,6 +87,10 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   for (const d of dirichletDofs) reduced[d] = -1;
   let nRed = 0;
   for (let g = 0; g < nDofs; g++) if (reduced[g] === 0) reduced[g] = nRed++;
+  // The load vector ahead on a worker (AssembleOptions.loadAhead): its own pass, started before the matrix's.
+  const boundaryTerms = (bc.neumann?.tags.length ?? 0) + (bc.robin?.tags.length ?? 0) > 0;
+  const ahead = opts.loadAhead === true && large && coef.f !== undefined && !boundaryTerms && teamCanAssemble(space, coef) && cellTeam().workers > 0;
+  if (ahead) return assembleWithLoadAhead(space, coef, degrees, reduced, nRed, dirichletValues, dirichletDofs, opts);
   // The cell team takes part when the mesh has two parts or more and a worker can rebuild the cell loop; the
   // system's arrays then live in shared memory (a given pattern only when it already does).
   const teamWanted = mesh.nCells >= 2 * (opts.partCells ?? ASSEMBLY_PART_CELLS) && teamCanAssemble(space, coef) &&
@@ -162,6 +175,55 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
     }
   }
   return { space, A, b, reduced, dirichletValues, dirichletDofs, symmetric: !coef.b, degrees };
+}
+
+/**
+ * assembleSystem's matrix and load vector by separate passes over the cells (loadAhead): a worker of the cell team
+ * assembles b (every cell's load, and the matrix columns of Dirichlet unknowns folded into it) while this thread
+ * assembles A without evaluating the source, then returns; settleLoad completes b. On the P1 ladder's 1024² level the
+ * source's evaluation at the load rule's 6 points per triangle is half the cost of the cells, and the solver's setup
+ * that follows needs A only. A cell that fails in either pass: the whole system is assembled again in one pass, which
+ * throws for the first such cell in cell order, as one pass does.
+ */
+function assembleWithLoadAhead(
+  space: FunctionSpace, coef: FormCoefficients, degrees: Record<Term, number>, reduced: Int32Array, nRed: number,
+  dirichletValues: Float64Array, dirichletDofs: Int32Array, opts: AssembleOptions,
+): AssembledSystem {
+  const { mesh, element: el, cellDofs } = space;
+  const reference = opts.reference ?? false;
+  const A = opts.pattern ?? buildSparsity(space, reduced, nRed, 'private');
+  if (opts.pattern) A.values.fill(0);
+  const b = sharedFloat64(nRed);
+  const cv = (t: Term): CellValues => makeCellValues(el, ruleFor(mesh.cellKind, Math.max(0, degrees[t])));
+  const loopInput = {
+    mesh, cellDofs, n: el.nDofs, cvK: cv('stiffness'), cvB: coef.b ? cv('convection') : null, cvC: coef.c ? cv('reaction') : null, cvF: cv('load'),
+    coef, A, b, reduced, dirichletValues,
+  };
+  const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
+  const rules = { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: Math.max(0, degrees.load) };
+  const input: LoadTaskInput = { ...cellLoopTaskInput(space, coef, rules, reduced, dirichletValues, reference), b_: b };
+  const job = cellTeam().background(LOAD_TASK, input);
+  const onePass = (): never => {
+    A.values.fill(0); b.fill(0);
+    cellLoop(loopInput, reference)(allCells(mesh.nCells));
+    throw new Error('internal: separate passes of an assembly failed where one pass did not');
+  };
+  try {
+    cellLoop({ ...loopInput, cvF: null, coef: { ...coef, f: undefined }, b: null }, reference)(allCells(mesh.nCells));
+  } catch {
+    job.settle(); // nothing writes b once this returns
+    onePass();
+  }
+  let settled = false;
+  const settleLoad = (): void => {
+    if (settled) return;
+    settled = true;
+    if (job.settle()) return;
+    // No worker assembled b (none free, or the pass failed there): here, from zero.
+    b.fill(0);
+    try { cellLoop({ ...loopInput, A: null }, reference)(allCells(mesh.nCells)); } catch { onePass(); }
+  };
+  return { space, A, b, reduced, dirichletValues, dirichletDofs, symmetric: !coef.b, degrees, settleLoad };
 }
 
 /** The dofs on the closure of the given boundary facets, sorted and unique. 3D spaces whose dofs are the mesh

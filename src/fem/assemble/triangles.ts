@@ -27,7 +27,11 @@ export function triangleCells(p: CellLoopInput): CellLoop {
   const G = new Float64Array(2 * n);
   return ({ c0, c1, owner, part, defer: d }) => {
     for (let c = c0; c < c1; c++) {
-      Ke.fill(0); Fe.fill(0);
+      // Without A (the load vector's own pass, system.ts) the matrix is needed only for Dirichlet columns.
+      let needKe = A !== null;
+      if (!needKe) for (let k = 0; k < n; k++) if (reduced[cellDofs[c * n + k]] < 0) needKe = true;
+      if (needKe) Ke.fill(0);
+      Fe.fill(0);
       // J[d·2 + r] = x_{r+1,d} − x_{0,d}, its determinant and inverse, as cellJacobian and invert compute them.
       const base = c * vpc;
       const p0 = cells[base] * 2, p1 = cells[base + 1] * 2, p2 = cells[base + 2] * 2;
@@ -36,7 +40,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
       const det = j0 * j3 - j1 * j2;
       if (!(det > 0)) reinitCell(cvK, mesh, c); // throws, naming the cell
       const i0 = j3 / det, i1 = -j1 / det, i2 = -j2 / det, i3 = j0 / det;
-      {
+      if (needKe) {
         const { nq, refGrads, rule } = cvK;
         const pts = rule.points, wts = rule.weights;
         for (let q = 0; q < nq; q++) {
@@ -66,7 +70,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
         }
         for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) Ke[i * n + j] = Ke[j * n + i];
       }
-      if (cvB && bf) {
+      if (needKe && cvB && bf) {
         const { nq, refGrads, values, rule } = cvB;
         const pts = rule.points, wts = rule.weights;
         for (let q = 0; q < nq; q++) {
@@ -88,7 +92,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
           }
         }
       }
-      if (cvC && cf) {
+      if (needKe && cvC && cf) {
         const { nq, values, rule } = cvC;
         const pts = rule.points, wts = rule.weights;
         for (let q = 0; q < nq; q++) {
