@@ -6,16 +6,6 @@ import { Command, InvalidArgumentError, Option } from 'commander';
 import { LANGUAGES } from '../codegen/languages.ts';
 import { packageVersions } from '../study/versions.ts';
 
-/** Study files are TypeScript: the compiled CLI registers tsx's loader once the command's own modules are loaded, just
- *  before it loads study files. Registered earlier, every one of the hundreds of modules of mathjs and the numerics
- *  would be resolved and loaded through the loader's thread, which costs seconds. Run from the source (bin/rungs.mjs
- *  in a checkout, or tsx), the loader is already in place. */
-async function studyFilesLoadable(): Promise<void> {
-  if (import.meta.url.endsWith('.ts')) return;
-  const { register } = await import('tsx/esm/api');
-  register();
-}
-
 /** --jobs when not given: the cores this process may use (the pool's own default, loaded only for a run). */
 async function withJobs<T extends { jobs?: number }>(o: T): Promise<T> {
   if (o.jobs === undefined) o.jobs = (await import('../parallel/pool.ts')).defaultJobs();
@@ -78,7 +68,6 @@ program
       return;
     }
     const { runCommand } = await import('./run-command.ts');
-    await studyFilesLoadable();
     process.exitCode = await runCommand(paths, await withJobs(o));
   });
 
@@ -101,7 +90,6 @@ program
   .option('--cancel-jobs', CANCEL_JOBS_HELP)
   .action(async (paths: string[], o) => {
     const { checkCommand } = await import('./check-command.ts');
-    await studyFilesLoadable();
     process.exitCode = await checkCommand(paths, await withJobs(o));
     if (o.pdf && !(await (await import('./output.ts')).writePdfStep(o.out, o.quiet))) process.exitCode = 2;
   });
@@ -145,7 +133,6 @@ program
   .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .action(async (paths: string[], o) => {
     const { dataCommand } = await import('./data-command.ts');
-    await studyFilesLoadable();
     process.exitCode = await dataCommand(paths, o);
   });
 
@@ -157,7 +144,6 @@ program
   .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .action(async (paths: string[], o) => {
     const { listCommand } = await import('./list-command.ts');
-    await studyFilesLoadable();
     process.exitCode = await listCommand(paths, o);
   });
 
@@ -173,7 +159,6 @@ program
   .requiredOption('--total <levels>', 'levels of the study', Number)
   .action(async (file: string, o) => {
     const { levelErrorsCommand } = await import('./level-errors-command.ts');
-    await studyFilesLoadable();
     process.exitCode = await levelErrorsCommand(file, o);
   });
 
