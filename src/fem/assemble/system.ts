@@ -50,9 +50,9 @@ export interface AssembleOptions {
   reference?: boolean;
   /** Cells per part of an assembly shared with the cell team (default ASSEMBLY_PART_CELLS; tests use small parts). */
   partCells?: number;
-  /** On a large mesh with the cell team running, a source f, and Dirichlet conditions only: the load vector is
-   *  assembled by a worker of the team in a pass of its own while this thread assembles the matrix and goes on (to
-   *  the solver's setup, which needs no b); the result's settleLoad completes b. The same bits as one pass: each of
+  /** On a mesh large enough for the cell team (two parts of partCells), a source f, and Dirichlet
+   *  conditions only: the load vector is assembled by a worker of the team in a pass of its own while this thread
+   *  assembles the matrix and goes on (to the solver's setup, which needs no b); the result's settleLoad completes b. The same bits as one pass: each of
    *  A and b receives the same additions in the same order. */
   loadAhead?: boolean;
 }
@@ -89,7 +89,9 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   for (let g = 0; g < nDofs; g++) if (reduced[g] === 0) reduced[g] = nRed++;
   // The load vector ahead on a worker (AssembleOptions.loadAhead): its own pass, started before the matrix's.
   const boundaryTerms = (bc.neumann?.tags.length ?? 0) + (bc.robin?.tags.length ?? 0) > 0;
-  const ahead = opts.loadAhead === true && large && coef.f !== undefined && !boundaryTerms && teamCanAssemble(space, coef) && cellTeam().workers > 0;
+  // From the size at which the team shares the cells (smaller levels would only pay for starting its workers).
+  const ahead = opts.loadAhead === true && mesh.nCells >= 2 * (opts.partCells ?? ASSEMBLY_PART_CELLS) && coef.f !== undefined && !boundaryTerms &&
+    teamCanAssemble(space, coef) && cellTeam().workers > 0;
   if (ahead) return assembleWithLoadAhead(space, coef, degrees, reduced, nRed, dirichletValues, dirichletDofs, opts);
   // The cell team takes part when the mesh has two parts or more and a worker can rebuild the cell loop; the
   // system's arrays then live in shared memory (a given pattern only when it already does).

@@ -31,7 +31,9 @@ describe('the load vector assembled ahead on a worker', () => {
   });
   afterAll(() => { setWorkersFirst(false); setTeamThreads(before); });
 
-  // A mesh just large enough for the team (TEAM_MIN_CELLS), coefficients a worker can rebuild (compiled formulas).
+  // A mesh just large enough for the team (TEAM_MIN_CELLS, with parts of PART cells), coefficients a worker can
+  // rebuild (compiled formulas).
+  const PART = TEAM_MIN_CELLS / 2;
   const square = rectangleMesh({ x: [0, 1], y: [0, 2], nx: 128, ny: Math.ceil(TEAM_MIN_CELLS / 256), cells: 'triangles' });
   const coef2: FormCoefficients = {
     k: compileFormula('1 + x*y + 0.5*sin(y)', 'k', 2),
@@ -55,7 +57,7 @@ describe('the load vector assembled ahead on a worker', () => {
     const onePass = assembleSystem(space, coef, bc);
     setTeamThreads(2);
     const done = cellTeam().partsElsewhere;
-    const split = assembleSystem(space, coef, bc, { loadAhead: true });
+    const split = assembleSystem(space, coef, bc, { loadAhead: true, partCells: PART });
     expect(split.settleLoad).toBeTypeOf('function');
     split.settleLoad!();
     expect(cellTeam().partsElsewhere - done).toBe(1); // the worker assembled b
@@ -67,9 +69,9 @@ describe('the load vector assembled ahead on a worker', () => {
     const space = lagrangeSpace(mesh, k);
     setTeamThreads(1);
     const onePass = assembleSystem(space, coef, bc);
-    expect(assembleSystem(space, coef, bc, { loadAhead: true }).settleLoad).toBeUndefined();
+    expect(assembleSystem(space, coef, bc, { loadAhead: true, partCells: PART }).settleLoad).toBeUndefined();
     setTeamThreads(2);
-    const neumann = assembleSystem(space, coef, { ...bc, neumann: { tags: ['right'], flux: () => 1 } }, { loadAhead: true });
+    const neumann = assembleSystem(space, coef, { ...bc, neumann: { tags: ['right'], flux: () => 1 } }, { loadAhead: true, partCells: PART });
     expect(neumann.settleLoad).toBeUndefined();
     // The worker busy with a job that blocks until released: it cannot claim the load pass, so settleLoad makes b here.
     setWorkersFirst(false);
@@ -77,7 +79,7 @@ describe('the load vector assembled ahead on a worker', () => {
     const blocker = cellTeam().background(new URL('./blocking-task.ts', import.meta.url).href, { gate });
     try {
       while (Atomics.load(gate, 1) === 0) Atomics.wait(gate, 1, 0, 50); // the worker holds the blocking job
-      const split = assembleSystem(space, coef, bc, { loadAhead: true });
+      const split = assembleSystem(space, coef, bc, { loadAhead: true, partCells: PART });
       split.settleLoad!();
       expect([bitDifferences(split.A.values, onePass.A.values), bitDifferences(split.b, onePass.b)]).toEqual([0, 0]);
     } finally {
@@ -94,7 +96,7 @@ describe('the load vector assembled ahead on a worker', () => {
     const msg = (threads: number, coef: FormCoefficients): string => {
       setTeamThreads(threads);
       try {
-        const sys = assembleSystem(lagrangeSpace(mesh, 1), coef, { dirichlet: { tags: ['top'], value: () => 0 } }, { loadAhead: true });
+        const sys = assembleSystem(lagrangeSpace(mesh, 1), coef, { dirichlet: { tags: ['top'], value: () => 0 } }, { loadAhead: true, partCells: PART });
         sys.settleLoad?.();
       } catch (e) { return e instanceof RungsInputError ? e.message : String(e); }
       return 'none';
