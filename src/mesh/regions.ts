@@ -1,6 +1,7 @@
 import { RungsInputError } from '../errors.ts';
 import { signedCellMeasure } from './measure.ts';
 import type { Mesh } from './types.ts';
+import { meshFloat64 } from './shared-arrays.ts';
 
 /**
  * Regions of a mesh for telling where the error lives: a strip along each boundary tag and the interior.
@@ -121,12 +122,20 @@ function oneLayerStrips(mesh: Mesh, inStrip: Uint8Array): { stripCells: Int32Arr
 
 const measured = new WeakMap<Mesh, Float64Array>();
 
+/** Gives cellMeasures the measures of a mesh computed elsewhere (the same function on another thread, over the same
+ *  arrays: src/study/local-order-task.ts), so that they are not computed again. */
+export function adoptCellMeasures(mesh: Mesh, measures: Float64Array): void {
+  if (measures.length !== mesh.nCells) throw new Error(`adoptCellMeasures: ${measures.length} measures for ${mesh.nCells} cells`);
+  measured.set(mesh, measures);
+}
+
 /** The absolute measure of every cell, computed once per mesh (the finest level's are asked for by its regions, its
  *  error map and the local orders: 2M triangles each time). Shared between callers: read it, never write it. */
 export function cellMeasures(mesh: Mesh): Float64Array {
   const known = measured.get(mesh);
   if (known && known.length === mesh.nCells) return known;
-  const out = new Float64Array(mesh.nCells);
+  // In shared memory on a large mesh: a worker thread of the cell team takes them as they are (adoptCellMeasures).
+  const out = meshFloat64(mesh.nCells, mesh.nCells);
   if (mesh.cellKind === 'triangle' && mesh.dim === 2) {
     // signedCellMeasure's shoelace sum for three vertices, unrolled in the same order (so the same bits).
     const { coords, cells } = mesh;

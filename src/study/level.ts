@@ -10,7 +10,7 @@ import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
-import { localOrdersAhead, pairRefines, recordWhere } from './where.ts';
+import { localOrdersAhead, pairRefines, recordWhere, warmLocalOrders } from './where.ts';
 import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { collectGarbage } from '../linalg/kernels/collect.ts';
@@ -86,6 +86,7 @@ async function runLevelUnguarded(
   const cellsMesh = out.errorCells?.mesh ?? mesh;
   // The finest pair's local orders are computed on the team's worker meanwhile (the study takes them once complete).
   const pair = last ? env.localOrderPair : undefined;
+  if (env.total !== undefined && index === env.total - 2 && out.errorCells && cellsMesh) warmLocalOrders(cellsMesh, out.errorCells.perCell.L2);
   const ahead = pair && cellsMesh && out.errorCells && pairRefines(pair.coarse.h, out.h ?? h)
     ? localOrdersAhead(pair, cellsMesh, out.errorCells.perCell.L2, out.h ?? h) ?? undefined : undefined;
   const where = out.errorCells && cellsMesh && env.total !== undefined

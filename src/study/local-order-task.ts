@@ -2,6 +2,7 @@
 // on a worker while the main thread writes the finest level's error file and maps (where.ts, localOrdersAhead). One
 // part: the whole. Its results go into the input's shared buffers; the main thread reads them once the part is done.
 import { meshOf, type SharedMesh } from '../fem/team/mesh.ts';
+import { adoptCellMeasures } from '../mesh/regions.ts';
 import { localOrderData } from './local-order-data.ts';
 
 export interface LocalOrderTaskInput {
@@ -9,6 +10,9 @@ export interface LocalOrderTaskInput {
   fine: SharedMesh;
   coarseL2: Float64Array;
   fineL2: Float64Array;
+  /** cellMeasures of each mesh as the main thread has them (it needs them too), or null: computed here. */
+  coarseMeasures: Float64Array | null;
+  fineMeasures: Float64Array | null;
   /** h_coarse / h_fine. */
   ratio: number;
   /** The expected order (NaN: none) and the tolerance of its band. */
@@ -26,7 +30,10 @@ export const SUMMARY_FIELDS = ['covered', 'p05', 'median', 'p95', 'below', 'abov
 export function prepare(raw: unknown): (part: number) => void {
   const p = raw as LocalOrderTaskInput;
   return () => {
-    const data = localOrderData(meshOf(p.coarse), meshOf(p.fine), p.coarseL2, p.fineL2, p.ratio, Number.isNaN(p.expected) ? null : p.expected, p.tolerance);
+    const coarse = meshOf(p.coarse), fine = meshOf(p.fine);
+    if (p.coarseMeasures) adoptCellMeasures(coarse, p.coarseMeasures);
+    if (p.fineMeasures) adoptCellMeasures(fine, p.fineMeasures);
+    const data = localOrderData(coarse, fine, p.coarseL2, p.fineL2, p.ratio, Number.isNaN(p.expected) ? null : p.expected, p.tolerance);
     p.numbers[0] = data ? 1 : 0;
     if (!data) return;
     p.orders.set(data.orders);

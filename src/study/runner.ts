@@ -4,7 +4,7 @@ import type { SeriesAnalysis, TwoAxisFit, Verdict } from '../analysis/types.ts';
 import { axisFloorReason, detectAxisFloor, fitTwoAxis, judgeTwoAxis } from '../analysis/index.ts';
 import { analyseRegions } from '../analysis/regions.ts';
 import { settleBackgroundWrites } from '../files/background-write.ts';
-import { localOrderMap, readLevelCellErrors, singularityTest, warmLocalOrders, type LevelCellErrors } from './where.ts';
+import { localOrderMap, readLevelCellErrors, singularityTest, type LevelCellErrors } from './where.ts';
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
@@ -147,10 +147,7 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
   if (level.cellErrors) {
     p.cellErrors.set(level.index, level.cellErrors);
-    if (level.index === p.total - 2) {
-      p.env.localOrderPair = { coarse: level.cellErrors, ...localOrderBand(p, level.cellErrors.norm) };
-      warmLocalOrders(p.env.localOrderPair);
-    }
+    if (level.index === p.total - 2) p.env.localOrderPair = { coarse: level.cellErrors, ...localOrderBand(p, level.cellErrors.norm) };
     delete level.cellErrors;
   }
   p.result.levels.push(level);

@@ -68,20 +68,19 @@ export function pairRefines(coarseH: number, fineH: number): boolean {
 }
 
 /**
- * Runs the local-order task once on the pair's coarser level against itself, on the cell team's worker, and throws
- * the result away: called when that level is done (runner.ts), so that the worker's first run of this code is not
- * the finest pair's. Cold, the worker took 0.6–0.7 s for the 1024² P1 ladder's pair, longer than the main thread
- * has other work (0.35–0.5 s) while the libuv threads write the error file beside it; warm, half that (measured).
- * The worker is idle meanwhile: the main thread meshes the finest level and builds its matrix pattern.
+ * Runs the local-order task once on the second finest level against itself, on the cell team's worker, and throws
+ * the result away, so that the worker's first run of this code is not the finest pair's. Cold, the worker took
+ * 0.6–0.7 s for the 1024² P1 ladder's pair, longer than the main thread has other work (0.35–0.5 s) while the libuv
+ * threads write the error file beside it; warm, half that (measured). Called once that level's errors are integrated
+ * (level.ts): the worker, idle otherwise, runs it while the main thread writes that level's error file and maps.
  */
-export function warmLocalOrders(pair: LocalOrderPair): void {
+export function warmLocalOrders(mesh: Mesh, L2: Float64Array): void {
   const team = startedTeam();
   if (!team || team.workers === 0) return;
-  const { coarse } = pair;
   const input: LocalOrderTaskInput = {
-    coarse: sharedMesh(coarse.mesh), fine: sharedMesh(coarse.mesh), coarseL2: shared(coarse.L2), fineL2: shared(coarse.L2),
-    ratio: 2, expected: pair.expected ?? Number.NaN, tolerance: pair.tolerance,
-    orders: new Float64Array(new SharedArrayBuffer(8 * coarse.mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
+    coarse: sharedMesh(mesh), fine: sharedMesh(mesh), coarseL2: shared(L2), fineL2: shared(L2), ratio: 2, expected: 2, tolerance: 0.1,
+    coarseMeasures: shared(cellMeasures(mesh)), fineMeasures: null,
+    orders: new Float64Array(new SharedArrayBuffer(8 * mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
   };
   team.background(LOCAL_ORDER_TASK, input);
 }
@@ -100,6 +99,8 @@ export function localOrdersAhead(pair: LocalOrderPair, fine: Mesh, fineL2: Float
   const { coarse } = pair;
   const input: LocalOrderTaskInput = {
     coarse: sharedMesh(coarse.mesh), fine: sharedMesh(fine), coarseL2: shared(coarse.L2), fineL2: shared(fineL2),
+    // The measures this thread has or needs next (the error file's densities), shared instead of computed twice.
+    coarseMeasures: shared(cellMeasures(coarse.mesh)), fineMeasures: shared(cellMeasures(fine)),
     ratio: coarse.h / fineH, expected: pair.expected ?? Number.NaN, tolerance: pair.tolerance,
     orders: new Float64Array(new SharedArrayBuffer(8 * coarse.mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
   };
