@@ -4,7 +4,7 @@ import { join, relative } from 'node:path';
 import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { findStudyFiles, loadStudy, type LoadedStudy } from '../study/load.ts';
 import { expandSweeps, judgeSweeps, type SweepVerdict } from '../study/sweep.ts';
-import { addLevel, completeStudy, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
+import { addLevel, completeStudy, levelStarting, preflightStudy, prepareStudy, type PreparedStudy } from '../study/runner.ts';
 import { runLevel } from '../study/level.ts';
 import { settleBackgroundWrites } from '../files/background-write.ts';
 import type { StudyResult } from '../study/result.ts';
@@ -413,6 +413,7 @@ async function runLane(prepared: PreparedStudy[], ctx: RunContext): Promise<void
         const old = reuse.get(i);
         if (old) { addLevel(p, old); onLevel(p, old, false); continue; }
         progress.levelStart(decl.name, i, p.total);
+        levelStarting(p, i);
         const level = await runLevel(decl, p.loaded.file, p.problem, i, p.norms, p.solver, p.env);
         addLevel(p, level);
         progress.levelDone(decl.name, level, p.total);

@@ -8,7 +8,7 @@ import { localOrderMap, readLevelCellErrors, singularityTest, type LevelCellErro
 import type { NormName, StudyDeclaration } from './declaration.ts';
 import { defaultNorms, expectedOrders } from './expected.ts';
 import { externalFieldNorms, isGlobalNorm, isPointwiseNorm } from './discretizations/system-norms.ts';
-import { normScales } from './discretizations/norm-scales.ts';
+import { normScales, normScalesAhead, type PendingScales } from './discretizations/norm-scales.ts';
 import { buildProblem } from './problem.ts';
 import type { LevelResult, StudyResult } from './result.ts';
 import { runLevel } from './level.ts';
@@ -64,6 +64,8 @@ export interface PreparedStudy {
   prepareSeconds: number;
   /** The finest two levels' meshes and errors per cell, by level index, until the study completes. */
   cellErrors: Map<number, LevelCellErrors>;
+  /** The norm scales being measured on the cell team's worker (levelStarting), until the study completes. */
+  scalesAhead?: PendingScales | null;
 }
 
 /** Validates the PDE data and sets up the result; throws RungsInputError for bad input before any level runs. */
@@ -143,6 +145,12 @@ export function solverSettings(decl: StudyDeclaration): LevelContext['solver'] {
   };
 }
 
+/** Called as a level starts in this thread: the finest level's start leaves the norm scales to the cell team's worker,
+ *  idle while this thread meshes that level (norm-scales.ts, normScalesAhead). */
+export function levelStarting(p: PreparedStudy, index: number): void {
+  if (index === p.total - 1 && p.total > 1 && p.norms.length) p.scalesAhead ??= normScalesAhead(p.loaded.declaration, p.problem);
+}
+
 /** Records a finished level (levels may arrive in any order; they are kept sorted). */
 export function addLevel(p: PreparedStudy, level: LevelResult): void {
   if (level.cellErrors) {
@@ -165,7 +173,8 @@ function localOrderBand(p: PreparedStudy, norm: string): { expected: number | nu
 /** Analyses every norm once all levels are in and checks the study's expectation. */
 export function completeStudy(p: PreparedStudy): StudyResult {
   const t0 = performance.now();
-  if (p.norms.length) finishAnalysis(p.result, p.loaded.declaration, p.problem, p.norms, p.expected);
+  if (p.norms.length) finishAnalysis(p.result, p.loaded.declaration, p.problem, p.norms, p.expected, p.scalesAhead);
+  p.scalesAhead = null;
   p.result.quantities = quantityReports(p.result, p.loaded.declaration);
   // The finest level's error maps belong to the study (the report draws them), not to its row.
   const maps = p.result.levels.flatMap((l) => l.maps ?? []);
@@ -204,6 +213,7 @@ export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Prom
   const decl = loaded.declaration;
   for (let i = 0; i < p.total; i++) {
     opts.onLevelStart?.(decl.name, i, p.total);
+    levelStarting(p, i);
     const level = await runLevel(decl, loaded.file, p.problem, i, p.norms, p.solver, p.env);
     addLevel(p, level);
     opts.onLevel?.(p.result, level);
@@ -215,11 +225,11 @@ export async function runStudy(loaded: LoadedStudy, opts: RunOptions = {}): Prom
 
 function finishAnalysis(
   result: StudyResult, decl: StudyDeclaration, problem: StudyProblemOf, norms: NormName[],
-  expected: Record<string, number | null>,
+  expected: Record<string, number | null>, scalesAhead: PendingScales | null | undefined,
 ): void {
   const levels = result.levels;
   // The size of u in each norm sets the round-off floor; an external code's own norms have none rungs can measure.
-  const scaleAll = normScales(decl, problem);
+  const scaleAll = normScales(decl, problem, scalesAhead);
   const tolerance = decl.tolerance ?? DEFAULT_TOLERANCE;
   const fitWindow = decl.fitWindow ?? DEFAULT_FIT_WINDOW;
 

@@ -1,4 +1,9 @@
 import { exactNorms } from '../../norms/errors.ts';
+import { startedTeam } from '../../fem/team/team.ts';
+import { sharedMesh } from '../../fem/team/mesh.ts';
+import { functionText, sharedFloat64 } from '../../fem/team/shared.ts';
+import { taskUrl } from '../../files/task-url.ts';
+import { NORM_KEYS, type NormScalesTaskInput } from './norm-scales-task.ts';
 import { fieldErrors } from '../../norms/field-errors.ts';
 import type { DiscreteField } from '../../norms/types.ts';
 import { solutionOf } from '../../equation/manufactured.ts';
@@ -10,11 +15,45 @@ import { scalarOf } from './system-common.ts';
 import { externalFieldNorms } from './system-norms.ts';
 import { inverseLambdaPressureNorms, shearEnergyOptions } from './mixed-elasticity.ts';
 
+/** The quadrature degree of the norm scales: high, since u is integrated on the coarsest mesh. */
+const scaleDegree = (decl: StudyDeclaration): number => 2 * (decl.discretization.degree ?? 2) + 8;
+
+/** The norm scales of a scalar exact solution being measured on another thread (normScalesAhead). */
+export interface PendingScales { take(): Record<string, number> }
+
+const NORM_SCALES_TASK = taskUrl(import.meta.url, 'norm-scales-task');
+
+/**
+ * Starts measuring a scalar exact solution's norms on the first level's mesh on the cell team's worker: called as the
+ * study's finest level starts (runner.ts), when the worker is idle while the main thread meshes that level and builds
+ * its matrix pattern; normScales then takes the result instead of computing it at the study's end (45–80 ms there
+ * for the P1 ladder, most of it building and polishing the degree-10 rule). The same function on the same mesh, so
+ * the same bits. Null when there is no such solution, no team running, or its functions cannot go to a worker.
+ */
+export function normScalesAhead(decl: StudyDeclaration, problem: StudyProblem): PendingScales | null {
+  const exact = problem.exact;
+  const team = startedTeam();
+  if (!exact || !team || team.workers === 0) return null;
+  const valueAndGrad = functionText(exact.valueAndGrad);
+  const u = valueAndGrad ? null : functionText(exact.u), grad = valueAndGrad ? null : functionText(exact.grad);
+  if (!valueAndGrad && !(u && grad)) return null;
+  const mesh = decl.domain.mesh(decl.ladder.n[0]);
+  const input: NormScalesTaskInput = { mesh: sharedMesh(mesh), valueAndGrad, u, grad, degree: scaleDegree(decl), out: sharedFloat64(NORM_KEYS.length) };
+  const job = team.background(NORM_SCALES_TASK, input);
+  return {
+    take() {
+      if (!job.settle()) return exactNorms(mesh, exact, { degree: input.degree }) as unknown as Record<string, number>;
+      return Object.fromEntries(NORM_KEYS.map((k, i) => [k, input.out[i]!]));
+    },
+  };
+}
+
 /** The size of the exact solution in each norm rungs measures (the error of the zero field), on the first level's
- *  mesh: the scale that round-off floors are judged against. Empty for an external code's own norms. */
-export function normScales(decl: StudyDeclaration, problem: StudyProblem): Record<string, number> {
-  const degree = decl.discretization.degree ?? 2;
-  const quadrature = 2 * degree + 8;
+ *  mesh: the scale that round-off floors are judged against. Empty for an external code's own norms. `ahead`: the
+ *  scalar solution's, measured on another thread (normScalesAhead). */
+export function normScales(decl: StudyDeclaration, problem: StudyProblem, ahead?: PendingScales | null): Record<string, number> {
+  const quadrature = scaleDegree(decl);
+  if (problem.exact && ahead) return ahead.take();
   if (problem.exact) return exactNorms(decl.domain.mesh(decl.ladder.n[0]), problem.exact, { degree: quadrature }) as unknown as Record<string, number>;
   // rungs's own systems, and an external system's VTK fields measured with the same norms (a preset's fields u, p).
   const measuredHere = decl.discretization.kind === 'lagrange' || (externalFieldNorms(decl) !== null && decl.pde?.preset !== undefined);
