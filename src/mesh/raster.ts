@@ -94,9 +94,22 @@ export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: Ras
   if (perCell.length !== mesh.nCells) {
     throw new RungsInputError(`per-cell values: expected one per cell (${mesh.nCells}), got ${perCell.length}`, 'perCell');
   }
-  const maxPixels = requireSide(opts.maxPixels, 'maxPixels', DEFAULT_MAX_PIXELS);
+  requireSide(opts.maxPixels, 'maxPixels', DEFAULT_MAX_PIXELS);
   const maxPoints = requireSide(opts.maxProfilePoints, 'maxProfilePoints', DEFAULT_MAX_PROFILE_POINTS);
   if (mesh.dim === 1) return profile(mesh, perCell, maxPoints);
+  const r = rasterOf(mesh, opts);
+  const owner = pixelOwners(mesh, opts)!;
+  const values = new Float32Array(r.nx * r.ny);
+  for (let p = 0; p < values.length; p++) {
+    const c = owner[p]!;
+    values[p] = c >= 0 ? perCell[c]! : Number.NaN;
+  }
+  return { kind: 'raster', nx: r.nx, ny: r.ny, bbox: [r.x0, r.x1, r.y0, r.y1], ...(r.slice ? { slice: r.slice } : {}), values };
+}
+
+/** The raster of a 2D or 3D mesh's map: pixels per axis, the box, the slice plane in 3D. */
+function rasterOf(mesh: Mesh, opts: RasterOptions): { nx: number; ny: number; x0: number; x1: number; y0: number; y1: number; slice?: { axis: 'z'; at: number } } {
+  const maxPixels = requireSide(opts.maxPixels, 'maxPixels', DEFAULT_MAX_PIXELS);
   const box = boundingBox(mesh);
   const x0 = box.min[0]!, x1 = box.max[0]!, y0 = box.min[1]!, y1 = box.max[1]!;
   const width = x1 - x0, height = y1 - y0;
@@ -106,25 +119,47 @@ export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: Ras
   const nx = width >= height ? maxPixels : Math.max(1, Math.round((maxPixels * width) / height));
   const ny = height >= width ? maxPixels : Math.max(1, Math.round((maxPixels * height) / width));
   const slice: { axis: 'z'; at: number } | undefined = mesh.dim === 3 ? { axis: 'z', at: (box.min[2]! + box.max[2]!) / 2 } : undefined;
-  // The pixels' cells depend on the mesh and the raster only: located once for every map of the same mesh (the finest
-  // level draws two, one per norm: 2M triangles each time on the P1 ladder).
-  const key = `${nx}×${ny}`;
+  return { nx, ny, x0, x1, y0, y1, ...(slice ? { slice } : {}) };
+}
+
+/**
+ * The cell holding each pixel centre of the mesh's raster (−1: none), row by row; null for a 1D mesh (a profile).
+ * The pixels' cells depend on the mesh and the raster only: located once for every map of the same mesh (the finest
+ * level draws two, one per norm: 2M triangles each time on the P1 ladder), or taken from another thread that located
+ * them (adoptPixelOwners). Shared between callers: read it, never write it.
+ */
+export function pixelOwners(mesh: Mesh, opts: RasterOptions = {}): Int32Array | null {
+  if (mesh.dim === 1) return null;
+  const r = rasterOf(mesh, opts);
+  const key = `${r.nx}×${r.ny}`;
   let byRaster = located.get(mesh);
   if (!byRaster) { byRaster = new Map(); located.set(mesh, byRaster); }
   let owner = byRaster.get(key);
   if (!owner) {
-    owner = new Int32Array(nx * ny).fill(-1);
-    const grid: PixelGrid = { nx, ny, x0, y0, dx: width / nx, dy: height / ny, owner };
+    owner = new Int32Array(r.nx * r.ny).fill(-1);
+    const grid: PixelGrid = { nx: r.nx, ny: r.ny, x0: r.x0, y0: r.y0, dx: (r.x1 - r.x0) / r.nx, dy: (r.y1 - r.y0) / r.ny, owner };
     if (mesh.dim === 2) locate2D(mesh, grid);
-    else locateSlice(mesh, grid, slice!.at);
+    else locateSlice(mesh, grid, r.slice!.at);
     byRaster.set(key, owner);
   }
-  const values = new Float32Array(nx * ny);
-  for (let p = 0; p < values.length; p++) {
-    const c = owner[p]!;
-    values[p] = c >= 0 ? perCell[c]! : Number.NaN;
-  }
-  return { kind: 'raster', nx, ny, bbox: [x0, x1, y0, y1], ...(slice ? { slice } : {}), values };
+  return owner;
+}
+
+/** The number of pixels of the mesh's raster (0 for a 1D mesh): the length pixelOwners gives. */
+export function pixelCount(mesh: Mesh, opts: RasterOptions = {}): number {
+  if (mesh.dim === 1) return 0;
+  const r = rasterOf(mesh, opts);
+  return r.nx * r.ny;
+}
+
+/** Gives pixelOwners the owners of the mesh's raster located elsewhere (the same function on another thread, over
+ *  the same arrays: src/study/pixel-task.ts), so that they are not located again. */
+export function adoptPixelOwners(mesh: Mesh, owner: Int32Array, opts: RasterOptions = {}): void {
+  const r = rasterOf(mesh, opts);
+  if (owner.length !== r.nx * r.ny) throw new Error(`adoptPixelOwners: ${owner.length} owners for ${r.nx * r.ny} pixels`);
+  let byRaster = located.get(mesh);
+  if (!byRaster) { byRaster = new Map(); located.set(mesh, byRaster); }
+  byRaster.set(`${r.nx}×${r.ny}`, owner);
 }
 
 interface PixelGrid {

@@ -10,7 +10,7 @@ import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
-import { localOrdersAhead, pairRefines, recordWhere, warmLocalOrders } from './where.ts';
+import { localOrdersAhead, pairRefines, pixelOwnersAhead, recordWhere, warmLocalOrders } from './where.ts';
 import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { collectGarbage } from '../linalg/kernels/collect.ts';
@@ -74,6 +74,12 @@ async function runLevelUnguarded(
   // A study's last level is its largest: the multigrid's memory is not kept for a next solve (about 300 MB after
   // 1M unknowns), but given back before the level's errors and error maps (otherwise the run's peak: P1 ladder).
   const last = env.total !== undefined && index === env.total - 1;
+  // The finest level's maps (and the local-order map of the level before it) have their pixels located on the cell
+  // team's worker meanwhile (where.ts).
+  if (last && decl.discretization.kind !== 'external' && mesh) {
+    pixelOwnersAhead(mesh);
+    if (env.localOrderPair) pixelOwnersAhead(env.localOrderPair.coarse.mesh);
+  }
   const running = disc.run({ decl, file, problem, index, n, mesh, time, norms, solver: last ? { ...solver, keepMemory: false } : solver, env });
   const external = decl.discretization.kind === 'external';
   // An external code meshes for itself (its discretization has read h): the mesh is let go while the level waits for

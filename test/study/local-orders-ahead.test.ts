@@ -4,7 +4,9 @@ import { perturbMesh } from '../../src/mesh/perturb.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
 import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../src/fem/team/team.ts';
 import { taskUrl } from '../../src/files/task-url.ts';
-import { localOrderMap, localOrdersAhead, type LevelCellErrors } from '../../src/study/where.ts';
+import { adoptPixelsAhead, localOrderMap, localOrdersAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
+import { pixelOwners } from '../../src/mesh/raster.ts';
+import { boxMesh } from '../../src/mesh/box.ts';
 
 // The local orders of a study's finest pair are computed on the cell team's worker while the main thread goes on
 // (src/study/where.ts, localOrdersAhead; src/fem/team/team.ts, background): the map and summary must be those the
@@ -47,6 +49,20 @@ describe('local orders computed ahead on the cell team', () => {
     const [, coarseMesh, fineMesh] = pairs[0];
     const map = localOrderMap(level(coarseMesh, 1 / 40, 1), level(fineMesh, 1 / 80, 1 / 64), 0, 2, 0.1);
     expect(map?.summary?.median).toBeGreaterThan(1);
+  });
+
+  it.each([
+    ['triangles', () => rectangleMesh({ x: [0, 2], y: [0, 1], nx: 60, ny: 30, cells: 'triangles' })],
+    ['hexahedra (the mid-plane slice)', () => boxMesh({ x: [0, 1], y: [0, 1], z: [0, 1], nx: 8, ny: 8, nz: 8, cells: 'hexahedra' })],
+  ] as const)('the pixels of a map located ahead on %s are those located here', (_name, make) => {
+    const mesh = make();
+    const done = cellTeam().partsElsewhere;
+    pixelOwnersAhead(mesh);
+    adoptPixelsAhead(mesh);
+    expect(cellTeam().partsElsewhere - done).toBe(1); // the worker located them
+    const here = pixelOwners(make())!; // the same mesh made again: located in this thread
+    expect(here.some((c) => c >= 0)).toBe(true);
+    expect(Array.from(pixelOwners(mesh)!).join()).toBe(Array.from(here).join());
   });
 
   it('a job no worker computes is left to this thread (settle false), and with one thread nothing is started', () => {
