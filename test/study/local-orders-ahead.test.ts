@@ -1,25 +1,20 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
 import { perturbMesh } from '../../src/mesh/perturb.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
-import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../src/fem/team/team.ts';
+import { cellTeam, setTeamThreads, setWorkersFirst } from '../../src/fem/team/team.ts';
 import { taskUrl } from '../../src/files/task-url.ts';
 import { adoptPixelsAhead, localOrderMap, localOrdersAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
 import { pixelOwners } from '../../src/mesh/raster.ts';
 import { boxMesh } from '../../src/mesh/box.ts';
+import { useWorkerTeam } from '../fem/team/helpers.ts';
 
 // The local orders of a study's finest pair are computed on the cell team's worker while the main thread goes on
 // (src/study/where.ts, localOrdersAhead; src/fem/team/team.ts, background): the map and summary must be those the
 // main thread computes itself, the worker must really have computed them, and without a worker the main thread does.
 describe('local orders computed ahead on the cell team', () => {
   const square = { x: [0, 1], y: [0, 1] } as const;
-  const before = teamThreads();
-  beforeAll(() => {
-    setTeamThreads(2);
-    setWorkersFirst(true); // settle() waits until the worker has claimed the job, whatever the machine's speed
-    cellTeam().warm();
-  });
-  afterAll(() => { setWorkersFirst(false); setTeamThreads(before); });
+  useWorkerTeam();
 
   // Cell errors of a second-order method in L2 (∫_K e² falls by 2^(2·2+2) over the four children of a cell), with a
   // spread so that the quantiles differ.

@@ -1,22 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { defineStudy, lagrange } from '../../src/study/declaration.ts';
 import { rectangle } from '../../src/study/domain.ts';
 import { validateStudy } from '../../src/study/schema.ts';
 import { prepareStudy } from '../../src/study/runner.ts';
 import { normScales, normScalesAhead } from '../../src/study/discretizations/norm-scales.ts';
-import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../src/fem/team/team.ts';
+import { cellTeam, setTeamThreads } from '../../src/fem/team/team.ts';
+import { useWorkerTeam } from '../fem/team/helpers.ts';
 
 // The exact solution's own norms on the first level's mesh (the round-off scales) measured on the cell team's worker
 // while the finest level runs (src/study/discretizations/norm-scales.ts, normScalesAhead): the same numbers, bit for
 // bit, as this thread's, and really computed there.
 describe('norm scales measured ahead on the cell team', () => {
-  const before = teamThreads();
-  beforeAll(() => {
-    setTeamThreads(2);
-    setWorkersFirst(true); // settle() waits until the worker has claimed the job, whatever the machine's speed
-    cellTeam().warm();
-  });
-  afterAll(() => { setWorkersFirst(false); setTeamThreads(before); });
+  useWorkerTeam();
 
   const study = (degree: number) => validateStudy(defineStudy({
     name: `tile-scales-p${degree}`, domain: rectangle([0, 2], [0, 1]), exact: 'sin(pi*x) * exp(-y) + x*y*y',

@@ -7,13 +7,7 @@ import { defer, deferredBuffer, replay } from '../../../src/fem/assemble/deferre
 import type { FormCoefficients } from '../../../src/fem/assemble/types.ts';
 import { compileFormula } from '../../../src/exact/formula.ts';
 import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../../src/fem/team/team.ts';
-
-function bitDifferences(a: Float64Array, b: Float64Array): number {
-  if (a.length !== b.length) return -1;
-  let bad = 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) bad++;
-  return bad;
-}
+import { bitDifferences } from '../team/helpers.ts';
 
 describe('deferred additions (src/fem/assemble/deferred.ts)', () => {
   it('b −= x replayed as the addition of −x gives the same bits, signed zeros and subnormals included', () => {

@@ -14,6 +14,7 @@ import { locateFacets } from '../../../src/fem/geometry/facets.ts';
 import { facetsWithTags } from '../../../src/mesh/tags.ts';
 import { ruleFor } from '../../../src/fem/quadrature/index.ts';
 import { RungsInputError } from '../../../src/errors.ts';
+import { bitDifferences } from '../team/helpers.ts';
 
 /** The cell loop of assembleSystem as it is for every cell kind but tetrahedra (and was for tetrahedra too): every
  *  term's CellValues refilled by reinitCell, a binary search per entry, Dirichlet columns folded into b. Run on the
@@ -91,13 +92,6 @@ function plainCellLoop(space: FunctionSpace, coef: FormCoefficients, sys: Assemb
 }
 
 /** Indices where two arrays differ in their bits (Object.is also tells 0 from −0), or a length mismatch. */
-function bitDifferences(a: Float64Array, b: Float64Array): number {
-  if (a.length !== b.length) return -1;
-  let bad = 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) bad++;
-  return bad;
-}
-
 const coef: FormCoefficients = {
   k: (x, y, z) => 1 + x * y + 0.5 * Math.sin(z + y),
   b: (x, y, z, out) => { out[0] = 1 + y; out[1] = -0.5 * z; out[2] = Math.cos(x); },

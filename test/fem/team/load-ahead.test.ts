@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rectangleMesh } from '../../../src/mesh/rectangle.ts';
 import { boxMesh } from '../../../src/mesh/box.ts';
 import type { Mesh } from '../../../src/mesh/types.ts';
@@ -6,30 +6,17 @@ import { lagrangeSpace } from '../../../src/fem/dofmap/dofmap.ts';
 import { assembleSystem } from '../../../src/fem/assemble/system.ts';
 import type { BoundarySpec, FormCoefficients } from '../../../src/fem/assemble/types.ts';
 import { compileFormula } from '../../../src/exact/formula.ts';
-import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../../src/fem/team/team.ts';
+import { cellTeam, setTeamThreads, setWorkersFirst } from '../../../src/fem/team/team.ts';
 import { TEAM_MIN_CELLS } from '../../../src/fem/team/shared.ts';
 import { RungsInputError } from '../../../src/errors.ts';
-
-/** Entries whose bits differ (Object.is tells 0 from −0), or −1 for a length mismatch: one assertion per array. */
-function bitDifferences(a: Float64Array, b: Float64Array): number {
-  if (a.length !== b.length) return -1;
-  let bad = 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) bad++;
-  return bad;
-}
+import { bitDifferences, useWorkerTeam } from './helpers.ts';
 
 // The matrix and the load vector assembled by separate passes, b on a worker of the cell team while the main thread
 // assembles A (src/fem/assemble/system.ts, loadAhead): each receives the same additions in the same order as in one
 // pass, so both must be the one pass's bits exactly (IEEE 754-2019 §10.4: a given sequence of operations is
 // reproducible; common practice, no source), whichever thread computes b.
 describe('the load vector assembled ahead on a worker', () => {
-  const before = teamThreads();
-  beforeAll(() => {
-    setTeamThreads(2);
-    setWorkersFirst(true); // settleLoad waits until the worker has claimed the pass, whatever the machine's speed
-    cellTeam().warm();
-  });
-  afterAll(() => { setWorkersFirst(false); setTeamThreads(before); });
+  useWorkerTeam();
 
   // A mesh just large enough for the team (TEAM_MIN_CELLS, with parts of PART cells), coefficients a worker can
   // rebuild (compiled formulas).

@@ -14,14 +14,7 @@ import { errorNormsOf } from '../../../src/norms/errors.ts';
 import { ERROR_PART_CELLS } from '../../../src/norms/error-cells.ts';
 import { cellTeam, setTeamThreads, setWorkersFirst, teamThreads } from '../../../src/fem/team/team.ts';
 import { RungsInputError } from '../../../src/errors.ts';
-
-/** Entries whose bits differ (Object.is tells 0 from −0), or −1 for a length mismatch: one assertion per array. */
-function bitDifferences(a: Float64Array, b: Float64Array): number {
-  if (a.length !== b.length) return -1;
-  let bad = 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) bad++;
-  return bad;
-}
+import { bitDifferences } from './helpers.ts';
 
 // Coefficients as compiled formulas (what a worker can rebuild: src/fem/team/shared.ts, functionText); a vector b as
 // the Function constructor makes it too.
