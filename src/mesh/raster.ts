@@ -104,12 +104,25 @@ export function rasterizeCells(mesh: Mesh, perCell: ArrayLike<number>, opts: Ras
     const c = owner[p]!;
     values[p] = c >= 0 ? perCell[c]! : Number.NaN;
   }
-  return { kind: 'raster', nx: r.nx, ny: r.ny, bbox: [r.x0, r.x1, r.y0, r.y1], ...(r.slice ? { slice: r.slice } : {}), values };
+  return { kind: 'raster', nx: r.nx, ny: r.ny, bbox: [r.x0, r.x1, r.y0, r.y1], ...(r.slice ? { slice: { ...r.slice } } : {}), values };
 }
 
-/** The raster of a 2D or 3D mesh's map: pixels per axis, the box, the slice plane in 3D. */
-function rasterOf(mesh: Mesh, opts: RasterOptions): { nx: number; ny: number; x0: number; x1: number; y0: number; y1: number; slice?: { axis: 'z'; at: number } } {
+interface Raster { nx: number; ny: number; x0: number; x1: number; y0: number; y1: number; slice?: { axis: 'z'; at: number } }
+
+/** Rasters by mesh and side (a mesh's box is found once: its maps and their pixels ask for it several times). */
+const rasters = new WeakMap<Mesh, Map<number, Raster>>();
+
+/** The raster of a 2D or 3D mesh's map: pixels per axis, the box, the slice plane in 3D. Read it, never write it. */
+function rasterOf(mesh: Mesh, opts: RasterOptions): Raster {
   const maxPixels = requireSide(opts.maxPixels, 'maxPixels', DEFAULT_MAX_PIXELS);
+  let bySide = rasters.get(mesh);
+  if (!bySide) { bySide = new Map(); rasters.set(mesh, bySide); }
+  let r = bySide.get(maxPixels);
+  if (!r) { r = newRaster(mesh, maxPixels); bySide.set(maxPixels, r); }
+  return r;
+}
+
+function newRaster(mesh: Mesh, maxPixels: number): Raster {
   const box = boundingBox(mesh);
   const x0 = box.min[0]!, x1 = box.max[0]!, y0 = box.min[1]!, y1 = box.max[1]!;
   const width = x1 - x0, height = y1 - y0;
