@@ -65,7 +65,10 @@ describe('the load vector assembled ahead on a worker', () => {
     const gate = new Int32Array(new SharedArrayBuffer(8));
     const blocker = cellTeam().background(new URL('./blocking-task.ts', import.meta.url).href, { gate });
     try {
-      while (Atomics.load(gate, 1) === 0) Atomics.wait(gate, 1, 0, 50); // the worker holds the blocking job
+      // The worker holds the blocking job (bounded: a guard against a hang only, whatever the machine's speed).
+      const until = performance.now() + 120_000;
+      while (Atomics.load(gate, 1) === 0 && performance.now() < until) Atomics.wait(gate, 1, 0, 50);
+      expect(Atomics.load(gate, 1)).toBe(1);
       const split = assembleSystem(space, coef, bc, { loadAhead: true, partCells: PART });
       split.settleLoad!();
       expect([bitDifferences(split.A.values, onePass.A.values), bitDifferences(split.b, onePass.b)]).toEqual([0, 0]);
