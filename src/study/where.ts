@@ -104,12 +104,21 @@ export function pairRefines(coarseH: number, fineH: number): boolean {
 export function warmLocalOrders(mesh: Mesh, L2: Float64Array): void {
   const team = startedTeam();
   if (!team || team.workers === 0) return;
-  const input: LocalOrderTaskInput = {
-    coarse: sharedMesh(mesh), fine: sharedMesh(mesh), coarseL2: shared(L2), fineL2: shared(L2), ratio: 2, expected: 2, tolerance: 0.1,
-    coarseMeasures: shared(cellMeasures(mesh)), fineMeasures: null,
-    orders: new Float64Array(new SharedArrayBuffer(8 * mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
+  team.background(LOCAL_ORDER_TASK, localOrderTaskInput(mesh, mesh, L2, L2, 2, 2, 0.1, false));
+}
+
+/** The local-order task's input: the meshes and errors in shared memory, the coarse mesh's measures (this thread has
+ *  them from that level's files) and, with `fineMeasures`, the fine mesh's (this thread needs them next for the error
+ *  file's densities), shared instead of computed twice; its outputs. */
+function localOrderTaskInput(
+  coarse: Mesh, fine: Mesh, coarseL2: Float64Array, fineL2: Float64Array, ratio: number, expected: number | null, tolerance: number, fineMeasures: boolean,
+): LocalOrderTaskInput {
+  return {
+    coarse: sharedMesh(coarse), fine: sharedMesh(fine), coarseL2: shared(coarseL2), fineL2: shared(fineL2),
+    coarseMeasures: shared(cellMeasures(coarse)), fineMeasures: fineMeasures ? shared(cellMeasures(fine)) : null,
+    ratio, expected: expected ?? Number.NaN, tolerance,
+    orders: new Float64Array(new SharedArrayBuffer(8 * coarse.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
   };
-  team.background(LOCAL_ORDER_TASK, input);
 }
 
 /**
@@ -124,13 +133,7 @@ export function localOrdersAhead(pair: LocalOrderPair, fine: Mesh, fineL2: Float
   const team = startedTeam();
   if (!team || team.workers === 0) return null;
   const { coarse } = pair;
-  const input: LocalOrderTaskInput = {
-    coarse: sharedMesh(coarse.mesh), fine: sharedMesh(fine), coarseL2: shared(coarse.L2), fineL2: shared(fineL2),
-    // The measures this thread has or needs next (the error file's densities), shared instead of computed twice.
-    coarseMeasures: shared(cellMeasures(coarse.mesh)), fineMeasures: shared(cellMeasures(fine)),
-    ratio: coarse.h / fineH, expected: pair.expected ?? Number.NaN, tolerance: pair.tolerance,
-    orders: new Float64Array(new SharedArrayBuffer(8 * coarse.mesh.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
-  };
+  const input = localOrderTaskInput(coarse.mesh, fine, coarse.L2, fineL2, coarse.h / fineH, pair.expected, pair.tolerance, true);
   const job = team.background(LOCAL_ORDER_TASK, input);
   const here = (): LocalOrderData | null => localOrderData(coarse.mesh, fine, coarse.L2, fineL2, input.ratio, pair.expected, pair.tolerance);
   return {

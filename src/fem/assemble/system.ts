@@ -14,7 +14,7 @@ import { scatterCell } from './general-cells.ts';
 import { allCells } from './cell-set.ts';
 import { ASSEMBLY_PART_CELLS, cellParts, completionWords, runPart } from './cell-parts.ts';
 import { deferredBuffer } from './deferred.ts';
-import { assembleTaskInput, cellLoopTaskInput, teamCanAssemble, type LoadTaskInput } from './system-team.ts';
+import { assembleTaskInput, cellLoopTaskInput, teamCanAssemble, type CellLoopTaskInput, type LoadTaskInput } from './system-team.ts';
 import { cellTeam, taskUrl } from '../team/team.ts';
 import { sharedFloat64, TEAM_MIN_CELLS } from '../team/shared.ts';
 
@@ -110,11 +110,8 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   const scatter = (c: number): void => scatterCell(c, n, cellDofs, reduced, dirichletValues, Ke, Fe, rows, cols, A, b, null, 0, null);
 
 
-  const cv = (t: Term): CellValues => makeCellValues(el, ruleFor(mesh.cellKind, Math.max(0, degrees[t])));
-  const cvK = cv('stiffness');
-  const cvB = coef.b ? cv('convection') : null;
-  const cvC = coef.c ? cv('reaction') : null;
-  const cvF = coef.f ? cv('load') : null;
+  const rules = termRules(degrees, coef);
+  const { cvK, cvB, cvC, cvF } = termCellValues(space, rules);
 
   // The cells: on large meshes shared with the cell team's worker threads, part by part, each part writing the rows it
   // owns and replaying its additions to earlier parts' rows once those are complete (cell-parts.ts, runPart); else in
@@ -122,8 +119,6 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   const loopInput = { mesh, cellDofs, n, cvK, cvB, cvC, cvF, coef, A, b, reduced, dirichletValues };
   if (team) {
     const parts = cellParts(mesh.nCells, n, cellDofs, nDofs, opts.partCells);
-    const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
-    const rules = { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: rule('load', !!coef.f) };
     const done = completionWords(parts.parts);
     const input = assembleTaskInput(space, coef, rules, A, b, reduced, dirichletValues, parts, done, opts.reference ?? false);
     const loop = cellLoop(loopInput, opts.reference);
@@ -179,6 +174,18 @@ export function assembleSystem(space: FunctionSpace, coef: FormCoefficients, bc:
   return { space, A, b, reduced, dirichletValues, dirichletDofs, symmetric: !coef.b, degrees };
 }
 
+/** Each term's rule degree (at least 0), null for a term whose coefficient is absent (the stiffness is always there). */
+function termRules(degrees: Record<Term, number>, coef: FormCoefficients): CellLoopTaskInput['rules'] {
+  const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
+  return { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: rule('load', !!coef.f) };
+}
+
+/** The element's values at each present term's rule (null for an absent term), for the cell loops. */
+function termCellValues(space: FunctionSpace, rules: CellLoopTaskInput['rules']): { cvK: CellValues; cvB: CellValues | null; cvC: CellValues | null; cvF: CellValues | null } {
+  const cv = (d: number | null): CellValues | null => (d === null ? null : makeCellValues(space.element, ruleFor(space.mesh.cellKind, d)));
+  return { cvK: cv(rules.stiffness)!, cvB: cv(rules.convection), cvC: cv(rules.reaction), cvF: cv(rules.load) };
+}
+
 /**
  * assembleSystem's matrix and load vector by separate passes over the cells (loadAhead): a worker of the cell team
  * assembles b (every cell's load, and the matrix columns of Dirichlet unknowns folded into it) while this thread
@@ -196,13 +203,8 @@ function assembleWithLoadAhead(
   const A = opts.pattern ?? buildSparsity(space, reduced, nRed, 'private');
   if (opts.pattern) A.values.fill(0);
   const b = sharedFloat64(nRed);
-  const cv = (t: Term): CellValues => makeCellValues(el, ruleFor(mesh.cellKind, Math.max(0, degrees[t])));
-  const loopInput = {
-    mesh, cellDofs, n: el.nDofs, cvK: cv('stiffness'), cvB: coef.b ? cv('convection') : null, cvC: coef.c ? cv('reaction') : null, cvF: cv('load'),
-    coef, A, b, reduced, dirichletValues,
-  };
-  const rule = (t: Term, on: boolean) => (on ? Math.max(0, degrees[t]) : null);
-  const rules = { stiffness: Math.max(0, degrees.stiffness), convection: rule('convection', !!coef.b), reaction: rule('reaction', !!coef.c), load: Math.max(0, degrees.load) };
+  const rules = termRules(degrees, coef);
+  const loopInput = { mesh, cellDofs, n: el.nDofs, ...termCellValues(space, rules), coef, A, b, reduced, dirichletValues };
   const input: LoadTaskInput = { ...cellLoopTaskInput(space, coef, rules, reduced, dirichletValues, reference), b_: b };
   const job = cellTeam().background(LOAD_TASK, input);
   const onePass = (): never => {
