@@ -13,6 +13,8 @@ export interface LocalOrderTaskInput {
   /** cellMeasures of each mesh as the main thread has them (it needs them too), or null: computed here. */
   coarseMeasures: Float64Array | null;
   fineMeasures: Float64Array | null;
+  /** The fine cells' parents when located already (where.ts, parentCellsAhead), or null: located here. */
+  nest: { parent: Int32Array; nested: boolean } | null;
   /** h_coarse / h_fine. */
   ratio: number;
   /** The expected order (NaN: none) and the tolerance of its band. */
@@ -33,7 +35,7 @@ export function prepare(raw: unknown): (part: number) => void {
     const coarse = meshOf(p.coarse), fine = meshOf(p.fine);
     if (p.coarseMeasures) adoptCellMeasures(coarse, p.coarseMeasures);
     if (p.fineMeasures) adoptCellMeasures(fine, p.fineMeasures);
-    const data = localOrderData(coarse, fine, p.coarseL2, p.fineL2, p.ratio, Number.isNaN(p.expected) ? null : p.expected, p.tolerance);
+    const data = localOrderData(coarse, fine, p.coarseL2, p.fineL2, p.ratio, Number.isNaN(p.expected) ? null : p.expected, p.tolerance, p.nest ?? undefined);
     p.numbers[0] = data ? 1 : 0;
     if (!data) return;
     p.orders.set(data.orders);

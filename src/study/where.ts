@@ -12,8 +12,10 @@ import { SUMMARY_FIELDS, type LocalOrderTaskInput } from './local-order-task.ts'
 import { localOrderData, type LocalOrderData } from './local-order-data.ts';
 import { adoptPixelOwners, cellDensities, encodeErrorMap, pixelCount, rasterizeCells } from '../mesh/raster.ts';
 import type { PixelTaskInput } from './pixel-task.ts';
+import type { ParentTaskInput } from './parent-task.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
-import { writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
+import { rawVtuDataBytes, writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
+import { reserveBackgroundWrite } from '../files/background-write.ts';
 import { readVtkFile } from '../external/vtk/read.ts';
 import { meshFromArrays } from '../mesh/from-arrays.ts';
 import { CELL_DIM, type CellKind } from '../mesh/types.ts';
@@ -88,6 +90,35 @@ export function adoptPixelsAhead(mesh: Mesh): void {
   if (pending.settle()) adoptPixelOwners(mesh, pending.owner);
 }
 
+const PARENT_TASK = taskUrl(import.meta.url, 'parent-task');
+const parentsAhead = new WeakMap<Mesh, { coarse: Mesh; settle(): boolean; parent: Int32Array; nested: Int32Array }>();
+
+/** Starts locating the finest level's cells in the coarser level's (parentCells, for the pair's local orders) on the
+ *  cell team's worker at the finest level's start (level.ts): the worker is idle while this thread sets up that
+ *  level's multigrid (about 0.35 s at 1024² P1 squares), and the location took 0.14–0.2 s of the local-order task
+ *  that the run waited for at its end. takeParentsAhead hands the result to localOrdersAhead. Does nothing without a
+ *  running team. */
+export function parentCellsAhead(coarse: Mesh, fine: Mesh): void {
+  const team = startedTeam();
+  if (!team || team.workers === 0 || parentsAhead.has(fine)) return;
+  const input: ParentTaskInput = {
+    coarse: sharedMesh(coarse), fine: sharedMesh(fine),
+    parent: new Int32Array(new SharedArrayBuffer(4 * fine.nCells)), nested: new Int32Array(new SharedArrayBuffer(4)),
+  };
+  const job = team.background(PARENT_TASK, input);
+  parentsAhead.set(fine, { coarse, settle: () => job.settle(), parent: input.parent, nested: input.nested });
+}
+
+/** The parents located ahead for this pair (parentCellsAhead), or null (none started, another pair, or no worker took
+ *  the job: then nobody will). */
+function takeParentsAhead(coarse: Mesh, fine: Mesh): { parent: Int32Array; nested: boolean } | null {
+  const pending = parentsAhead.get(fine);
+  if (!pending) return null;
+  parentsAhead.delete(fine);
+  if (pending.coarse !== coarse || !pending.settle()) return null;
+  return { parent: pending.parent, nested: pending.nested[0] === 1 };
+}
+
 /** Whether the local orders of a pair of levels are taken: the fine level's cells are smaller (a ladder in Δt keeps
  *  one mesh). */
 export function pairRefines(coarseH: number, fineH: number): boolean {
@@ -104,7 +135,7 @@ export function pairRefines(coarseH: number, fineH: number): boolean {
 export function warmLocalOrders(mesh: Mesh, L2: Float64Array): void {
   const team = startedTeam();
   if (!team || team.workers === 0) return;
-  team.background(LOCAL_ORDER_TASK, localOrderTaskInput(mesh, mesh, L2, L2, 2, 2, 0.1, false));
+  team.background(LOCAL_ORDER_TASK, localOrderTaskInput(mesh, mesh, L2, L2, 2, 2, 0.1, false, null));
 }
 
 /** The local-order task's input: the meshes and errors in shared memory, the coarse mesh's measures (this thread has
@@ -112,10 +143,11 @@ export function warmLocalOrders(mesh: Mesh, L2: Float64Array): void {
  *  file's densities), shared instead of computed twice; its outputs. */
 function localOrderTaskInput(
   coarse: Mesh, fine: Mesh, coarseL2: Float64Array, fineL2: Float64Array, ratio: number, expected: number | null, tolerance: number, fineMeasures: boolean,
+  nest: LocalOrderTaskInput['nest'],
 ): LocalOrderTaskInput {
   return {
     coarse: sharedMesh(coarse), fine: sharedMesh(fine), coarseL2: shared(coarseL2), fineL2: shared(fineL2),
-    coarseMeasures: shared(cellMeasures(coarse)), fineMeasures: fineMeasures ? shared(cellMeasures(fine)) : null,
+    coarseMeasures: shared(cellMeasures(coarse)), fineMeasures: fineMeasures ? shared(cellMeasures(fine)) : null, nest,
     ratio, expected: expected ?? Number.NaN, tolerance,
     orders: new Float64Array(new SharedArrayBuffer(8 * coarse.nCells)), numbers: new Float64Array(new SharedArrayBuffer(8 * (2 + SUMMARY_FIELDS.length))),
   };
@@ -133,9 +165,10 @@ export function localOrdersAhead(pair: LocalOrderPair, fine: Mesh, fineL2: Float
   const team = startedTeam();
   if (!team || team.workers === 0) return null;
   const { coarse } = pair;
-  const input = localOrderTaskInput(coarse.mesh, fine, coarse.L2, fineL2, coarse.h / fineH, pair.expected, pair.tolerance, true);
+  const nest = takeParentsAhead(coarse.mesh, fine);
+  const input = localOrderTaskInput(coarse.mesh, fine, coarse.L2, fineL2, coarse.h / fineH, pair.expected, pair.tolerance, true, nest);
   const job = team.background(LOCAL_ORDER_TASK, input);
-  const here = (): LocalOrderData | null => localOrderData(coarse.mesh, fine, coarse.L2, fineL2, input.ratio, pair.expected, pair.tolerance);
+  const here = (): LocalOrderData | null => localOrderData(coarse.mesh, fine, coarse.L2, fineL2, input.ratio, pair.expected, pair.tolerance, nest ?? undefined);
   return {
     pair, fine,
     take() {
@@ -246,6 +279,25 @@ function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Arra
  *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of
  *  128 MB takes about 0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on
  *  the file. `densities` are the cell densities of the L2 and H1-seminorm errors (cellDensities). */
+/** Error files of meshes above this many cells are written raw (appended bytes), smaller ones as ASCII text. */
+const RAW_ERROR_FILE_CELLS = 200_000;
+
+/** The point arrays (u_h, u, error) and cell arrays (the two densities) writeLevelVtu writes, for a scalar u_h. */
+const ERROR_FILE_ARRAYS = { point: [1, 1, 1], cell: [1, 1] } as const;
+
+/**
+ * Reserves the space of a level's error file (writeLevelVtu) at the level's start, while its solution is still to be
+ * computed (src/files/background-write.ts, reserveBackgroundWrite: fresh page-cache pages cost about 2.5 ms per MB on
+ * the machines rungs is measured on, and the file's write at the end of the 1024² P1 level waited 0.2–0.35 s for
+ * them). For raw files only (the large ones); the size assumes a scalar u_h (a vector one writes a little more).
+ */
+export function reserveLevelVtu(mesh: Mesh, studyDir: string, index: number): void {
+  if (mesh.nCells <= RAW_ERROR_FILE_CELLS) return;
+  const dir = levelFolder(studyDir, index);
+  mkdirSync(dir, { recursive: true });
+  reserveBackgroundWrite(join(dir, 'errors.vtu'), 4096 + rawVtuDataBytes(mesh, ERROR_FILE_ARRAYS.point, ERROR_FILE_ARRAYS.cell));
+}
+
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Float64Array; H1semi: Float64Array }, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
@@ -262,7 +314,7 @@ function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Floa
     mesh,
     pointData: { u_h: components === 1 ? uh : { values: uh, components }, u: u, error: err },
     cellData: { [`${cells.norms.L2}_density`]: densities.L2, [`${cells.norms.H1semi}_density`]: densities.H1semi },
-    format: mesh.nCells > 200_000 ? 'raw' : 'ascii',
+    format: mesh.nCells > RAW_ERROR_FILE_CELLS ? 'raw' : 'ascii',
   });
 }
 

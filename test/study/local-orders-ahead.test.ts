@@ -4,7 +4,7 @@ import { perturbMesh } from '../../src/mesh/perturb.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
 import { cellTeam, setTeamThreads, setWorkersFirst } from '../../src/fem/team/team.ts';
 import { taskUrl } from '../../src/files/task-url.ts';
-import { adoptPixelsAhead, localOrderMap, localOrdersAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
+import { adoptPixelsAhead, localOrderMap, localOrdersAhead, parentCellsAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
 import { pixelOwners } from '../../src/mesh/raster.ts';
 import { boxMesh } from '../../src/mesh/box.ts';
 import { useWorkerTeam } from '../fem/team/helpers.ts';
@@ -38,6 +38,18 @@ describe('local orders computed ahead on the cell team', () => {
       expect(cellTeam().partsElsewhere - done).toBe(1); // the worker computed it
       expect(viaWorker).toEqual(plain);
     }
+  });
+
+  it.each(pairs)('%s: with the parents located ahead (parentCellsAhead), the map and summary are again this thread\'s', (_name, coarseMesh, fineMesh) => {
+    const coarse = level(coarseMesh, 2 / coarseMesh.nCells ** 0.5, 1);
+    const fine = level(fineMesh, 1 / coarseMesh.nCells ** 0.5, 1 / 64);
+    const plain = localOrderMap(coarse, fine, 0, 2, 0.1);
+    const done = cellTeam().partsElsewhere;
+    parentCellsAhead(coarseMesh, fineMesh);
+    const ahead = localOrdersAhead({ coarse, expected: 2, tolerance: 0.1 }, fineMesh, fine.L2, fine.h);
+    const viaWorker = localOrderMap(coarse, { ...fine, ahead: ahead! }, 0, 2, 0.1);
+    expect(cellTeam().partsElsewhere - done).toBe(2); // the worker located the parents, then computed the orders
+    expect(viaWorker).toEqual(plain);
   });
 
   it('the nested pair gives a map with a summary (the comparison above is not between two nulls)', () => {

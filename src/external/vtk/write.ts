@@ -97,6 +97,18 @@ export function vtuBytes(input: VtuInput): Uint8Array {
   return Buffer.concat(pieces);
 }
 
+/** The bytes of a 'raw' .vtu's appended data (each block's UInt64 byte count and its bytes) for `mesh` with point
+ *  arrays and cell arrays of these component counts: the file's size but for its XML text (about 1 KB), known
+ *  before the values are (a background write's reservation: where.ts, reserveLevelVtu). The blocks dataArrays
+ *  lists: the data arrays (Float64), the points (3 × Float64), connectivity (Int32), offsets (Int64), types (UInt8). */
+export function rawVtuDataBytes(mesh: Mesh, pointComponents: readonly number[], cellComponents: readonly number[]): number {
+  const block = (count: number, width: number): number => 8 + count * width;
+  const nv = mesh.nVertices, nc = mesh.nCells;
+  return pointComponents.reduce((n, c) => n + block(nv * c, WIDTH.Float64), 0)
+    + cellComponents.reduce((n, c) => n + block(nc * c, WIDTH.Float64), 0)
+    + block(3 * nv, WIDTH.Float64) + block(nc * mesh.verticesPerCell, WIDTH.Int32) + block(nc, WIDTH.Int64) + block(nc, WIDTH.UInt8);
+}
+
 /** The input checked, and every DataArray of the file in its order. */
 function dataArrays(input: VtuInput): DataArray[] {
   const { mesh } = input;

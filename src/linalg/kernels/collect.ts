@@ -25,7 +25,16 @@ import { runInNewContext } from 'node:vm';
  * obtains it (jest-leak-detector, common practice, no source). A process started with --expose-gc already has it
  * (the flag is then left alone); without it (a V8 that refuses), nothing is done.
  */
-export const collectGarbage: () => void = (() => {
+export function collectGarbage(): void {
+  collector ??= findCollector();
+  collector();
+}
+
+/** Found at the first collection, not when this module loads: the fresh context would otherwise exist in every
+ *  process that merely imports the solver (and a heap holding it cannot be saved as a start-up snapshot). */
+let collector: (() => void) | undefined;
+
+function findCollector(): () => void {
   const given = (globalThis as { gc?: unknown }).gc;
   if (typeof given === 'function') return () => { (given as () => void)(); };
   try {
@@ -37,4 +46,4 @@ export const collectGarbage: () => void = (() => {
   } finally {
     setFlagsFromString('--no-expose-gc');
   }
-})();
+}
