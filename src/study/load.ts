@@ -6,6 +6,7 @@ import { RungsInputError } from '../errors.ts';
 import type { StudyDeclaration } from './declaration.ts';
 import { validateStudy } from './schema.ts';
 import { resolveStudyPaths } from '../external/study-paths.ts';
+import { heldLibraryUrl } from './library.ts';
 
 export const STUDY_SUFFIX = '.study.ts';
 
@@ -37,7 +38,8 @@ export interface LoadedStudy {
 }
 
 /** The entry point study files get for `import ... from 'rungs'`: the rungs that is running them (src/index.ts run
- *  from the source, dist/index.js in the compiled package). */
+ *  from the source, dist/index.js in the compiled package; the command run as one file answers it with the library
+ *  that file holds, heldLibraryUrl). */
 const RUNGS_ENTRY = new URL(import.meta.url.endsWith('.ts') ? '../index.ts' : '../index.js', import.meta.url).href;
 
 let resolverRegistered = false;
@@ -45,18 +47,22 @@ let resolverRegistered = false;
 /**
  * Lets a study file anywhere (a temporary folder, another project) import 'rungs'. Node resolves the bare name from
  * the study's own folder upwards (a node_modules/rungs there, or this package itself for files inside it), and that
- * answer is kept; only when that finds nothing is 'rungs' taken to mean the rungs that runs the study. Registered
- * once per thread (workers load study files too).
+ * answer is kept; only when that finds nothing is 'rungs' taken to mean the rungs that runs the study. This package's
+ * own entry is answered by the library the one-file command holds, when it runs as one (library.ts). Registered once
+ * per thread (workers load study files too).
  */
 function ensureRungsResolvable(): void {
   if (resolverRegistered || typeof register !== 'function') return;
   resolverRegistered = true;
   const hooks = [
     `const entry = ${JSON.stringify(RUNGS_ENTRY)};`,
+    `const held = ${JSON.stringify(heldLibraryUrl())};`,
     'export async function resolve(specifier, context, next) {',
     '  let found;',
     '  try { found = await next(specifier, context); }',
-    "  catch (err) { if (specifier === 'rungs' && err && err.code === 'ERR_MODULE_NOT_FOUND') return { url: entry, format: 'module', shortCircuit: true }; throw err; }",
+    "  catch (err) { if (specifier === 'rungs' && err && err.code === 'ERR_MODULE_NOT_FOUND') return { url: held ?? entry, format: 'module', shortCircuit: true }; throw err; }",
+    // The command run as one file: this package's entry is answered by the library that file holds (library.ts).
+    "  if (held !== null && found.url === entry) return { url: held, format: 'module', shortCircuit: true };",
     // A study file is an ES module (it must `export default`), also where no package.json says "type": "module".
     "  if (/\\.study\\.(ts|js)$/.test(found.url.split('?')[0]) && found.format === 'commonjs') return { ...found, format: 'module' };",
     '  return found;',
@@ -138,6 +144,7 @@ async function importCompiledStudy(abs: string): Promise<Record<string, unknown>
   try {
     let rungs: string;
     try { rungs = pathToFileURL(createRequire(abs).resolve('rungs')).href; } catch { rungs = RUNGS_ENTRY; }
+    if (rungs === RUNGS_ENTRY) rungs = heldLibraryUrl() ?? rungs;
     const js = await compiledStudyModule(readFileSync(abs, 'utf8'), abs, rungs);
     if (js === null) return null;
     return (await import(`data:text/javascript;base64,${Buffer.from(js).toString('base64')}`)) as Record<string, unknown>;

@@ -70,7 +70,7 @@ const study = join(root, 'p1-ladder.study.ts');
 writeFileSync(study, ladderStudyFile('p1', 'p1-ladder', levels));
 // rungs as a user runs it: the installed layout (compiled dist/, no TypeScript compiled on the fly; a checkout's
 // bin/rungs.mjs would compile src/ through tsx at every start, about 0.3 s more of this ladder).
-const rungsBin = installedLayout(repo, root);
+const rungsBin = await installedLayout(repo, root);
 
 interface Level { n: number; L2: number; H1semi: number; iterations: number; relativeResidual: number }
 interface Run { wall: number; levels: Level[]; text: string }

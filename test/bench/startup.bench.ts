@@ -14,7 +14,7 @@ import { installedLayout } from './installed.ts';
 const rounds = Number(process.argv[2] ?? 9);
 const repo = resolve('.');
 const root = mkdtempSync(join(tmpdir(), 'rungs-startup-'));
-const bin = installedLayout(repo, root);
+const bin = await installedLayout(repo, root);
 const study = join(root, 'studies', 'rod-p1.study.ts');
 mkdirSync(join(root, 'studies'));
 cpSync(join(repo, 'studies', 'rod-p1.study.ts'), study);

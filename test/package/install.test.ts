@@ -6,7 +6,6 @@ import { spawnSync, type SpawnSyncReturns } from 'node:child_process';
 import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { pathToFileURL } from 'node:url';
 
 const REPO = resolve('.');
 const TSC = join(REPO, 'node_modules', 'typescript', 'bin', 'tsc');
@@ -25,7 +24,7 @@ function ok(r: SpawnSyncReturns<string>, what: string): string {
 function pack(root: string): string {
   const copy = join(root, 'checkout');
   mkdirSync(copy);
-  for (const f of ['package.json', 'README.md', 'tsconfig.json', 'tsconfig.build.json', 'bin', 'src']) {
+  for (const f of ['package.json', 'README.md', 'tsconfig.json', 'tsconfig.build.json', 'bin', 'src', 'scripts']) {
     if (existsSync(join(REPO, f))) cpSync(join(REPO, f), join(copy, f), { recursive: true });
   }
   symlinkSync(join(REPO, 'node_modules'), join(copy, 'node_modules'), 'dir');
@@ -98,6 +97,24 @@ export default defineStudy({
 });
 `;
 
+// A custom discretization that asks the library for an element it does not have: the library's RungsInputError must
+// reach the command as one of its own (a clean message naming the study), which holds only when the study and the
+// command share one copy of rungs.
+const BAD_ELEMENT_STUDY = `import { defineStudy, rectangle, custom, solveLagrange, type LevelContext } from 'rungs';
+export default defineStudy({
+  name: 'rod-bad-element', description: 'Kiln rod section asking for a P9 element.',
+  domain: rectangle([0, 1], [0, 1]), exact: 'x*y', boundary: { dirichlet: ['left', 'right', 'bottom', 'top'] },
+  discretization: custom({
+    label: 'P9', degree: 9,
+    solve(level: LevelContext) {
+      const sol = solveLagrange({ mesh: level.mesh, degree: 9, coefficients: level.coefficients, boundary: level.boundary, solver: level.solver });
+      return { field: sol.field, solver: sol.solver };
+    },
+  }),
+  ladder: { n: [2, 4] }, norms: ['L2'],
+});
+`;
+
 // A study that must not type-check: the ladder's sizes are numbers.
 const WRONG_STUDY = `import { defineStudy, interval, lagrange } from 'rungs';
 export default defineStudy({
@@ -143,6 +160,16 @@ const errors = (x) => x.results.map((r) => r.levels.map((l) => l.errors));
 console.log(JSON.stringify({ serial: errors(serial), parallel: errors(parallel), problems: [...serial.problems, ...parallel.problems] }));
 `;
 
+/** The command runs as one file (dist/rungs-cli.mjs), which answers a study's 'rungs' with the library it holds
+ *  (src/study/library.ts): a data: module re-exporting it, so the study shares the running rungs. */
+function expectRunningLibrary(resolved: string): void {
+  const prefix = 'data:text/javascript;base64,';
+  expect(resolved.startsWith(prefix)).toBe(true);
+  const text = Buffer.from(resolved.slice(prefix.length), 'base64').toString('utf8');
+  expect(text).toContain('globalThis[Symbol.for("rungs.library")]');
+  expect(text).toMatch(/export const \{[^}]*\bdefineStudy\b[^}]*\} = library;/);
+}
+
 describe('the packed package installed into another project', () => {
   let root: string;
   let project: string;
@@ -160,7 +187,7 @@ describe('the packed package installed into another project', () => {
 
   it('holds the compiled library, its declarations and the launcher, and no sources, tests or fixtures', () => {
     const files = ok(run('tar', ['-tzf', tgz], root), 'tar -t').split('\n').filter(Boolean).map((f) => f.replace(/^package\//, ''));
-    expect(files).toEqual(expect.arrayContaining(['package.json', 'bin/rungs.mjs', 'dist/index.js', 'dist/index.d.ts', 'dist/cli/main.js', 'dist/parallel/worker-entry.mjs']));
+    expect(files).toEqual(expect.arrayContaining(['package.json', 'bin/rungs.mjs', 'dist/index.js', 'dist/index.d.ts', 'dist/cli/main.js', 'dist/rungs-cli.mjs', 'dist/parallel/worker-entry.mjs']));
     const stray = files.filter((f) => !/^(package\.json|README\.md|LICENSE|bin\/[^/]+\.mjs|dist\/.+\.(js|mjs|d\.ts))$/.test(f) || /(^|\/)(test|fixtures?|studies)\//.test(f) || /\.test\./.test(f));
     expect(stray).toEqual([]);
   });
@@ -222,7 +249,7 @@ describe('the packed package installed into another project', () => {
     const out = ok(r, `rungs run (installed by ${how})`);
     expect(out).toMatch(/rod-section-own/);
     expect(out).toMatch(/Summary: 2 studies, 2 as expected/);
-    expect(readFileSync(whereFile, 'utf8')).toBe(pathToFileURL(join(project, 'node_modules', 'rungs', 'dist', 'index.js')).href);
+    expectRunningLibrary(readFileSync(whereFile, 'utf8'));
     expect(existsSync(join(root, 'reports', 'rod-section-own'))).toBe(true);
 
     // A study in a folder with no rungs installed above it gets the installed command's own copy.
@@ -231,7 +258,16 @@ describe('the packed package installed into another project', () => {
     writeFileSync(join(bare, 'rod-where.study.ts'), WHERE_STUDY);
     const whereBare = join(root, 'where-bare.txt');
     ok(run(join(project, 'node_modules', '.bin', 'rungs'), ['run', 'rod-where.study.ts', '--out', join(root, 'reports-bare'), '--quiet', '--jobs', '1'], bare, { RUNGS_WHERE_FILE: whereBare }), 'rungs run in a bare folder');
-    expect(readFileSync(whereBare, 'utf8')).toBe(pathToFileURL(join(project, 'node_modules', 'rungs', 'dist', 'index.js')).href);
+    expectRunningLibrary(readFileSync(whereBare, 'utf8'));
+
+    // The library's own errors, thrown for the study, are the command's: a clean message and status 2.
+    const badDir = join(root, 'bad-element');
+    mkdirSync(badDir);
+    writeFileSync(join(badDir, 'rod-bad-element.study.ts'), BAD_ELEMENT_STUDY);
+    const bad = run(join(project, 'node_modules', '.bin', 'rungs'), ['run', 'rod-bad-element.study.ts', '--out', join(root, 'reports-bad'), '--quiet', '--jobs', '1'], badDir);
+    expect(bad.status).toBe(2);
+    expect(bad.stdout + bad.stderr).toMatch(/rod-bad-element.*no Lagrange element of degree 9 on triangles; valid degrees: 1, 2, 3/);
+    expect(bad.stdout + bad.stderr).not.toMatch(/unexpected failure/);
   });
 
   it('runs levels on worker threads of the compiled package with the same errors as in one thread', () => {
