@@ -5,6 +5,7 @@
 import { Command, InvalidArgumentError, Option } from 'commander';
 import { LANGUAGES } from '../codegen/languages.ts';
 import { packageVersions } from '../study/versions.ts';
+import { warmStudyCompiler } from '../study/study-compiler.ts';
 
 /** --jobs when not given: the cores this process may use (the pool's own default, loaded only for a run). */
 async function withJobs<T extends { jobs?: number }>(o: T): Promise<T> {
@@ -67,6 +68,7 @@ program
       process.exitCode = await watchRuns({ args: process.argv.slice(process.argv.indexOf('run') + 1), paths, quiet: o.quiet });
       return;
     }
+    warmStudyCompiler();
     const { runCommand } = await import('./run-command.ts');
     process.exitCode = await runCommand(paths, await withJobs(o));
   });
@@ -89,6 +91,7 @@ program
   .option('--partition <name>', PARTITION_HELP)
   .option('--cancel-jobs', CANCEL_JOBS_HELP)
   .action(async (paths: string[], o) => {
+    warmStudyCompiler();
     const { checkCommand } = await import('./check-command.ts');
     process.exitCode = await checkCommand(paths, await withJobs(o));
     if (o.pdf && !(await (await import('./output.ts')).writePdfStep(o.out, o.quiet))) process.exitCode = 2;
@@ -132,6 +135,7 @@ program
   .option('--quiet', 'do not print the formulas')
   .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .action(async (paths: string[], o) => {
+    warmStudyCompiler();
     const { dataCommand } = await import('./data-command.ts');
     process.exitCode = await dataCommand(paths, o);
   });
@@ -143,6 +147,7 @@ program
   .option('--quiet', 'print only the study names')
   .option('--study <patterns>', STUDY_HELP, studyPatterns)
   .action(async (paths: string[], o) => {
+    warmStudyCompiler();
     const { listCommand } = await import('./list-command.ts');
     process.exitCode = await listCommand(paths, o);
   });
@@ -158,6 +163,7 @@ program
   .option('--norms <names>', 'comma-separated', '')
   .requiredOption('--total <levels>', 'levels of the study', Number)
   .action(async (file: string, o) => {
+    warmStudyCompiler();
     const { levelErrorsCommand } = await import('./level-errors-command.ts');
     process.exitCode = await levelErrorsCommand(file, o);
   });

@@ -7,6 +7,7 @@ import type { StudyDeclaration } from './declaration.ts';
 import { validateStudy } from './schema.ts';
 import { resolveStudyPaths } from '../external/study-paths.ts';
 import { heldLibraryUrl } from './library.ts';
+import { COMPILED } from './study-compiler.ts';
 
 export const STUDY_SUFFIX = '.study.ts';
 
@@ -112,8 +113,6 @@ function explain(err: Error, text: string): string {
   return err.message.split('\n')[0];
 }
 
-/** The compiled package (dist/): study files, TypeScript, need a loader; run from the source, tsx is in place. */
-const COMPILED = !import.meta.url.endsWith('.ts');
 
 let typeScriptLoader: Promise<void> | null = null;
 
