@@ -13,22 +13,40 @@
  * createRequire (src/exact/mathjs.ts), which the bundler leaves alone. CommonJS packages bundled in (commander) get
  * `require` from createRequire.
  */
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { build } from 'esbuild';
+import { build, type BuildOptions } from 'esbuild';
 
 export const BUNDLE_FILE = 'rungs-cli.mjs';
+export const WORKER_BUNDLE_FILE = 'rungs-worker.mjs';
 
 /** Packages left outside the one file (see above). */
 const OUTSIDE = ['esbuild', 'tsx', 'tinypool', 'playwright-core'];
 
-/** Bundles `packageRoot`/dist (already compiled by tsc) into `packageRoot`/dist/rungs-cli.mjs. */
+/** Bundles `packageRoot`/dist (already compiled by tsc from `packageRoot`/src) into `packageRoot`/dist/rungs-cli.mjs,
+ *  and the cell team's worker with every task module (the files named *-task.ts in src/) into dist/rungs-worker.mjs. */
 export async function bundleCli(packageRoot: string): Promise<void> {
   const dist = join(packageRoot, 'dist');
-  await build({
-    entryPoints: [join(dist, 'cli', 'bundle-entry.js')],
-    outfile: join(dist, BUNDLE_FILE),
+  await build({ ...common(dist), entryPoints: [join(dist, 'cli', 'bundle-entry.js')], outfile: join(dist, BUNDLE_FILE) });
+  // The worker's entry: each task module held under the URL its file has in dist/ (src/fem/team/task-registry.ts),
+  // then the worker's message loop.
+  // The task modules are those of src/ (dist/ may hold files of modules since removed: tsc does not delete them).
+  const src = join(packageRoot, 'src');
+  const tasks = findFiles(src, (name) => name.endsWith('-task.ts')).map((file) => relative(src, file).split(sep).join('/').replace(/\.ts$/, '.js'));
+  const entry = [
+    "import { holdTaskModules } from './fem/team/task-registry.js';",
+    ...tasks.map((rel, i) => `import * as task${i} from ${JSON.stringify(`./${rel}`)};`),
+    "import './fem/team/worker.js';",
+    `holdTaskModules({ ${tasks.map((rel, i) => `[new URL(${JSON.stringify(rel)}, import.meta.url).href]: task${i}`).join(', ')} });`,
+  ].join('\n');
+  await build({ ...common(dist), stdin: { contents: entry, resolveDir: dist, sourcefile: 'worker-bundle-entry.js', loader: 'js' }, outfile: join(dist, WORKER_BUNDLE_FILE) });
+}
+
+/** The options both bundles share: one ES module for Node 20, the packages of OUTSIDE left out, `require` for the
+ *  CommonJS packages bundled in, each module's import.meta.url replaced by its file's URL in dist/. */
+function common(dist: string): BuildOptions {
+  return {
     bundle: true, platform: 'node', format: 'esm', target: 'node20',
     external: OUTSIDE.flatMap((p) => [p, `${p}/*`]),
     banner: { js: "import { createRequire as bundleRequire } from 'node:module';\nconst require = bundleRequire(import.meta.url);" },
@@ -44,7 +62,18 @@ export async function bundleCli(packageRoot: string): Promise<void> {
         });
       },
     }],
-  });
+  };
+}
+
+/** Files under `dir` (recursively) whose name passes `keep`, sorted. */
+function findFiles(dir: string, keep: (name: string) => boolean): string[] {
+  const out: string[] = [];
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const path = join(dir, entry.name);
+    if (entry.isDirectory()) out.push(...findFiles(path, keep));
+    else if (keep(entry.name)) out.push(path);
+  }
+  return out.sort();
 }
 
 function escape(text: string): string {

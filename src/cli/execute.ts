@@ -1,3 +1,4 @@
+import { solverTeam } from '../fem/team/team.ts';
 import { ladderRungs, quickLevels } from '../study/time-ladder.ts';
 import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, relative } from 'node:path';
@@ -400,6 +401,10 @@ async function runSerial(prepared: PreparedStudy[], ctx: RunContext): Promise<vo
   // and 24 s in two lanes, beside the 25 s of rungs's own (load average 3-4).
   const lanes: PreparedStudy[][] = [[], []];
   for (const p of external) lanes[lanes[0]!.length <= lanes[1]!.length ? 0 : 1]!.push(p);
+  // The cell team's workers are started now when a level will have them solve (solverTeam: from SEAM_MIN_ROWS
+  // unknowns), so that they have loaded their code (about 0.12 s of the other core) before that level: started by
+  // it, the first parts and the load vector of the 256² P1 level waited for them.
+  solverTeam(Math.max(0, ...levelDofs(own)));
   await Promise.all([...lanes.map((l) => runLane(l, ctx)), runLane(own, ctx)]);
 }
 

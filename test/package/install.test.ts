@@ -3,7 +3,7 @@
 // under a temporary folder: the checkout is copied there before packing, since packing builds dist/.
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync, type SpawnSyncReturns } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 
@@ -170,6 +170,24 @@ function expectRunningLibrary(resolved: string): void {
   expect(text).toMatch(/export const \{[^}]*\bdefineStudy\b[^}]*\} = library;/);
 }
 
+// The cell team's worker as the package starts it (dist/rungs-worker.mjs), asked for a task whose module file is gone:
+// only the copy the one-file worker holds can compute it. Prints whether a worker did, and whether its pixels are
+// those located in this thread.
+const TEAM_SCRIPT = `const dist = new URL('./node_modules/rungs/dist/', import.meta.url);
+const { cellTeam, setWorkersFirst } = await import(new URL('fem/team/team.js', dist).href);
+const { sharedMesh } = await import(new URL('fem/team/mesh.js', dist).href);
+const { rectangleMesh } = await import(new URL('mesh/rectangle.js', dist).href);
+const { pixelOwners, pixelCount } = await import(new URL('mesh/raster.js', dist).href);
+setWorkersFirst(true);
+const mesh = rectangleMesh({ x: [0, 2], y: [0, 1], nx: 60, ny: 30, cells: 'triangles' });
+const owner = new Int32Array(new SharedArrayBuffer(4 * pixelCount(mesh)));
+const job = cellTeam().background(new URL('study/pixel-task.js', dist).href, { mesh: sharedMesh(mesh), owner });
+const byWorker = job.settle();
+const here = pixelOwners(rectangleMesh({ x: [0, 2], y: [0, 1], nx: 60, ny: 30, cells: 'triangles' }));
+console.log(JSON.stringify({ byWorker, same: here.length === owner.length && here.every((c, i) => c === owner[i]), located: here.some((c) => c >= 0) }));
+cellTeam().close();
+`;
+
 describe('the packed package installed into another project', () => {
   let root: string;
   let project: string;
@@ -304,5 +322,17 @@ describe('the packed package installed into another project', () => {
     const again = ok(run(bin, ['init'], fresh), 'rungs init again');
     expect(again).toContain('kept     tsconfig.json');
     expect(readFileSync(join(fresh, 'tsconfig.json'), 'utf8')).toBe('{ "include": ["elsewhere"] }\n');
+  });
+
+  it('starts the cell team\'s worker from one file holding every task module (none needs its own file)', () => {
+    const dist = join(project, 'node_modules', 'rungs', 'dist');
+    expect(existsSync(join(dist, 'rungs-worker.mjs'))).toBe(true);
+    // The task modules' own files removed (this test runs after the others of this file, which may use them).
+    const tasks = (readdirSync(dist, { recursive: true }) as string[]).filter((f) => f.endsWith('-task.js'));
+    expect(tasks.length).toBeGreaterThanOrEqual(8);
+    for (const f of tasks) rmSync(join(dist, f));
+    writeFileSync(join(project, 'team.mjs'), TEAM_SCRIPT);
+    const out = ok(run(process.execPath, ['team.mjs'], project, { RUNGS_THREADS: '2' }), 'the team script');
+    expect(JSON.parse(out.trim().split('\n').pop()!)).toEqual({ byWorker: true, same: true, located: true });
   });
 });

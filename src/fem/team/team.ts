@@ -1,4 +1,6 @@
+import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
 import { isMainThread, Worker } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
 import { taskUrl } from '../../files/task-url.ts';
@@ -88,13 +90,19 @@ export function cellTeam(): CellTeam {
   return team;
 }
 
+/** The worker's entry: the one-file worker where the package has it (dist/rungs-worker.mjs, scripts/bundle-cli.ts:
+ *  its modules and every task's in one file, loaded in a fraction of the 0.3–0.35 s the separate modules took, which
+ *  delayed the worker's first parts at the 256² P1 level), else worker-entry.mjs. */
+const ONE_FILE_ENTRY = new URL('../../rungs-worker.mjs', import.meta.url);
 const ENTRY = new URL('./worker-entry.mjs', import.meta.url);
+let entry: URL | null = null;
 
 function makeTeam(nWorkers: number): CellTeam {
   const workers: Worker[] = [];
   for (let i = 0; i < nWorkers; i++) {
     try {
-      const w = new Worker(ENTRY);
+      entry ??= existsSync(fileURLToPath(ONE_FILE_ENTRY)) ? ONE_FILE_ENTRY : ENTRY;
+      const w = new Worker(entry);
       w.unref();
       w.on('error', () => { /* its parts are taken by the main thread (FAILED, or never claimed) */ });
       workers.push(w);

@@ -4,6 +4,7 @@
 import { parentPort } from 'node:worker_threads';
 import { DONE, FAILED, NEXT, STATUS, type TaskModule, type TeamJob } from './protocol.ts';
 import { collectGarbage } from '../../linalg/kernels/collect.ts';
+import { heldTaskModule } from './task-registry.ts';
 
 const modules = new Map<string, Promise<TaskModule>>();
 
@@ -21,7 +22,11 @@ async function runJob(job: TeamJob): Promise<void> {
   let run: ((part: number) => void) | null = null;
   try {
     let mod = modules.get(job.task);
-    if (!mod) { mod = import(job.task) as Promise<TaskModule>; modules.set(job.task, mod); }
+    if (!mod) {
+      const held = heldTaskModule(job.task);
+      mod = held ? Promise.resolve(held) : import(job.task) as Promise<TaskModule>;
+      modules.set(job.task, mod);
+    }
     run = (await mod).prepare(job.input);
   } catch {
     run = null;
