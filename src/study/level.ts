@@ -93,6 +93,10 @@ async function runLevelUnguarded(
   const out = await running;
   // Whatever the discretization kept anyway (a solver of its own that was not told) goes too.
   if (last && releaseArenaMemory(startedTeam() ?? undefined)) collectGarbage();
+  // One turn of the event loop, which does not turn while a level computes: I/O finished meanwhile (the reservation of
+  // this level's error file) is taken in, so that the file's write starts now, beside what follows, rather than when
+  // the run next waits (src/files/background-write.ts; the finest P1 level's waited 105–115 ms at the run's end).
+  if (last) await new Promise((resolve) => setImmediate(resolve));
   const tWhere = performance.now();
   const cellsMesh = out.errorCells?.mesh ?? mesh;
   // The finest pair's local orders are computed on the team's worker meanwhile (the study takes them once complete).

@@ -289,13 +289,14 @@ const ERROR_FILE_ARRAYS = { point: [1, 1, 1], cell: [1, 1] } as const;
  * Reserves the space of a level's error file (writeLevelVtu) at the level's start, while its solution is still to be
  * computed (src/files/background-write.ts, reserveBackgroundWrite: fresh page-cache pages cost about 2.5 ms per MB on
  * the machines rungs is measured on, and the file's write at the end of the 1024² P1 level waited 0.2–0.35 s for
- * them). For raw files only (the large ones); the size assumes a scalar u_h (a vector one writes a little more).
+ * them). For raw files only (the large ones); the size is the appended data's for a scalar u_h, no more than the file
+ * will hold (its XML text comes on top, a vector u_h writes more), so that the write need not cut the file.
  */
 export function reserveLevelVtu(mesh: Mesh, studyDir: string, index: number): void {
   if (mesh.nCells <= RAW_ERROR_FILE_CELLS) return;
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
-  reserveBackgroundWrite(join(dir, 'errors.vtu'), 4096 + rawVtuDataBytes(mesh, ERROR_FILE_ARRAYS.point, ERROR_FILE_ARRAYS.cell));
+  reserveBackgroundWrite(join(dir, 'errors.vtu'), rawVtuDataBytes(mesh, ERROR_FILE_ARRAYS.point, ERROR_FILE_ARRAYS.cell));
 }
 
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Float64Array; H1semi: Float64Array }, studyDir: string, index: number): void {
