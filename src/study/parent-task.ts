@@ -3,6 +3,7 @@
 // part: the whole. The local-order task takes its result instead of locating them again.
 import { meshOf, type SharedMesh } from '../fem/team/mesh.ts';
 import { parentCells } from '../mesh/nesting.ts';
+import { cellMeasures } from '../mesh/regions.ts';
 
 export interface ParentTaskInput {
   coarse: SharedMesh;
@@ -11,13 +12,18 @@ export interface ParentTaskInput {
   parent: Int32Array;
   /** Out: [nested (1 or 0)]. */
   nested: Int32Array;
+  /** Out: the fine cells' measures, which the location's check of nestedness computes (the main thread then takes
+   *  them for the finest level's error densities instead of measuring 2M triangles again). */
+  fineMeasures: Float64Array;
 }
 
 export function prepare(raw: unknown): (part: number) => void {
   const p = raw as ParentTaskInput;
   return () => {
-    const nest = parentCells(meshOf(p.coarse), meshOf(p.fine));
+    const fine = meshOf(p.fine);
+    const nest = parentCells(meshOf(p.coarse), fine);
     p.parent.set(nest.parent);
+    p.fineMeasures.set(cellMeasures(fine));
     p.nested[0] = nest.nested ? 1 : 0;
   };
 }

@@ -3,7 +3,7 @@ import { mkdirSync } from 'node:fs';
 import type { Mesh } from '../mesh/types.ts';
 import type { DiscreteField } from '../norms/types.ts';
 import type { PerCellErrors } from '../norms/errors.ts';
-import { boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
+import { adoptCellMeasures, boundaryStrips, regionErrors, cellMeasures, type RegionErrors } from '../mesh/regions.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { sharedMesh } from '../fem/team/mesh.ts';
 import { shared } from '../fem/team/shared.ts';
@@ -91,7 +91,7 @@ export function adoptPixelsAhead(mesh: Mesh): void {
 }
 
 const PARENT_TASK = taskUrl(import.meta.url, 'parent-task');
-const parentsAhead = new WeakMap<Mesh, { coarse: Mesh; settle(): boolean; parent: Int32Array; nested: Int32Array }>();
+const parentsAhead = new WeakMap<Mesh, { coarse: Mesh; settle(): boolean; parent: Int32Array; nested: Int32Array; fineMeasures: Float64Array }>();
 
 /** Starts locating the finest level's cells in the coarser level's (parentCells, for the pair's local orders) on the
  *  cell team's worker at the finest level's start (level.ts): the worker is idle while this thread sets up that
@@ -104,18 +104,20 @@ export function parentCellsAhead(coarse: Mesh, fine: Mesh): void {
   const input: ParentTaskInput = {
     coarse: sharedMesh(coarse), fine: sharedMesh(fine),
     parent: new Int32Array(new SharedArrayBuffer(4 * fine.nCells)), nested: new Int32Array(new SharedArrayBuffer(4)),
+    fineMeasures: new Float64Array(new SharedArrayBuffer(8 * fine.nCells)),
   };
   const job = team.background(PARENT_TASK, input);
-  parentsAhead.set(fine, { coarse, settle: () => job.settle(), parent: input.parent, nested: input.nested });
+  parentsAhead.set(fine, { coarse, settle: () => job.settle(), parent: input.parent, nested: input.nested, fineMeasures: input.fineMeasures });
 }
 
 /** The parents located ahead for this pair (parentCellsAhead), or null (none started, another pair, or no worker took
- *  the job: then nobody will). */
+ *  the job: then nobody will); the fine mesh's cell measures, computed with them, are adopted (cellMeasures). */
 function takeParentsAhead(coarse: Mesh, fine: Mesh): { parent: Int32Array; nested: boolean } | null {
   const pending = parentsAhead.get(fine);
   if (!pending) return null;
   parentsAhead.delete(fine);
   if (pending.coarse !== coarse || !pending.settle()) return null;
+  adoptCellMeasures(fine, pending.fineMeasures);
   return { parent: pending.parent, nested: pending.nested[0] === 1 };
 }
 

@@ -7,11 +7,15 @@ import { taskUrl } from '../../src/files/task-url.ts';
 import { adoptPixelsAhead, localOrderMap, localOrdersAhead, parentCellsAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
 import { pixelOwners } from '../../src/mesh/raster.ts';
 import { boxMesh } from '../../src/mesh/box.ts';
-import { useWorkerTeam } from '../fem/team/helpers.ts';
+import { bitDifferences, useWorkerTeam } from '../fem/team/helpers.ts';
+import { cellMeasures } from '../../src/mesh/regions.ts';
 
 // The local orders of a study's finest pair are computed on the cell team's worker while the main thread goes on
 // (src/study/where.ts, localOrdersAhead; src/fem/team/team.ts, background): the map and summary must be those the
 // main thread computes itself, the worker must really have computed them, and without a worker the main thread does.
+/** The same mesh as a new object (its measures not cached). */
+const remade = (mesh: Mesh): Mesh => ({ ...mesh, coords: mesh.coords.slice(), cells: mesh.cells.slice() });
+
 describe('local orders computed ahead on the cell team', () => {
   const square = { x: [0, 1], y: [0, 1] } as const;
   useWorkerTeam();
@@ -50,6 +54,10 @@ describe('local orders computed ahead on the cell team', () => {
     const viaWorker = localOrderMap(coarse, { ...fine, ahead: ahead! }, 0, 2, 0.1);
     expect(cellTeam().partsElsewhere - done).toBe(2); // the worker located the parents, then computed the orders
     expect(viaWorker).toEqual(plain);
+    // The fine cells' measures came with the parents (adopted, in shared memory) and are those measured here.
+    const adopted = cellMeasures(fineMesh);
+    expect(adopted.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(bitDifferences(adopted, cellMeasures(remade(fineMesh)))).toBe(0);
   });
 
   it('the nested pair gives a map with a summary (the comparison above is not between two nulls)', () => {
