@@ -3,10 +3,10 @@ import { unlink } from 'node:fs/promises';
 import { sep } from 'node:path';
 import { tempPathFor } from './atomic-write.ts';
 
-// Large files written while the computation goes on. Putting 128 MB into the page cache costs about 0.4 s of one
-// core on the machines rungs is measured on (an error map of the 2M-cell level; the same for Python's plain write,
-// so it is the kernel's copy, not rungs's), and nothing after the write needs the file: handed to libuv's threads
-// (fs/promises), it overlaps what the main thread does next (the next level, the local orders, the report).
+// Large files written while the computation goes on. Putting 128 MB into the page cache costs about 0.3–0.4 s of
+// one core on the machines rungs is measured on (an error map of the 2M-cell level; the same for Python's plain write,
+// so it is the kernel's, not rungs's), and nothing after the write needs the file: handed to libuv's threads, it
+// overlaps what the main thread does next (the next level, the local orders, the report).
 //
 // Same guarantees as writeFileAtomic: a temporary file beside the target, flushed, renamed over it; a reader sees the
 // old file or the new one. Whoever started writes must settle them (settleBackgroundWrites) before relying on the
