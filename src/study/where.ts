@@ -277,10 +277,6 @@ function vtkCoords(points: Float64Array, n: number, kind: CellKind): Float64Arra
   return out;
 }
 
-/** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s,
- *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of
- *  128 MB takes about 0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on
- *  the file. `densities` are the cell densities of the L2 and H1-seminorm errors (cellDensities). */
 /** Error files of meshes above this many cells are written raw (appended bytes), smaller ones as ASCII text. */
 const RAW_ERROR_FILE_CELLS = 200_000;
 
@@ -301,6 +297,10 @@ export function reserveLevelVtu(mesh: Mesh, studyDir: string, index: number): vo
   reserveBackgroundWrite(join(dir, 'errors.vtu'), rawVtuDataBytes(mesh, ERROR_FILE_ARRAYS.point, ERROR_FILE_ARRAYS.cell));
 }
 
+/** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s,
+ *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of
+ *  128 MB takes about 0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on
+ *  the file. `densities` are the cell densities of the L2 and H1-seminorm errors (cellDensities). */
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Float64Array; H1semi: Float64Array }, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
