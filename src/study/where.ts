@@ -34,6 +34,10 @@ export interface LevelErrorCells {
   norms: { L2: string; H1semi: string };
   /** The mesh the cells belong to when it is not the level's own (an external code's, read from its VTK file). */
   mesh?: Mesh;
+  /** u at the mesh's vertices when the level has it already, evaluated as the error file would (the coefficients of a
+   *  P1 interpolant, whose nodes are the mesh's own coordinates): the file takes them instead of evaluating u again
+   *  (1M evaluations at 1024² P1 squares). */
+  exactAtVertices?: Float64Array;
 }
 
 /** What a level keeps of its error cells: the errors per region (small, in the level's row) and, on the finest
@@ -306,10 +310,13 @@ function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Floa
   mkdirSync(dir, { recursive: true });
   const uh = vertexValues(cells.field);
   const nv = mesh.coords.length / mesh.dim;
-  const u = new Float64Array(nv), err = new Float64Array(nv);
+  const known = cells.exactAtVertices && cells.exactAtVertices.length === nv ? cells.exactAtVertices : null;
+  const u = known ?? new Float64Array(nv), err = new Float64Array(nv);
   for (let v = 0; v < nv; v++) {
-    const x = mesh.coords[v * mesh.dim]!, y = mesh.dim > 1 ? mesh.coords[v * mesh.dim + 1]! : 0, z = mesh.dim > 2 ? mesh.coords[v * mesh.dim + 2]! : 0;
-    u[v] = cells.exact(x, y, z);
+    if (!known) {
+      const x = mesh.coords[v * mesh.dim]!, y = mesh.dim > 1 ? mesh.coords[v * mesh.dim + 1]! : 0, z = mesh.dim > 2 ? mesh.coords[v * mesh.dim + 2]! : 0;
+      u[v] = cells.exact(x, y, z);
+    }
     err[v] = u[v]! - uh[v * (uh.length / nv)]!;
   }
   const components = uh.length / nv;

@@ -6,6 +6,7 @@ import type { StudyProblem } from '../problem.ts';
 import { seconds } from './types.ts';
 import type { LevelErrorCells } from '../where.ts';
 import { interpolantField } from './scalar-lagrange.ts';
+import { lagrangeFieldData } from '../../fem/field/lagrange-field.ts';
 
 /** The errors of a scalar discrete field and, in the same pass, of the nodal interpolant I_h u of that degree
  *  (the best-approximation reference of Céa's lemma), with the Céa ratio for symmetric problems. */
@@ -28,8 +29,17 @@ export function measureField(
   return {
     output: {
       errors: pick(errs), interpolationErrors: interp ? pick(interp) : undefined, quasiOptimality: quasi,
-      errorCells: { perCell, field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' } },
+      errorCells: { perCell, field, exact: exact.u, norms: { L2: 'L2', H1semi: 'H1semi' }, ...vertexValuesOf(interpField, mesh) },
     },
     seconds: seconds(t),
   };
+}
+
+/** u at the vertices from a P1 interpolant (its coefficients: u at its nodes, which are the mesh's own coordinates,
+ *  src/fem/dofmap/dofmap.ts), for the error file (where.ts); nothing for other interpolants, whose vertex nodes are
+ *  mapped from the reference cell and may lie an ulp away. */
+function vertexValuesOf(interp: DiscreteField | null, mesh: Mesh): { exactAtVertices?: Float64Array } {
+  const data = interp ? lagrangeFieldData(interp) : null;
+  if (!data || data.space.mesh !== mesh || data.space.dofCoords !== mesh.coords) return {};
+  return { exactAtVertices: data.coeffs.subarray(0, mesh.nVertices) };
 }
