@@ -10,7 +10,7 @@ import { RungsInputError, RungsNumericalError } from '../errors.ts';
 import { checkLevelMemory } from './memory-budget.ts';
 import { levelDiscretization } from './discretizations/choose.ts';
 import { seconds, type LevelEnvironment } from './discretizations/types.ts';
-import { localOrdersAhead, meshVtuArraysAhead, pairRefines, parentCellsAhead, pixelOwnersAhead, recordWhere, reserveLevelVtu, warmLocalOrders } from './where.ts';
+import { localOrdersAhead, pairRefines, parentCellsAhead, pixelOwnersAhead, recordWhere, reserveLevelVtu, warmLocalOrders } from './where.ts';
 import { releaseArenaMemory } from '../linalg/amg/seam-task.ts';
 import { startedTeam } from '../fem/team/team.ts';
 import { collectGarbage } from '../linalg/kernels/collect.ts';
@@ -75,13 +75,10 @@ async function runLevelUnguarded(
   // 1M unknowns), but given back before the level's errors and error maps (otherwise the run's peak: P1 ladder).
   const last = env.total !== undefined && index === env.total - 1;
   // The finest level's maps (and the local-order map of the level before it) have their pixels located on the cell
-  // team's worker meanwhile, the finest cells their parents for the pair's local orders and its error file the mesh's
-  // own arrays; that file's space is reserved (where.ts).
+  // team's worker meanwhile, and the finest cells their parents for the pair's local orders; its error file's space is
+  // reserved (where.ts).
   if (last && decl.discretization.kind !== 'external' && mesh) {
-    if (env.errorFiles) {
-      reserveLevelVtu(mesh, join(env.out, fileStem(decl.name)), index);
-      meshVtuArraysAhead(mesh);
-    }
+    if (env.errorFiles) reserveLevelVtu(mesh, join(env.out, fileStem(decl.name)), index);
     pixelOwnersAhead(mesh);
     if (env.localOrderPair) {
       pixelOwnersAhead(env.localOrderPair.coarse.mesh);

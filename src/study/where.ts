@@ -14,8 +14,7 @@ import { adoptPixelOwners, cellDensities, encodeErrorMap, pixelCount, rasterizeC
 import type { PixelTaskInput } from './pixel-task.ts';
 import type { ParentTaskInput } from './parent-task.ts';
 import { DEFAULT_TOLERANCE } from '../analysis/verdict.ts';
-import { adoptMeshVtuArrays, rawVtuDataBytes, sharedMeshVtuArrays, writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
-import type { MeshVtuTaskInput } from './mesh-vtu-task.ts';
+import { rawVtuDataBytes, writeVtuInBackground, vertexValues } from '../external/vtk/write.ts';
 import { reserveBackgroundWrite } from '../files/background-write.ts';
 import { readVtkFile } from '../external/vtk/read.ts';
 import { meshFromArrays } from '../mesh/from-arrays.ts';
@@ -302,30 +301,6 @@ export function reserveLevelVtu(mesh: Mesh, studyDir: string, index: number): vo
   reserveBackgroundWrite(join(dir, 'errors.vtu'), rawVtuDataBytes(mesh, ERROR_FILE_ARRAYS.point, ERROR_FILE_ARRAYS.cell));
 }
 
-const MESH_VTU_TASK = taskUrl(import.meta.url, 'mesh-vtu-task');
-const meshVtuAhead = new WeakMap<Mesh, { settle(): boolean; arrays: MeshVtuTaskInput }>();
-
-/** Starts making the mesh's own arrays of a level's raw error file (points, offsets, cell types: 43 MB of fresh
- *  memory and about 25 ms at 1024² P1 squares, which the main thread spent at the level's end while the run waited)
- *  on the cell team's worker as the level starts (level.ts, beside reserveLevelVtu); writeLevelVtu adopts them. Plane
- *  and line meshes only (a 3D mesh's coordinates are its points already); nothing without a running team. */
-export function meshVtuArraysAhead(mesh: Mesh): void {
-  const team = startedTeam();
-  if (!team || team.workers === 0 || mesh.nCells <= RAW_ERROR_FILE_CELLS || mesh.dim === 3 || meshVtuAhead.has(mesh)) return;
-  const arrays: MeshVtuTaskInput = { mesh: sharedMesh(mesh), ...sharedMeshVtuArrays(mesh) };
-  const job = team.background(MESH_VTU_TASK, arrays);
-  meshVtuAhead.set(mesh, { settle: () => job.settle(), arrays });
-}
-
-/** The arrays made ahead for this mesh (meshVtuArraysAhead), handed to the writer; without them (none started, or no
- *  worker took the job) the writer makes its own. */
-function adoptMeshVtuArraysAhead(mesh: Mesh): void {
-  const pending = meshVtuAhead.get(mesh);
-  if (!pending) return;
-  meshVtuAhead.delete(mesh);
-  if (pending.settle()) adoptMeshVtuArrays(mesh, pending.arrays);
-}
-
 /** `<study>/level-k/errors.vtu`, ASCII (exact round trip) below 200k cells, raw appended bytes above (ASCII 4.2 s,
  *  base64 1.4 s on 2M cells; raw: docs/performance-history.md). Written in the background (the kernel's copy of
  *  128 MB takes about 0.4 s of a core): whoever runs the level settles it (settleBackgroundWrites) before relying on
@@ -333,7 +308,6 @@ function adoptMeshVtuArraysAhead(mesh: Mesh): void {
 function writeLevelVtu(mesh: Mesh, cells: LevelErrorCells, densities: { L2: Float64Array; H1semi: Float64Array }, studyDir: string, index: number): void {
   const dir = levelFolder(studyDir, index);
   mkdirSync(dir, { recursive: true });
-  adoptMeshVtuArraysAhead(mesh);
   const uh = vertexValues(cells.field);
   const nv = mesh.coords.length / mesh.dim;
   const known = cells.exactAtVertices && cells.exactAtVertices.length === nv ? cells.exactAtVertices : null;

@@ -4,14 +4,7 @@ import { perturbMesh } from '../../src/mesh/perturb.ts';
 import type { Mesh } from '../../src/mesh/types.ts';
 import { cellTeam, setTeamThreads, setWorkersFirst } from '../../src/fem/team/team.ts';
 import { taskUrl } from '../../src/files/task-url.ts';
-import { adoptPixelsAhead, localOrderMap, localOrdersAhead, meshVtuArraysAhead, parentCellsAhead, pixelOwnersAhead, recordWhere, type LevelCellErrors, type LevelErrorCells } from '../../src/study/where.ts';
-import { lagrangeField } from '../../src/fem/field/lagrange-field.ts';
-import { lagrangeSpace } from '../../src/fem/dofmap/dofmap.ts';
-import { perCellArrays } from '../../src/norms/errors.ts';
-import { settleBackgroundWrites } from '../../src/files/background-write.ts';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { adoptPixelsAhead, localOrderMap, localOrdersAhead, parentCellsAhead, pixelOwnersAhead, type LevelCellErrors } from '../../src/study/where.ts';
 import { pixelOwners } from '../../src/mesh/raster.ts';
 import { boxMesh } from '../../src/mesh/box.ts';
 import { bitDifferences, useWorkerTeam } from '../fem/team/helpers.ts';
@@ -85,32 +78,6 @@ describe('local orders computed ahead on the cell team', () => {
     const here = pixelOwners(make())!; // the same mesh made again: located in this thread
     expect(here.some((c) => c >= 0)).toBe(true);
     expect(Array.from(pixelOwners(mesh)!).join()).toBe(Array.from(here).join());
-  });
-
-  it('the mesh\'s own arrays of a raw error file made ahead on the worker give the file the same bytes', async () => {
-    // 330 × 330 squares in triangles: 217,800 cells, above the raw format's threshold.
-    const make = () => rectangleMesh({ x: [0, 1], y: [0, 1], nx: 330, ny: 330, cells: 'triangles' });
-    const root = mkdtempSync(join(tmpdir(), 'rungs-mesh-vtu-'));
-    try {
-      const fileOf = async (mesh: Mesh, ahead: boolean, dir: string): Promise<Buffer> => {
-        const done = cellTeam().partsElsewhere;
-        if (ahead) meshVtuArraysAhead(mesh);
-        const space = lagrangeSpace(mesh, 1);
-        const field = lagrangeField(space, Float64Array.from({ length: space.nDofs }, (_, i) => Math.sin(i)));
-        const perCell = perCellArrays(mesh.nCells);
-        perCell.L2.fill(1e-6); perCell.H1semi.fill(1e-4);
-        const cells: LevelErrorCells = { perCell, field, exact: (x, y) => x * y, norms: { L2: 'L2', H1semi: 'H1semi' } };
-        recordWhere(mesh, cells, { study: 'tile', index: 0, total: 2, h: 1 / 330, out: join(root, dir) });
-        await settleBackgroundWrites(join(root, dir));
-        expect(cellTeam().partsElsewhere - done).toBe(ahead ? 1 : 0);
-        return readFileSync(join(root, dir, 'tile', 'level-1', 'errors.vtu'));
-      };
-      const viaWorker = await fileOf(make(), true, 'ahead'), here = await fileOf(make(), false, 'here');
-      expect(viaWorker.length).toBeGreaterThan(12 * 217_800);
-      expect(viaWorker.equals(here)).toBe(true);
-    } finally {
-      rmSync(root, { recursive: true, force: true });
-    }
   });
 
   it('a job no worker computes is left to this thread (settle false), and with one thread nothing is started', () => {

@@ -122,51 +122,14 @@ function dataArrays(input: VtuInput): DataArray[] {
   return [
     ...pointArrays.map((a) => ({ ...a, section: 'PointData', type: 'Float64' as const })),
     ...cellArrays.map((a) => ({ ...a, section: 'CellData', type: 'Float64' as const })),
-    { section: 'Points', name: null, type: 'Float64', components: 3, values: known.get(mesh)?.points ?? pointsOf(mesh) },
+    { section: 'Points', name: null, type: 'Float64', components: 3, values: pointsOf(mesh) },
     { section: 'Cells', name: 'connectivity', type: 'Int32', components: 1, values: mesh.cells.subarray(0, nCells * vpc), perLine: vpc },
     // Offsets (the end of each cell's connectivity) and types are produced as they are written, not stored; raw
     // appended data takes their bytes made in one pass instead (a DataView call per number cost about 60 ms for the
     // 2M cells of a 1024² P1 level).
-    { section: 'Cells', name: 'offsets', type: 'Int64', components: 1, count: nCells, at: (c) => (c + 1) * vpc, ...(format === 'raw' ? { bytes: () => known.get(mesh)?.offsets ?? offsetBytes(nCells, vpc) } : {}) },
-    { section: 'Cells', name: 'types', type: 'UInt8', components: 1, count: nCells, at: () => VTU_CELL_TYPE[mesh.cellKind], ...(format === 'raw' ? { bytes: () => known.get(mesh)?.types ?? typeBytes(mesh) } : {}) },
+    { section: 'Cells', name: 'offsets', type: 'Int64', components: 1, count: nCells, at: (c) => (c + 1) * vpc, ...(format === 'raw' ? { bytes: () => offsetBytes(nCells, vpc) } : {}) },
+    { section: 'Cells', name: 'types', type: 'UInt8', components: 1, count: nCells, at: () => VTU_CELL_TYPE[mesh.cellKind], ...(format === 'raw' ? { bytes: () => new Uint8Array(nCells).fill(VTU_CELL_TYPE[mesh.cellKind]) } : {}) },
   ];
-}
-
-/** The arrays of a raw .vtu that depend on the mesh alone: its points (three coordinates each), the offsets' bytes
- *  and the cell types' bytes, 43 MB for the 2M triangles of a 1024² P1 level. Made ahead where a thread has time
- *  (fillMeshVtuArrays, on the cell team's worker: src/study/where.ts) and handed to the writer (adoptMeshVtuArrays),
- *  so that the main thread neither computes them nor touches their fresh memory while the run waits. */
-export interface MeshVtuArrays { points: Float64Array; offsets: Uint8Array; types: Uint8Array }
-
-const known = new WeakMap<Mesh, MeshVtuArrays>();
-
-/** Arrays of the right sizes for fillMeshVtuArrays, in shared memory (another thread fills them). */
-export function sharedMeshVtuArrays(mesh: Mesh): MeshVtuArrays {
-  return {
-    points: new Float64Array(new SharedArrayBuffer(24 * mesh.nVertices)),
-    offsets: new Uint8Array(new SharedArrayBuffer(8 * mesh.nCells)),
-    types: new Uint8Array(new SharedArrayBuffer(mesh.nCells)),
-  };
-}
-
-/** Fills `out` with what dataArrays would compute for this mesh (the same functions: the same bytes). */
-export function fillMeshVtuArrays(mesh: Mesh, out: MeshVtuArrays): void {
-  out.points.set(pointsOf(mesh));
-  out.offsets.set(offsetBytes(mesh.nCells, mesh.verticesPerCell));
-  out.types.set(typeBytes(mesh));
-}
-
-/** Gives the writer the mesh's arrays made elsewhere (fillMeshVtuArrays); they must not change afterwards. */
-export function adoptMeshVtuArrays(mesh: Mesh, arrays: MeshVtuArrays): void {
-  if (arrays.points.length !== 3 * mesh.nVertices || arrays.offsets.length !== 8 * mesh.nCells || arrays.types.length !== mesh.nCells) {
-    throw new Error('adoptMeshVtuArrays: arrays of another mesh');
-  }
-  known.set(mesh, arrays);
-}
-
-/** The VTK cell type of every cell, as bytes. */
-function typeBytes(mesh: Mesh): Uint8Array {
-  return new Uint8Array(mesh.nCells).fill(VTU_CELL_TYPE[mesh.cellKind]);
 }
 
 /** The offsets (c + 1)·vpc of nCells cells as VTK's Int64 in this machine's byte order: two 32-bit words each, the
