@@ -102,11 +102,9 @@ export function writeFileAtomicInBackground(path: string, pieces: readonly Uint8
  *  libuv in one request before this returns; closed and renamed once written. */
 function writeNow(path: string, pieces: readonly Uint8Array[], reserved: Reservation | undefined): Promise<void> {
   let r = reserved;
-  if (r) {
-    // Its own descriptor (no O_DSYNC: the zeros need not reach the disk) is done with.
-    try { closeSync(r.fd); } catch { /* closed */ }
-    if (r.failed) { try { unlinkSync(r.temp); } catch { /* gone */ } r = undefined; }
-  }
+  if (r?.failed) { drop(r); r = undefined; }
+  // The reservation's own descriptor (no O_DSYNC: the zeros need not reach the disk) is done with.
+  if (r) try { closeSync(r.fd); } catch { /* closed */ }
   const temp = r?.temp ?? tempPathFor(path);
   let fd: number;
   try { fd = openSync(temp, r ? REOPEN : CREATE, 0o644); } catch (err) { return Promise.reject(err); }
