@@ -160,6 +160,23 @@ describe('Dirichlet dofs of P1 on tetrahedra from the facet list', () => {
   });
 });
 
+describe('Dirichlet dofs of P1 and Q1 in 2D from the facet list', () => {
+  for (const cells of ['triangles', 'quadrilaterals'] as const) {
+    it(`${cells}: exactly the closure dofs found through each facet's cell (common practice, no source)`, () => {
+      const mesh = rectangleMesh({ x: [0, 1], y: [0, 1], nx: 5, ny: 3, cells });
+      const space = lagrangeSpace(mesh, 1);
+      expect(space.cellDofs).toBe(mesh.cells); // the shortcut's condition: the dofs are the vertices, numbered alike
+      const tags = ['left', 'bottom'];
+      const sys = assembleSystem(space, { f: () => 1, hints: { f: 0 } }, { dirichlet: { tags, value: () => 0 } });
+      const fc = locateFacets(mesh);
+      const expected = facetClosureDofs(space, fc.cell, fc.local, facetsWithTags(mesh, tags));
+      expect(Array.from(sys.dirichletDofs)).toEqual(Array.from(expected));
+      // By hand: the left side has 4 vertices, the bottom 6, sharing the corner: 4 + 6 − 1 = 9.
+      expect(sys.dirichletDofs.length).toBe(9);
+    });
+  }
+});
+
 describe('the tetrahedron loop keeps the general loop\'s errors', () => {
   it('an inverted tetrahedron is refused naming the cell', () => {
     const mesh = boxMesh({ x: [0, 1], y: [0, 1], z: [0, 1], nx: 1, ny: 1, nz: 1, cells: 'tetrahedra' });
