@@ -86,6 +86,8 @@ interface Case {
   limit: number;
   driver: (dir: string) => Promise<Ran>;
   selfTest: (dir: string) => Promise<Ran>;
+  /** Why the self-test cannot run here though the driver can, or undefined. */
+  selfTestSkip?: string;
 }
 
 const C_FLAGS = ['-std=c99', '-O1', '-Wall', '-Wextra', '-pedantic', '-Werror'];
@@ -124,6 +126,8 @@ const CASES: Case[] = [
     driverFile: ['driver_scalar.py', () => pythonScalarDriver(bundle)],
     driver: (d) => run(PYTHON, ['driver_scalar.py'], d, pointInput),
     selfTest: (d) => run(PYTHON, ['rungs_data_selftest.py'], d),
+    // The self-test calls the functions on arrays too, so it needs NumPy even where the solver does not.
+    selfTestSkip: missing(PYTHON, 'python3-numpy', ['-c', 'import numpy']),
   },
   {
     language: 'javascript', skip: undefined, limit: 1e-13,
@@ -207,7 +211,7 @@ describe('generated code, compiled and run, against mathjs', () => {
         expect(a.failures, `worst ${a.worst} at ${a.where}`).toEqual([]);
       });
 
-      it('runs its generated self-test with exit status 0', () => {
+      it.skipIf(c.selfTestSkip !== undefined)(`runs its generated self-test with exit status 0${c.selfTestSkip ? ` (skipped: ${c.selfTestSkip})` : ''}`, () => {
         const { selfTest } = results.get(labelOf(c))!;
         expect(selfTest.code, `${selfTest.command}\n${selfTest.stdout}\n${selfTest.stderr}`).toBe(0);
         expect(selfTest.stdout).toMatch(/values checked, 0 failed/);
