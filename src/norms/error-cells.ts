@@ -4,6 +4,7 @@ import { mapReferencePoint } from '../fem/geometry/map.ts';
 import type { ScalarFn } from '../fem/assemble/types.ts';
 import type { DiscreteField } from './types.ts';
 import { AFFINE_CELL, type Mesh } from '../mesh/types.ts';
+import { lagrangeFieldData } from '../fem/field/lagrange-field.ts';
 
 /** u and ∇u at a point: writes ∇u to g, returns u. */
 export type ValueAndGradient = (x: number, y: number, z: number, g: Float64Array) => number;
@@ -52,11 +53,58 @@ export function errorCells(s: ErrorCells): (c0: number, c1: number, out: Float64
   // Per-cell sums of the first field live in their own locals (cl2, ch1), added to beside the totals from the same
   // products, so the totals' operations and their order are those of an integration without them (same bits).
   const pcL2 = s.perCellL2, pcH1 = s.perCellH1;
+  const p1 = dim === 2 && affine && nf <= 2 ? p1Fields(mesh, fields, pts, nq) : null;
   return (c0, c1, out, o) => {
     l2.fill(0); h1.fill(0); en.fill(0);
     let l2a = 0, h1a = 0, ena = 0, l2b = 0, h1b = 0, enb = 0;
     const first = c0 <= start ? start : start + Math.ceil((c0 - start) / stride) * stride;
-    for (let c = first; c < c1; c += stride) {
+    if (p1) {
+      // P1 fields on triangles: each field's values and its one gradient per cell computed here, as its evaluate
+      // computes them (lagrange-field.ts: the same products and sums in the same order, with the inverse Jacobian
+      // of the same cellJacobian call), instead of by a call per field with a Jacobian of its own; the same bits.
+      // Measured on 2M triangles: about a quarter of the error pass (Intel Xeon VM, 2 cores).
+      const fb = nf > 1 ? 1 : 0;
+      const tv = p1.tv[0], t0 = p1.tg[0][0], t1 = p1.tg[0][1], t2 = p1.tg[0][2], t3 = p1.tg[0][3], t4 = p1.tg[0][4], t5 = p1.tg[0][5];
+      const sv = p1.tv[fb], s0 = p1.tg[fb][0], s1 = p1.tg[fb][1], s2 = p1.tg[fb][2], s3 = p1.tg[fb][3], s4 = p1.tg[fb][4], s5 = p1.tg[fb][5];
+      const ua = p1.coeffs[0], ub = p1.coeffs[fb];
+      // Read at each call, not captured: the cell team may move a space's arrays into shared memory meanwhile.
+      const da = p1.spaces[0].cellDofs, db = p1.spaces[fb].cellDofs;
+      for (let c = first; c < c1; c += stride) {
+        const det = Math.abs(cellJacobian(mesh, c, pts, 0, J, invJ));
+        const i00 = invJ[0], i01 = invJ[1], i10 = invJ[2], i11 = invJ[3];
+        const a0 = ua[da[3 * c]], a1 = ua[da[3 * c + 1]], a2 = ua[da[3 * c + 2]];
+        const ga0 = a0 * t0 + a1 * t2 + a2 * t4, ga1 = a0 * t1 + a1 * t3 + a2 * t5;
+        const ea0 = i00 * ga0 + i10 * ga1, ea1 = i01 * ga0 + i11 * ga1;
+        const b0 = ub[db[3 * c]], b1 = ub[db[3 * c + 1]], b2 = ub[db[3 * c + 2]];
+        const gb0 = b0 * s0 + b1 * s2 + b2 * s4, gb1 = b0 * s1 + b1 * s3 + b2 * s5;
+        const eb0 = i00 * gb0 + i10 * gb1, eb1 = i01 * gb0 + i11 * gb1;
+        const v0 = cells[c * vpc] * 2;
+        const x0 = coords[v0], y0 = coords[v0 + 1], j00 = J[0], j01 = J[1], j10 = J[2], j11 = J[3];
+        let cl2 = 0, ch1 = 0;
+        for (let q = 0; q < nq; q++) {
+          const s = pts[2 * q], t = pts[2 * q + 1];
+          const X = x0 + j00 * s + j01 * t, Y = y0 + j10 * s + j11 * t;
+          const w = wts[q] * det;
+          const u = uAndG(X, Y, 0, g);
+          const kq = kf ? kf(X, Y, 0) : 1;
+          const cq = cf ? cf(X, Y, 0) : 0;
+          const gu0 = g[0], gu1 = g[1];
+          const vo = 3 * q;
+          let e = u - (a0 * tv[vo] + a1 * tv[vo + 1] + a2 * tv[vo + 2]), d0 = gu0 - ea0, d1 = gu1 - ea1;
+          let ge = d0 * d0 + d1 * d1;
+          const we2 = w * e * e, wge = w * ge;
+          l2a += we2; h1a += wge; ena += w * (kq * ge + cq * e * e);
+          cl2 += we2; ch1 += wge;
+          if (nf > 1) {
+            e = u - (b0 * sv[vo] + b1 * sv[vo + 1] + b2 * sv[vo + 2]); d0 = gu0 - eb0; d1 = gu1 - eb1;
+            ge = d0 * d0 + d1 * d1;
+            l2b += w * e * e; h1b += w * ge; enb += w * (kq * ge + cq * e * e);
+          }
+        }
+        if (pcL2 !== null) { pcL2[c] = cl2; pcH1![c] = ch1; }
+      }
+    }
+    for (let c = p1 ? c1 : first; c < c1; c += stride) {
       for (let f = 0; f < nf; f++) fields[f].evaluate(c, pts, nq, vals[f], grads[f]);
       let det = 0;
       const v0 = cells[c * vpc] * dim;
@@ -156,4 +204,19 @@ export function errorCells(s: ErrorCells): (c0: number, c1: number, out: Float64
     if (nf > 1) { l2[1] += l2b; h1[1] += h1b; en[1] += enb; }
     for (let f = 0; f < nf; f++) { out[o + 3 * f] = l2[f]; out[o + 3 * f + 1] = h1[f]; out[o + 3 * f + 2] = en[f]; }
   };
+}
+
+/** The P1 fields' data when every field is a Lagrange P1 field on this mesh of triangles (lagrange-field.ts), with
+ *  each field's element values and gradients at the rule's points as its evaluate tabulates them; else null. */
+function p1Fields(mesh: Mesh, fields: DiscreteField[], pts: Float64Array, nq: number) {
+  if (mesh.cellKind !== 'triangle' || fields.length === 0) return null;
+  const data = fields.map((f) => lagrangeFieldData(f));
+  const tv: Float64Array[] = [], tg: Float64Array[] = [];
+  for (const d of data) {
+    if (!d || d.space.mesh !== mesh || d.space.element.degree !== 1 || d.space.element.nDofs !== 3) return null;
+    const v = new Float64Array(nq * 3), g = new Float64Array(nq * 6);
+    d.space.element.tabulate(pts, nq, v, g);
+    tv.push(v); tg.push(g);
+  }
+  return { tv, tg, coeffs: data.map((d) => d!.coeffs), spaces: data.map((d) => d!.space) };
 }
