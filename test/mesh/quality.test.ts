@@ -3,6 +3,7 @@ import { RungsInputError } from '../../src/errors.ts';
 import { signedCellMeasure } from '../../src/mesh/measure.ts';
 import { cellDiameter, checkMesh, computeH, meshSummary } from '../../src/mesh/quality.ts';
 import { rectangleMesh } from '../../src/mesh/rectangle.ts';
+import { perturbMesh } from '../../src/mesh/perturb.ts';
 import type { CellKind, Mesh } from '../../src/mesh/types.ts';
 
 /** A hand-built mesh; facets and h left for the test to choose. */
@@ -40,6 +41,15 @@ describe('cellDiameter and computeH', () => {
     expect(cellDiameter(mesh, 0)).toBe(5);
     expect(computeH(mesh)).toBe(5);
     expect(signedCellMeasure(mesh, 0)).toBe(6);
+  });
+
+  it('computeH of triangles (its own loop) is the largest cellDiameter, bit for bit, on a perturbed mesh', () => {
+    const mesh = perturbMesh(rectangleMesh({ x: [0, 1.3], y: [0, 1], nx: 13, ny: 9, cells: 'triangles' }), { fraction: 0.2, seed: 4 });
+    let largest = 0;
+    for (let c = 0; c < mesh.nCells; c++) largest = Math.max(largest, cellDiameter(mesh, c));
+    expect(Object.is(computeH(mesh), largest)).toBe(true);
+    // Unperturbed: the longest edge is a diagonal of a 0.1 × 1/9 square (common practice, no source).
+    expect(computeH(rectangleMesh({ x: [0, 1.3], y: [0, 1], nx: 13, ny: 9, cells: 'triangles' }))).toBeCloseTo(Math.hypot(0.1, 1 / 9), 14);
   });
 
   it('a flat trapezoid has its long base, not a diagonal, as diameter', () => {
