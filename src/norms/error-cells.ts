@@ -209,8 +209,9 @@ export function errorCells(s: ErrorCells): (c0: number, c1: number, out: Float64
 }
 
 /** The P1 fields' data when every field is a Lagrange P1 field on this mesh of triangles (lagrange-field.ts), with
- *  each field's element values and gradients at the rule's points as its evaluate tabulates them; else null. */
-function p1Fields(mesh: Mesh, fields: DiscreteField[], pts: Float64Array, nq: number) {
+ *  each field's element values and gradients at the rule's points as its evaluate tabulates them; else null (exported for
+ *  its test, which checks that the loop for P1 is the one taken). */
+export function p1Fields(mesh: Mesh, fields: DiscreteField[], pts: Float64Array, nq: number) {
   if (mesh.cellKind !== 'triangle' || fields.length === 0) return null;
   const data = fields.map((f) => lagrangeFieldData(f));
   const tv: Float64Array[] = [], tg: Float64Array[] = [];
