@@ -1,6 +1,6 @@
 import { reinitCell } from '../geometry/cellvalues.ts';
 import type { CellValues } from '../geometry/cellvalues.ts';
-import { checkFinite } from './check-finite.ts';
+import { failAtPoint2D } from './check-finite.ts';
 import type { CellLoop, CellLoopInput } from './cell-set.ts';
 
 /**
@@ -80,7 +80,7 @@ export function p1TriangleCells(p: CellLoopInput, general: CellLoop): CellLoop {
           let X = x0; X += j0 * sq; X += j1 * tq;
           let Y = y0; Y += j2 * sq; Y += j3 * tq;
           const kq = kf(X, Y, 0);
-          if (!Number.isFinite(kq)) failAt(kq, 'conductivity k', c, X, Y);
+          if (!Number.isFinite(kq)) failAtPoint2D(kq, 'conductivity k', c, X, Y);
           w *= kq;
         }
         kaa += w * saa; kab += w * sab; kac += w * sac; kbb += w * sbb; kbc += w * sbc; kcc += w * scc;
@@ -91,7 +91,7 @@ export function p1TriangleCells(p: CellLoopInput, general: CellLoop): CellLoop {
         let X = x0; X += j0 * sq; X += j1 * tq;
         let Y = y0; Y += j2 * sq; Y += j3 * tq;
         const fq = ff!(X, Y, 0);
-        if (!Number.isFinite(fq)) failAt(fq, 'source f', c, X, Y);
+        if (!Number.isFinite(fq)) failAtPoint2D(fq, 'source f', c, X, Y);
         const w = wtsF[q] * det * fq;
         fa += w * valF[3 * q]; fb += w * valF[3 * q + 1]; fc += w * valF[3 * q + 2];
       }
@@ -126,9 +126,4 @@ function sameAtEveryPoint(cv: CellValues): boolean {
   const g = cv.refGrads, per = cv.n * cv.dim;
   for (let q = 1; q < cv.nq; q++) for (let k = 0; k < per; k++) if (!Object.is(g[q * per + k], g[k])) return false;
   return true;
-}
-
-function failAt(v: number, what: string, c: number, X: number, Y: number): never {
-  checkFinite(v, what, c, Float64Array.of(X, Y, 0), 0);
-  throw new Error('internal: checkFinite passed a value that is not finite');
 }

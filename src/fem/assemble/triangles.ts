@@ -1,5 +1,5 @@
 import { reinitCell } from '../geometry/cellvalues.ts';
-import { checkFinite } from './check-finite.ts';
+import { failAtPoint2D } from './check-finite.ts';
 import { scatterCell } from './general-cells.ts';
 import type { CellLoop, CellLoopInput } from './cell-set.ts';
 
@@ -50,7 +50,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
             let X = x0; X += j0 * s; X += j1 * t;
             let Y = y0; Y += j2 * s; Y += j3 * t;
             const kq = kf(X, Y, 0);
-            if (!Number.isFinite(kq)) failAt(kq, 'conductivity k', c, X, Y);
+            if (!Number.isFinite(kq)) failAtPoint2D(kq, 'conductivity k', c, X, Y);
             w *= kq;
           }
           const o = q * n * 2;
@@ -78,7 +78,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
           let X = x0; X += j0 * s; X += j1 * t;
           let Y = y0; Y += j2 * s; Y += j3 * t;
           bf(X, Y, 0, vecB);
-          for (let d = 0; d < 2; d++) if (!Number.isFinite(vecB[d])) failAt(vecB[d], `convection b[${d}]`, c, X, Y);
+          for (let d = 0; d < 2; d++) if (!Number.isFinite(vecB[d])) failAtPoint2D(vecB[d], `convection b[${d}]`, c, X, Y);
           const w = wts[q] * det;
           const o = q * n * 2;
           const v0 = vecB[0], v1 = vecB[1];
@@ -100,7 +100,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
           let X = x0; X += j0 * s; X += j1 * t;
           let Y = y0; Y += j2 * s; Y += j3 * t;
           const cq = cf(X, Y, 0);
-          if (!Number.isFinite(cq)) failAt(cq, 'reaction c', c, X, Y);
+          if (!Number.isFinite(cq)) failAtPoint2D(cq, 'reaction c', c, X, Y);
           const w = (wts[q] * det) * cq;
           for (let i = 0; i < n; i++) {
             const wi = w * values[q * n + i];
@@ -116,7 +116,7 @@ export function triangleCells(p: CellLoopInput): CellLoop {
           let X = x0; X += j0 * s; X += j1 * t;
           let Y = y0; Y += j2 * s; Y += j3 * t;
           const fq = ff(X, Y, 0);
-          if (!Number.isFinite(fq)) failAt(fq, 'source f', c, X, Y);
+          if (!Number.isFinite(fq)) failAtPoint2D(fq, 'source f', c, X, Y);
           const w = (wts[q] * det) * fq;
           const vo = q * n;
           for (let i = 0; i < n; i++) Fe[i] += w * values[vo + i];
@@ -128,7 +128,3 @@ export function triangleCells(p: CellLoopInput): CellLoop {
 }
 
 /** The reference loop's message for a value that is not finite at a point of a cell. */
-function failAt(v: number, what: string, c: number, X: number, Y: number): never {
-  checkFinite(v, what, c, Float64Array.of(X, Y, 0), 0);
-  throw new Error('internal: checkFinite passed a value that is not finite');
-}
